@@ -1,0 +1,132 @@
+package eos
+
+import (
+	"errors"
+	"fmt"
+)
+
+// Sentinel errors of the iterative solvers. Solvers wrap them in *SolveError.
+var (
+	ErrNoConvergence = errors.New("iteration did not converge")
+	ErrNoSaturation  = errors.New("no saturation point at this temperature")
+	ErrBadState      = errors.New("temperature or pressure not finite and positive")
+)
+
+// SolveError says where an iterative solve stopped, in the manner of strconv.NumError.
+type SolveError struct {
+	Op       string  // "Flash", "UpperSaturation", "Envelope", ...
+	Iter     int     // iterations taken
+	Residual float64 // final residual of the solver's convergence measure
+	Err      error   // ErrNoConvergence, ErrNoSaturation, ...
+}
+
+func (e *SolveError) Error() string {
+	return fmt.Sprintf("eos.%s: %v after %d iterations (residual %.3g)", e.Op, e.Err, e.Iter, e.Residual)
+}
+
+// Unwrap lets errors.Is(err, ErrNoConvergence) work.
+func (e *SolveError) Unwrap() error { return e.Err }
+
+// Phase labels a single phase or the root of the cubic chosen for it.
+type Phase int
+
+const (
+	// Vapour is the lighter phase: the larger-volume root, or the lower mass density.
+	Vapour Phase = iota
+	// Liquid is the denser phase.
+	Liquid
+)
+
+func (p Phase) String() string {
+	if p == Liquid {
+		return "liquid"
+	}
+	return "vapour"
+}
+
+// Settings controls the iterative solvers. A nil *Settings means all defaults.
+type Settings struct {
+	Tol     float64 // max |ln f_i^L − ln f_i^V| at convergence; 0 means 1e-12
+	MaxIter int     // iteration limit for each stage of a solve; 0 means 200
+}
+
+func (s *Settings) tol() float64 {
+	if s == nil || s.Tol <= 0 {
+		return 1e-12
+	}
+	return s.Tol
+}
+
+func (s *Settings) maxIter() int {
+	if s == nil || s.MaxIter <= 0 {
+		return 200
+	}
+	return s.MaxIter
+}
+
+// PhaseProps are the properties of one phase. Volumes and densities include
+// the Peneloux translation when the fluid was built with VolumeShift.
+type PhaseProps struct {
+	Z   float64 // compressibility factor P v/(R T)
+	V   float64 // molar volume, m³/mol
+	Rho float64 // mass density, kg/m³
+	M   float64 // molar mass, kg/mol
+}
+
+// FlashResult is the outcome of a PT flash. X and Y are owned by the result
+// and reused by later flashes into the same value.
+type FlashResult struct {
+	Phases int       // 1 or 2
+	Beta   float64   // vapour mole fraction of the feed: 0 or 1 when single phase
+	Single Phase     // the phase label when Phases == 1
+	X, Y   []float64 // liquid and vapour mole fractions; both equal the feed when single phase
+	L, V   PhaseProps
+	Iter   int     // total iterations (stability + successive substitution + Newton)
+	Resid  float64 // max |ln f_i^L − ln f_i^V| at the solution (0 when single phase)
+}
+
+// SatType is the kind of a saturation point.
+type SatType int
+
+const (
+	// Dew: the feed is vapour and an incipient liquid appears.
+	Dew SatType = iota
+	// Bubble: the feed is liquid and an incipient vapour appears.
+	Bubble
+)
+
+func (t SatType) String() string {
+	if t == Bubble {
+		return "bubble"
+	}
+	return "dew"
+}
+
+// Saturation is a saturation point of a feed at a temperature.
+type Saturation struct {
+	Type      SatType
+	T, P      float64   // K, Pa
+	Incipient []float64 // composition of the incipient phase
+	Feed      PhaseProps
+	Inc       PhaseProps // incipient-phase properties
+	Iter      int
+	Resid     float64 // max |ln f_i(feed) − ln f_i(incipient)|
+}
+
+// EnvelopePoint is one converged point of a phase envelope.
+type EnvelopePoint struct {
+	T, P float64 // K, Pa
+	// Type is Dew on the branch where the feed is the lighter phase and
+	// Bubble past the critical point.
+	Type SatType
+	K    []float64 // K_i = y_i/x_i between the feed and the incipient phase (feed/incipient on the dew branch)
+}
+
+// Envelope is a traced phase envelope.
+type Envelope struct {
+	Points         []EnvelopePoint // in the order traced: dew branch from low pressure, through the critical point, bubble branch
+	HasCritical    bool
+	Critical       [2]float64 // T (K), P (Pa) of the critical point, when HasCritical
+	Cricondenbar   [2]float64 // T, P at the maximum pressure
+	Cricondentherm [2]float64 // T, P at the maximum temperature
+}
