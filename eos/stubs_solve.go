@@ -36,4 +36,6 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) { ret
 
 // PureSaturationPressure returns the vapour pressure of component c at t < Tc
 // on the Peng–Robinson equation eq, where the liquid and vapour fugacities are equal.
-func PureSaturationPressure(c Component, eq Equation, t float64) (float64, error) { return 0, errNotYet }
+func PureSaturationPressure(c Component, eq Equation, t float64) (float64, error) {
+	return 0, errNotYet
+}
