@@ -1,0 +1,289 @@
+package eos
+
+import "math"
+
+// A Flasher keeps the scratch space for repeated flashes of one Fluid.
+// Not safe for concurrent use: one per goroutine.
+type Flasher struct {
+	w *work
+}
+
+// NewFlasher returns a Flasher for fl. A nil s means default settings.
+func NewFlasher(fl *Fluid, s *Settings) *Flasher { return &Flasher{w: newWork(fl, s)} }
+
+// Fluid returns the fluid the Flasher was made for.
+func (f *Flasher) Fluid() *Fluid { return f.w.fl }
+
+// Flash writes into dst the equilibrium of feed z (mole fractions summing to 1)
+// at t (K) and p (Pa), following Michelsen (1982a, 1982b):
+//
+//  1. the tangent-plane stability test from Wilson K-values with liquid-like and
+//     vapour-like trial phases; a stable feed is returned as one phase;
+//  2. successive substitution on ln K from the unstable trial phase, with
+//     Rachford–Rice for the split and a dominant-eigenvalue (GDEM) jump every
+//     fifth step (Crowe and Nishio 1975);
+//  3. Newton steps on the Gibbs energy in the vapour mole numbers with the
+//     analytic Hessian, guarded by a line search, until every
+//     |ln f_i^L − ln f_i^V| is below the tolerance.
+//
+// The vapour is the phase of lower mass density. Special cases:
+//   - t or p not finite and positive: *SolveError wrapping ErrBadState;
+//   - no convergence: *SolveError wrapping ErrNoConvergence, dst holds the last iterate.
+//
+// len(z) must equal the number of components.
+func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
+	w := f.w
+	w.fl.checkLen(z)
+	if len(dst.X) != w.n {
+		dst.X = make([]float64, w.n)
+		dst.Y = make([]float64, w.n)
+	}
+	if !validState(t, p) {
+		return &SolveError{Op: "Flash", Err: ErrBadState}
+	}
+	w.fl.setT(&w.ts, t)
+	w.prepareFeed(p, z)
+	liq, vap := w.stability(p, z, true)
+	iter := liq.iter + vap.iter
+	if !liq.unstable && !vap.unstable {
+		if !liq.ok || !vap.ok {
+			return &SolveError{Op: "Flash", Iter: iter, Residual: math.NaN(), Err: ErrNoConvergence}
+		}
+		w.single(dst, t, p, z, iter)
+		return nil
+	}
+	// Initial K from the trial phase(s) that showed instability.
+	for i, zi := range z {
+		switch {
+		case zi == 0:
+			w.lnK[i] = 0
+		case liq.unstable && vap.unstable:
+			w.lnK[i] = math.Log(w.wVap[i] / w.wLiq[i])
+		case liq.unstable:
+			w.lnK[i] = math.Log(zi / w.wLiq[i])
+		default:
+			w.lnK[i] = math.Log(w.wVap[i] / zi)
+		}
+	}
+	beta, it, res, ok := w.split(t, p, z)
+	iter += it
+	if !ok || !(beta > 0 && beta < 1) {
+		dst.Iter, dst.Resid = iter, res
+		return &SolveError{Op: "Flash", Iter: iter, Residual: res, Err: ErrNoConvergence}
+	}
+	w.twoPhase(dst, t, p, z, beta, iter, res)
+	return nil
+}
+
+// split converges the two-phase split from w.lnK. It returns β, the
+// iterations, the final residual and whether it converged; on success the
+// liquid and vapour compositions are in w.x and w.y and evaluated in w.pa, w.pb.
+func (w *work) split(t, p float64, z []float64) (beta float64, iter int, res float64, ok bool) {
+	n := w.n
+	fl := w.fl
+	beta = 0.5
+	const ssMax = 12 // substitution steps before Newton takes over
+	for it := 1; it <= w.max; it++ {
+		iter = it
+		for i := 0; i < n; i++ {
+			w.K[i] = math.Exp(w.lnK[i])
+		}
+		beta = rachfordRice(z, w.K, beta)
+		if math.IsInf(beta, 0) {
+			return beta, iter, math.NaN(), false
+		}
+		rrPhases(z, w.K, beta, w.x, w.y)
+		normalise(w.x)
+		normalise(w.y)
+		fl.evalPhase(&w.pa, &w.ts, p, w.x, rootMinG, 0)
+		fl.evalPhase(&w.pb, &w.ts, p, w.y, rootMinG, 0)
+		res = 0
+		triv := 0.0
+		for i := 0; i < n; i++ {
+			if z[i] == 0 {
+				w.r[i] = 0
+				continue
+			}
+			w.r[i] = w.pa.lnphi[i] - w.pb.lnphi[i] - w.lnK[i]
+			res = math.Max(res, math.Abs(w.r[i]))
+			triv += w.lnK[i] * w.lnK[i]
+		}
+		if res < w.tol && beta > 0 && beta < 1 {
+			return beta, iter, res, true
+		}
+		if triv < 1e-10 {
+			return beta, iter, res, false // collapsed onto the trivial solution
+		}
+		if (it >= 3 && res < 1e-2 || it >= ssMax) && beta > 0 && beta < 1 {
+			bn, itn, resn, okn := w.newtonSplit(t, p, z, beta)
+			iter += itn
+			if okn {
+				return bn, iter, resn, true
+			}
+			// Newton failed: carry on substituting from where it stopped.
+		}
+		copy(w.lnK2, w.lnK1)
+		copy(w.lnK1, w.lnK)
+		for i := 0; i < n; i++ {
+			w.lnK[i] += w.r[i]
+		}
+		if it%5 == 0 {
+			w.gdem()
+		}
+	}
+	return beta, iter, res, false
+}
+
+// gdem applies the one-eigenvalue dominant-eigenvalue extrapolation to ln K
+// (Crowe and Nishio 1975, as used by Michelsen 1982b): with Δ_k the last two
+// changes, λ = Δ_k·Δ_k / Δ_{k−1}·Δ_k and ln K += Δ_k λ/(1 − λ).
+func (w *work) gdem() {
+	num, den := 0.0, 0.0
+	for i := range w.lnK {
+		d1 := w.lnK[i] - w.lnK1[i]
+		d0 := w.lnK1[i] - w.lnK2[i]
+		num += d1 * d1
+		den += d0 * d1
+	}
+	if den == 0 {
+		return
+	}
+	lam := num / den
+	if !(lam > 0 && lam < 0.98) {
+		return
+	}
+	c := lam / (1 - lam)
+	for i := range w.lnK {
+		w.lnK[i] += c * (w.lnK[i] - w.lnK1[i])
+	}
+}
+
+// newtonSplit minimises the Gibbs energy of the split in the vapour mole
+// numbers v_i (liquid l_i = z_i − v_i). Gradient g_i = ln f_i^V − ln f_i^L;
+// Hessian (δ_ij z_i/(x_i y_i) − 1)/(β(1−β)) + Φ^V_ij/β + Φ^L_ij/(1−β), with Φ
+// the composition derivatives n ∂ln φ_i/∂n_j of each phase.
+func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, int, float64, bool) {
+	n := w.n
+	fl := w.fl
+	for i := 0; i < n; i++ {
+		w.v[i] = beta * w.y[i]
+		w.l[i] = z[i] - w.v[i]
+	}
+	gOld := math.Inf(1)
+	res := math.Inf(1)
+	for it := 1; it <= 30; it++ {
+		V, L := 0.0, 0.0
+		for i := 0; i < n; i++ {
+			V += w.v[i]
+			L += w.l[i]
+		}
+		for i := 0; i < n; i++ {
+			w.y[i] = w.v[i] / V
+			w.x[i] = w.l[i] / L
+		}
+		fl.evalPhase(&w.pb, &w.ts, p, w.y, rootMinG, dN)
+		fl.evalPhase(&w.pa, &w.ts, p, w.x, rootMinG, dN)
+		G := 0.0
+		res = 0
+		for i := 0; i < n; i++ {
+			if z[i] == 0 {
+				w.g[i] = 0
+				continue
+			}
+			lfv := math.Log(w.y[i]) + w.pb.lnphi[i]
+			lfl := math.Log(w.x[i]) + w.pa.lnphi[i]
+			G += w.v[i]*lfv + w.l[i]*lfl
+			w.g[i] = lfv - lfl
+			res = math.Max(res, math.Abs(w.g[i]))
+		}
+		if G > gOld+1e-10*math.Abs(gOld) && res > w.tol {
+			return V, it, res, false // uphill: let substitution take over
+		}
+		gOld = G
+		if res < w.tol {
+			for i := 0; i < n; i++ {
+				if z[i] > 0 {
+					w.lnK[i] = math.Log(w.y[i] / w.x[i])
+				}
+			}
+			return V, it, res, true
+		}
+		H := w.H[:n*n]
+		c := 1 / (V * L)
+		for i := 0; i < n; i++ {
+			for j := 0; j < n; j++ {
+				H[i*n+j] = -c + w.pb.dn[i*n+j]/V + w.pa.dn[i*n+j]/L
+			}
+			if z[i] > 0 {
+				H[i*n+i] += c * z[i] / (w.x[i] * w.y[i])
+			} else {
+				for j := 0; j < n; j++ {
+					H[i*n+j], H[j*n+i] = 0, 0
+				}
+				H[i*n+i] = 1
+			}
+			w.s[i] = -w.g[i]
+		}
+		if !cholSolve(H, n, w.s) {
+			return V, it, res, false
+		}
+		// Keep every mole number strictly inside (0, z_i).
+		step := 1.0
+		for i := 0; i < n; i++ {
+			if z[i] == 0 {
+				continue
+			}
+			if nv := w.v[i] + step*w.s[i]; nv <= 0 {
+				step = math.Min(step, 0.9*w.v[i]/-w.s[i])
+			} else if nv >= z[i] {
+				step = math.Min(step, 0.9*w.l[i]/w.s[i])
+			}
+		}
+		for i := 0; i < n; i++ {
+			w.v[i] += step * w.s[i]
+			w.l[i] = z[i] - w.v[i]
+		}
+	}
+	return 0, 30, res, false
+}
+
+func normalise(x []float64) {
+	s := 0.0
+	for _, v := range x {
+		s += v
+	}
+	for i := range x {
+		x[i] /= s
+	}
+}
+
+func (w *work) single(dst *FlashResult, t, p float64, z []float64, iter int) {
+	copy(dst.X, z)
+	copy(dst.Y, z)
+	pp := w.fl.props(&w.feed, t, p, z)
+	dst.Phases, dst.Iter, dst.Resid = 1, iter, 0
+	dst.Single = w.feed.label
+	dst.L, dst.V = pp, pp
+	if w.feed.label == Liquid {
+		dst.Beta = 0
+	} else {
+		dst.Beta = 1
+	}
+}
+
+func (w *work) twoPhase(dst *FlashResult, t, p float64, z []float64, beta float64, iter int, res float64) {
+	lp := w.fl.props(&w.pa, t, p, w.x)
+	vp := w.fl.props(&w.pb, t, p, w.y)
+	if vp.Rho > lp.Rho { // label the lighter phase vapour
+		lp, vp = vp, lp
+		beta = 1 - beta
+		copy(dst.X, w.y)
+		copy(dst.Y, w.x)
+	} else {
+		copy(dst.X, w.x)
+		copy(dst.Y, w.y)
+	}
+	dst.Phases, dst.Beta, dst.Iter, dst.Resid = 2, beta, iter, res
+	dst.L, dst.V = lp, vp
+	dst.Single = Vapour
+}

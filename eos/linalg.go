@@ -1,0 +1,87 @@
+package eos
+
+import "math"
+
+// Small dense solvers working in place on caller-owned storage, so the hot
+// loops of the flash and saturation solvers allocate nothing.
+
+// luSolve solves a·x = b for x by Gaussian elimination with partial pivoting.
+// a is n×n row-major and is overwritten; b is overwritten by x. It reports
+// false when a is singular to working precision.
+func luSolve(a []float64, n int, b []float64) bool {
+	for k := 0; k < n; k++ {
+		piv, big := k, math.Abs(a[k*n+k])
+		for i := k + 1; i < n; i++ {
+			if v := math.Abs(a[i*n+k]); v > big {
+				piv, big = i, v
+			}
+		}
+		if big == 0 || math.IsNaN(big) {
+			return false
+		}
+		if piv != k {
+			for j := 0; j < n; j++ {
+				a[k*n+j], a[piv*n+j] = a[piv*n+j], a[k*n+j]
+			}
+			b[k], b[piv] = b[piv], b[k]
+		}
+		inv := 1 / a[k*n+k]
+		for i := k + 1; i < n; i++ {
+			m := a[i*n+k] * inv
+			if m == 0 {
+				continue
+			}
+			for j := k + 1; j < n; j++ {
+				a[i*n+j] -= m * a[k*n+j]
+			}
+			b[i] -= m * b[k]
+		}
+	}
+	for i := n - 1; i >= 0; i-- {
+		s := b[i]
+		for j := i + 1; j < n; j++ {
+			s -= a[i*n+j] * b[j]
+		}
+		b[i] = s / a[i*n+i]
+	}
+	return true
+}
+
+// cholSolve solves a·x = b for symmetric positive-definite a (n×n row-major,
+// overwritten by its Cholesky factor); b is overwritten by x. It reports false
+// when a is not positive definite.
+func cholSolve(a []float64, n int, b []float64) bool {
+	for j := 0; j < n; j++ {
+		s := a[j*n+j]
+		for k := 0; k < j; k++ {
+			s -= a[j*n+k] * a[j*n+k]
+		}
+		if !(s > 0) {
+			return false
+		}
+		d := math.Sqrt(s)
+		a[j*n+j] = d
+		for i := j + 1; i < n; i++ {
+			s := a[i*n+j]
+			for k := 0; k < j; k++ {
+				s -= a[i*n+k] * a[j*n+k]
+			}
+			a[i*n+j] = s / d
+		}
+	}
+	for i := 0; i < n; i++ {
+		s := b[i]
+		for k := 0; k < i; k++ {
+			s -= a[i*n+k] * b[k]
+		}
+		b[i] = s / a[i*n+i]
+	}
+	for i := n - 1; i >= 0; i-- {
+		s := b[i]
+		for k := i + 1; k < n; k++ {
+			s -= a[k*n+i] * b[k]
+		}
+		b[i] = s / a[i*n+i]
+	}
+	return true
+}

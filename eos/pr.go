@@ -1,0 +1,336 @@
+package eos
+
+import "math"
+
+// Peng–Robinson mixture thermodynamics in the reduced residual Helmholtz form of
+// Michelsen and Mollerup (2007, ch. 3): for n moles in volume V,
+//
+//	F(n, T, V) = A_res/(R T) = −n g(V, B) − D(T)/T · f(V, B)
+//	g = ln(1 − B/V),  f = ln[(V + δ1 B)/(V + δ2 B)] / (R B (δ1 − δ2))
+//	B = Σ n_i b_i,  D = Σ_i Σ_j n_i n_j a_ij,  δ1,2 = 1 ± √2
+//
+// from which ln φ_i = ∂F/∂n_i − ln Z, and the composition, pressure and
+// temperature derivatives of ln φ follow by the chain rule. Every evaluation
+// here is for one mole (n = 1), so "∂ ln φ_i/∂n_j" means n ∂ ln φ_i/∂n_j.
+
+const (
+	delta1 = 1 + math.Sqrt2
+	delta2 = 1 - math.Sqrt2
+)
+
+// tstate caches the temperature-dependent attraction parameters of a fluid.
+type tstate struct {
+	t    float64
+	a    []float64 // a_i(T)
+	da   []float64 // da_i/dT
+	aij  []float64 // (1 − k_ij) √(a_i a_j)
+	daij []float64 // d a_ij/dT
+}
+
+func newTState(n int) tstate {
+	return tstate{
+		t:    math.NaN(),
+		a:    make([]float64, n),
+		da:   make([]float64, n),
+		aij:  make([]float64, n*n),
+		daij: make([]float64, n*n),
+	}
+}
+
+// setT fills ts for temperature t unless it already holds it.
+func (f *Fluid) setT(ts *tstate, t float64) {
+	if ts.t == t {
+		return
+	}
+	n := f.n
+	for i := 0; i < n; i++ {
+		sq := math.Sqrt(t / f.tc[i])
+		m := 1 + f.kappa[i]*(1-sq)
+		ts.a[i] = f.ac[i] * m * m
+		ts.da[i] = -f.ac[i] * f.kappa[i] * m / math.Sqrt(t*f.tc[i])
+	}
+	for i := 0; i < n; i++ {
+		for j := i; j < n; j++ {
+			aij := (1 - f.kij[i*n+j]) * math.Sqrt(ts.a[i]*ts.a[j])
+			daij := 0.5 * aij * (ts.da[i]/ts.a[i] + ts.da[j]/ts.a[j])
+			ts.aij[i*n+j], ts.aij[j*n+i] = aij, aij
+			ts.daij[i*n+j], ts.daij[j*n+i] = daij, daij
+		}
+	}
+	ts.t = t
+}
+
+// rootChoice selects the root of the cubic.
+type rootChoice int
+
+const (
+	rootMinG   rootChoice = iota // lowest Gibbs energy
+	rootVapour                   // largest root
+	rootLiquid                   // smallest root above B
+)
+
+// deriv flags which derivatives evalPhase computes besides ln φ.
+type deriv uint8
+
+const (
+	dN deriv = 1 << iota // n ∂ ln φ_i/∂n_j at fixed T, P
+	dP                   // ∂ ln φ_i/∂P at fixed T, n
+	dT                   // ∂ ln φ_i/∂T at fixed P, n
+)
+
+// phase holds one evaluation of the equation of state at T, P and a composition.
+type phase struct {
+	psi      []float64 // Σ_j a_ij x_j
+	lnphi    []float64 // ln φ_i, with the Peneloux term when the fluid has VolumeShift
+	dn       []float64 // n×n: n ∂ ln φ_i/∂n_j
+	dp       []float64 // ∂ ln φ_i/∂P, 1/Pa
+	dt       []float64 // ∂ ln φ_i/∂T, 1/K
+	z        float64   // EOS compressibility factor (untranslated)
+	v        float64   // translated molar volume, m³/mol
+	label    Phase     // Vapour for the largest root of three or a lone root of a light fluid
+	lnPhiMix float64   // Σ x_i ln φ_i: the reduced residual Gibbs energy of the mixture
+}
+
+func newPhase(n int) phase {
+	return phase{
+		psi:   make([]float64, n),
+		lnphi: make([]float64, n),
+		dn:    make([]float64, n*n),
+		dp:    make([]float64, n),
+		dt:    make([]float64, n),
+	}
+}
+
+// evalPhase evaluates the phase of composition x (summing to 1) at the
+// temperature held in ts and pressure p, on the root chosen by rc.
+func (f *Fluid) evalPhase(ph *phase, ts *tstate, p float64, x []float64, rc rootChoice, want deriv) {
+	n := f.n
+	t := ts.t
+	rt := R * t
+	am, bm := 0.0, 0.0
+	for i := 0; i < n; i++ {
+		row := ts.aij[i*n : i*n+n]
+		s := 0.0
+		for j, xj := range x {
+			s += row[j] * xj
+		}
+		ph.psi[i] = s
+		am += x[i] * s
+		bm += x[i] * f.b[i]
+	}
+	A := am * p / (rt * rt)
+	B := bm * p / rt
+	z, label := f.chooseRoot(A, B, x, ts, rc)
+	ph.z, ph.label = z, label
+
+	// Classical closed form for ln φ (Peng and Robinson 1976, eq. 18 written for mixtures).
+	lnZB := math.Log(z - B)
+	lnR := math.Log((z + delta1*B) / (z + delta2*B))
+	k := A / (2 * math.Sqrt2 * B) * lnR
+	cshift := 0.0
+	mix := 0.0
+	for i := 0; i < n; i++ {
+		bi := f.b[i] / bm
+		lp := bi*(z-1) - lnZB - k*(2*ph.psi[i]/am-bi) - f.c[i]*p/rt
+		ph.lnphi[i] = lp
+		mix += x[i] * lp
+		cshift += x[i] * f.c[i]
+	}
+	ph.lnPhiMix = mix
+	v := z * rt / p
+	ph.v = v - cshift
+	if want == 0 {
+		return
+	}
+
+	// Helmholtz derivatives for one mole (Michelsen and Mollerup 2007, table 3.x).
+	D := am
+	vb := v - bm
+	p1 := v + delta1*bm
+	p2 := v + delta2*bm
+	dd := delta1 - delta2
+	fv := math.Log(p1/p2) / (R * bm * dd)
+	gV := bm / (v * vb)
+	gB := -1 / vb
+	gVV := -1/(vb*vb) + 1/(v*v)
+	gBV := 1 / (vb * vb)
+	gBB := -1 / (vb * vb)
+	fV := -1 / (R * p1 * p2)
+	fB := -(fv + v*fV) / bm
+	fVV := (1/(p2*p2) - 1/(p1*p1)) / (R * bm * dd)
+	fBV := -(2*fV + v*fVV) / bm
+	fBB := -(2*fB + v*fBV) / bm
+
+	FD := -fv / t
+	FVV := -gVV - D/t*fVV
+	FBV := -gBV - D/t*fBV
+	FDV := -fV / t
+	PV := -rt*FVV - rt/(v*v)
+	// P_i = ∂P/∂n_i = −RT F_iV + RT/V, with F_iV = −g_V + F_BV b_i + F_DV D_i.
+	// Keep RT/P_V scaling in mind: v̄_i = −P_i/P_V.
+	if want&(dN|dP|dT) != 0 {
+		// reuse dp as scratch for P_i when dP is not wanted
+		for i := 0; i < n; i++ {
+			FiV := -gV + FBV*f.b[i] + FDV*2*ph.psi[i]
+			ph.dp[i] = -rt*FiV + rt/v // P_i for now
+		}
+	}
+	if want&dN != 0 {
+		FnB := -gB
+		FBD := -fB / t
+		FBB := -gBB - D/t*fBB
+		inv := 1 / (rt * PV)
+		for i := 0; i < n; i++ {
+			bi := f.b[i]
+			Di := 2 * ph.psi[i]
+			Pi := ph.dp[i]
+			row := ph.dn[i*n : i*n+n]
+			arow := ts.aij[i*n : i*n+n]
+			for j := 0; j <= i; j++ {
+				bj := f.b[j]
+				Dj := 2 * ph.psi[j]
+				Fij := FnB*(bi+bj) + FBD*(bi*Dj+bj*Di) + FBB*bi*bj + FD*2*arow[j]
+				val := Fij + 1 + Pi*ph.dp[j]*inv
+				row[j] = val
+				ph.dn[j*n+i] = val
+			}
+		}
+	}
+	if want&dT != 0 {
+		DT := 0.0
+		for i := 0; i < n; i++ {
+			row := ts.daij[i*n : i*n+n]
+			s := 0.0
+			for j, xj := range x {
+				s += row[j] * xj
+			}
+			ph.dt[i] = s // Σ_j x_j da_ij/dT for now
+			DT += x[i] * s
+		}
+		c := DT/t - D/(t*t)
+		FBT := -c * fB
+		FDT := fv / (t * t)
+		FVT := -c * fV
+		PT := -rt*FVT + p/t
+		for i := 0; i < n; i++ {
+			FiT := FBT*f.b[i] + FDT*2*ph.psi[i] + FD*2*ph.dt[i]
+			vbar := -ph.dp[i] / PV
+			ph.dt[i] = FiT + 1/t - vbar*PT/rt + f.c[i]*p/(rt*t)
+		}
+	}
+	if want&(dN|dP|dT) != 0 {
+		for i := 0; i < n; i++ {
+			vbar := -ph.dp[i] / PV
+			ph.dp[i] = vbar/rt - 1/p - f.c[i]/rt
+		}
+	}
+}
+
+// chooseRoot solves the PR cubic in Z and picks a root.
+func (f *Fluid) chooseRoot(A, B float64, x []float64, ts *tstate, rc rootChoice) (float64, Phase) {
+	r, nr := cubicRoots(-(1 - B), A-3*B*B-2*B, -(A*B - B*B - B*B*B))
+	// keep roots above B
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for k := 0; k < nr; k++ {
+		if r[k] > B {
+			lo = math.Min(lo, r[k])
+			hi = math.Max(hi, r[k])
+		}
+	}
+	if math.IsInf(lo, 1) { // cannot happen for physical A, B; guard against round-off
+		z := B * (1 + 1e-10)
+		return z, Liquid
+	}
+	if lo == hi {
+		return lo, f.loneRootLabel(x, ts.t)
+	}
+	switch rc {
+	case rootVapour:
+		return hi, Vapour
+	case rootLiquid:
+		return lo, Liquid
+	}
+	// (g_V − g_L)/RT for the same composition (METHODS 1.5).
+	dg := (hi - lo) - math.Log((hi-B)/(lo-B)) -
+		A/(2*math.Sqrt2*B)*math.Log((hi+delta1*B)*(lo+delta2*B)/((hi+delta2*B)*(lo+delta1*B)))
+	if dg > 0 {
+		return lo, Liquid
+	}
+	return hi, Vapour
+}
+
+// loneRootLabel labels a single-root state by comparing T with the Li (1971)
+// pseudo-critical temperature Σ φ_i Tc_i, the volume fractions φ_i taken with the
+// co-volumes b_i in place of critical volumes.
+func (f *Fluid) loneRootLabel(x []float64, t float64) Phase {
+	num, den := 0.0, 0.0
+	for i, xi := range x {
+		w := xi * f.b[i]
+		num += w * f.tc[i]
+		den += w
+	}
+	if t >= num/den {
+		return Vapour
+	}
+	return Liquid
+}
+
+// cubicRoots returns the real roots of z³ + c2 z² + c1 z + c0, each polished by
+// Newton's method.
+func cubicRoots(c2, c1, c0 float64) (r [3]float64, n int) {
+	p := c1 - c2*c2/3
+	q := 2*c2*c2*c2/27 - c2*c1/3 + c0
+	disc := q*q/4 + p*p*p/27
+	shift := -c2 / 3
+	if disc > 0 {
+		s := math.Sqrt(disc)
+		r[0] = math.Cbrt(-q/2+s) + math.Cbrt(-q/2-s) + shift
+		n = 1
+	} else {
+		m := 2 * math.Sqrt(-p/3)
+		var th float64
+		if m != 0 {
+			arg := 3 * q / (p * m)
+			arg = math.Max(-1, math.Min(1, arg))
+			th = math.Acos(arg) / 3
+		}
+		r[0] = m*math.Cos(th) + shift
+		r[1] = m*math.Cos(th-2*math.Pi/3) + shift
+		r[2] = m*math.Cos(th-4*math.Pi/3) + shift
+		n = 3
+	}
+	for k := 0; k < n; k++ {
+		z := r[k]
+		for it := 0; it < 3; it++ {
+			fz := ((z+c2)*z+c1)*z + c0
+			dfz := (3*z+2*c2)*z + c1
+			if dfz == 0 {
+				break
+			}
+			dz := fz / dfz
+			z -= dz
+			if math.Abs(dz) <= 1e-16*math.Abs(z) {
+				break
+			}
+		}
+		r[k] = z
+	}
+	return r, n
+}
+
+// Props returns the single-phase properties of composition x at t (K) and p
+// (Pa) on the cubic root of lowest Gibbs energy, and the label of that root.
+// It allocates; use a Flasher in loops.
+func (f *Fluid) Props(t, p float64, x []float64) (PhaseProps, Phase) {
+	f.checkLen(x)
+	ts := newTState(f.n)
+	f.setT(&ts, t)
+	ph := newPhase(f.n)
+	f.evalPhase(&ph, &ts, p, x, rootMinG, 0)
+	return f.props(&ph, t, p, x), ph.label
+}
+
+func (f *Fluid) props(ph *phase, t, p float64, x []float64) PhaseProps {
+	m := f.MolarMass(x)
+	return PhaseProps{Z: p * ph.v / (R * t), V: ph.v, Rho: m / ph.v, M: m}
+}

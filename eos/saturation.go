@@ -1,0 +1,264 @@
+package eos
+
+import "math"
+
+// Saturation pressures at fixed temperature (METHODS 7.6, 7.7): the pressure
+// axis is scanned downward with the stability test until the feed first turns
+// unstable, the bracket is narrowed by bisection on stability, and Newton's
+// method on (ln K_1 … ln K_n, ln P) polishes the point from the converged
+// trial phase,
+//
+//	F_i     = ln K_i + ln φ_i(w) − ln φ_i(z) = 0,   w_i = z_i K_i (incipient phase)
+//	F_{n+1} = Σ_i z_i K_i − 1 = 0
+//
+// The incipient phase w is whichever phase appears; the point is a dew point
+// when it is denser than the feed and a bubble point when it is lighter.
+
+const (
+	satPStart  = 60e6  // Pa: first pressure of the downward scan (about 8700 psia)
+	satPMaxUp  = 400e6 // Pa: highest pressure tried when the feed is unstable at satPStart
+	satPMin    = 1e3   // Pa: lowest pressure searched
+	satScan    = 0.85  // ratio of successive scan pressures
+	satLowScan = 0.8   // ratio of successive scan pressures below an upper dew point
+	satBracket = 1.01  // bisect on stability until the bracket ratio is below this
+)
+
+// A Saturator keeps the scratch space for repeated saturation-point solves of
+// one Fluid. Not safe for concurrent use.
+type Saturator struct {
+	w *work
+}
+
+// NewSaturator returns a Saturator for fl. A nil s means default settings.
+func NewSaturator(fl *Fluid, s *Settings) *Saturator { return &Saturator{w: newWork(fl, s)} }
+
+// UpperSaturation finds the saturation point of feed z at t met first when the
+// pressure falls from high values: the upper dew point of a gas condensate, the
+// bubble point of an oil. See Saturator.Upper.
+func UpperSaturation(fl *Fluid, t float64, z []float64, s *Settings) (Saturation, error) {
+	return NewSaturator(fl, s).Upper(t, z)
+}
+
+// LowerDewPoint finds the lower dew point of z at t below the upper saturation
+// pressure pUpper. See Saturator.Lower.
+func LowerDewPoint(fl *Fluid, t float64, z []float64, pUpper float64, s *Settings) (Saturation, error) {
+	return NewSaturator(fl, s).Lower(t, z, pUpper)
+}
+
+// Upper finds the saturation point of feed z at t (K) met first when the
+// pressure falls from high values. The scan starts at 60 MPa (raised up to
+// 400 MPa if the feed is unstable there) and goes down to 1 kPa.
+//
+// Special cases:
+//   - the feed is stable at every scanned pressure: ErrNoSaturation;
+//   - unstable even at 400 MPa, or Newton fails inside a bracket narrower than
+//     1e-12 relative: ErrNoConvergence.
+func (s *Saturator) Upper(t float64, z []float64) (Saturation, error) {
+	w := s.w
+	w.fl.checkLen(z)
+	if !validState(t, 1) {
+		return Saturation{}, &SolveError{Op: "UpperSaturation", Err: ErrBadState}
+	}
+	w.fl.setT(&w.ts, t)
+	iter := 0
+	hi := satPStart
+	for !w.stableAt(hi, z, &iter) {
+		hi *= 2
+		if hi > satPMaxUp {
+			return Saturation{}, &SolveError{Op: "UpperSaturation", Iter: iter, Err: ErrNoConvergence}
+		}
+	}
+	lo := hi
+	for {
+		lo *= satScan
+		if lo < satPMin {
+			return Saturation{}, &SolveError{Op: "UpperSaturation", Iter: iter, Err: ErrNoSaturation}
+		}
+		if !w.stableAt(lo, z, &iter) {
+			break
+		}
+		hi = lo
+	}
+	return w.refine(t, z, lo, hi, iter, "UpperSaturation")
+}
+
+// Lower finds the lower dew point of z at t (K): the pressure below pUpper (an
+// upper saturation pressure, Pa) at which the feed becomes a single phase
+// again, scanning down to 1 kPa. None above 1 kPa: ErrNoSaturation.
+func (s *Saturator) Lower(t float64, z []float64, pUpper float64) (Saturation, error) {
+	w := s.w
+	w.fl.checkLen(z)
+	if !validState(t, pUpper) {
+		return Saturation{}, &SolveError{Op: "LowerDewPoint", Err: ErrBadState}
+	}
+	w.fl.setT(&w.ts, t)
+	iter := 0
+	// Start just inside the two-phase region below the upper point.
+	hi := pUpper * 0.995
+	if w.stableAt(hi, z, &iter) {
+		return Saturation{}, &SolveError{Op: "LowerDewPoint", Iter: iter, Err: ErrNoSaturation}
+	}
+	lo := hi
+	for {
+		lo *= satLowScan
+		if lo < satPMin {
+			return Saturation{}, &SolveError{Op: "LowerDewPoint", Iter: iter, Err: ErrNoSaturation}
+		}
+		if w.stableAt(lo, z, &iter) {
+			break
+		}
+		hi = lo
+	}
+	// Here hi is unstable and lo stable: the mirror image of the upper search.
+	return w.refine(t, z, hi, lo, iter, "LowerDewPoint")
+}
+
+// stableAt runs a full stability test of z at p, temperature already set.
+func (w *work) stableAt(p float64, z []float64, iter *int) bool {
+	w.prepareFeed(p, z)
+	liq, vap := w.stability(p, z, false)
+	*iter += liq.iter + vap.iter
+	return !liq.unstable && !vap.unstable
+}
+
+// refine converges a saturation point between pUn, where the feed is
+// unstable, and pSt, where it is stable. It bisects on stability until the
+// bracket is narrow, then runs Newton from the trial phase found at pUn; a
+// Newton solve that leaves the bracket or collapses onto the trivial solution
+// narrows the bracket further and tries again.
+func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op string) (Saturation, error) {
+	// the trial phase at pUn: re-run it so w.wLiq/w.wVap belong to pUn
+	inc := w.wn
+	w.prepareFeed(pUn, z)
+	pickTrial := func() {
+		liq, vap := w.stability(pUn, z, false)
+		iter += liq.iter + vap.iter
+		if liq.unstable && (!vap.unstable || liq.tm <= vap.tm) {
+			copy(inc, w.wLiq)
+		} else {
+			copy(inc, w.wVap)
+		}
+	}
+	pickTrial()
+	for attempt := 0; attempt < 60; attempt++ {
+		if math.Max(pUn, pSt)/math.Min(pUn, pSt) < satBracket || attempt > 0 {
+			sat, it, ok := w.satNewton(t, z, pUn, inc)
+			iter += it
+			lo, hi := math.Min(pUn, pSt), math.Max(pUn, pSt)
+			if ok && sat.P >= lo*(1-1e-9) && sat.P <= hi*(1+1e-9) {
+				sat.Iter = iter
+				return sat, nil
+			}
+		}
+		if math.Abs(pUn-pSt) <= 1e-12*pSt {
+			break
+		}
+		mid := math.Sqrt(pUn * pSt)
+		w.prepareFeed(mid, z)
+		liq, vap := w.stability(mid, z, false)
+		iter += liq.iter + vap.iter
+		if liq.unstable || vap.unstable {
+			pUn = mid
+			if liq.unstable && (!vap.unstable || liq.tm <= vap.tm) {
+				copy(inc, w.wLiq)
+			} else {
+				copy(inc, w.wVap)
+			}
+		} else {
+			pSt = mid
+		}
+	}
+	return Saturation{}, &SolveError{Op: op, Iter: iter, Err: ErrNoConvergence}
+}
+
+// satNewton solves the saturation equations at fixed t from pressure p0 and
+// incipient composition w0. It reports the point and whether Newton converged
+// to a non-trivial solution.
+func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64) (Saturation, int, bool) {
+	n := w.n
+	fl := w.fl
+	lnP := math.Log(p0)
+	for i, zi := range z {
+		if zi > 0 {
+			w.lnK[i] = math.Log(w0[i] / zi)
+		} else {
+			w.lnK[i] = 0
+		}
+	}
+	m := n + 1
+	for it := 1; it <= 50; it++ {
+		p := math.Exp(lnP)
+		sumW := 0.0
+		for i := 0; i < n; i++ {
+			w.W[i] = z[i] * math.Exp(w.lnK[i])
+			sumW += w.W[i]
+		}
+		for i := 0; i < n; i++ {
+			w.wn[i] = w.W[i] / sumW
+		}
+		fl.evalPhase(&w.feed, &w.ts, p, z, rootMinG, dN|dP)
+		fl.evalPhase(&w.pa, &w.ts, p, w.wn, rootMinG, dN|dP)
+		res := 0.0
+		triv := 0.0
+		H := w.H[:m*m]
+		for i := 0; i < n; i++ {
+			F := w.lnK[i] + w.pa.lnphi[i] - w.feed.lnphi[i]
+			if z[i] == 0 {
+				F = 0
+			}
+			w.rhs[i] = -F
+			res = math.Max(res, math.Abs(F))
+			triv += w.lnK[i] * w.lnK[i]
+			for j := 0; j < n; j++ {
+				H[i*m+j] = w.pa.dn[i*n+j] * w.W[j] / sumW
+			}
+			H[i*m+i] += 1
+			H[i*m+n] = p * (w.pa.dp[i] - w.feed.dp[i])
+			if z[i] == 0 {
+				for j := 0; j < m; j++ {
+					H[i*m+j] = 0
+				}
+				H[i*m+i] = 1
+			}
+		}
+		Fs := sumW - 1
+		w.rhs[n] = -Fs
+		for j := 0; j < n; j++ {
+			H[n*m+j] = w.W[j]
+		}
+		H[n*m+n] = 0
+		res = math.Max(res, math.Abs(Fs))
+		if triv < 1e-8 {
+			return Saturation{}, it, false
+		}
+		if res < w.tol {
+			sat := Saturation{T: t, P: p, Incipient: append([]float64(nil), w.wn...), Iter: it, Resid: res}
+			sat.Feed = fl.props(&w.feed, t, p, z)
+			sat.Inc = fl.props(&w.pa, t, p, w.wn)
+			if sat.Inc.Rho > sat.Feed.Rho {
+				sat.Type = Dew
+			} else {
+				sat.Type = Bubble
+			}
+			return sat, it, true
+		}
+		if !luSolve(H, m, w.rhs) {
+			return Saturation{}, it, false
+		}
+		// Damp large steps: ln P by at most 0.2, ln K by at most 1.
+		sc := 1.0
+		if a := math.Abs(w.rhs[n]); a > 0.2 {
+			sc = 0.2 / a
+		}
+		for i := 0; i < n; i++ {
+			if a := math.Abs(w.rhs[i]); a*sc > 1 {
+				sc = 1 / a
+			}
+		}
+		for i := 0; i < n; i++ {
+			w.lnK[i] += sc * w.rhs[i]
+		}
+		lnP += sc * w.rhs[n]
+	}
+	return Saturation{}, 50, false
+}

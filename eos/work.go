@@ -1,0 +1,52 @@
+package eos
+
+import "math"
+
+// work is the scratch space shared by the flash, stability and saturation
+// solvers of one fluid: every slice is sized once, so the iterations allocate
+// nothing.
+type work struct {
+	fl  *Fluid
+	n   int
+	tol float64
+	max int
+	ts  tstate
+
+	feed, pa, pb phase // feed; liquid (or trial) and vapour phases
+
+	d, lnW, W, wn    []float64 // stability: ln z + ln φ(z), trial ln W, W, W normalised
+	wLiq, wVap       []float64 // converged or unstable trial compositions
+	lnK, lnK1, lnK2  []float64 // current and two previous ln K (GDEM)
+	K, x, y, r, g, s []float64
+	v, l             []float64 // flash Newton: vapour and liquid mole numbers
+	H                []float64 // (n+2)×(n+2) matrix storage
+	rhs              []float64 // n+2
+}
+
+func newWork(fl *Fluid, s *Settings) *work {
+	n := fl.n
+	vec := func() []float64 { return make([]float64, n) }
+	return &work{
+		fl: fl, n: n, tol: s.tol(), max: s.maxIter(),
+		ts:   newTState(n),
+		feed: newPhase(n), pa: newPhase(n), pb: newPhase(n),
+		d: vec(), lnW: vec(), W: vec(), wn: vec(), wLiq: vec(), wVap: vec(),
+		lnK: vec(), lnK1: vec(), lnK2: vec(),
+		K: vec(), x: vec(), y: vec(), r: vec(), g: vec(), s: vec(),
+		v: vec(), l: vec(),
+		H:   make([]float64, (n+2)*(n+2)),
+		rhs: make([]float64, n+2),
+	}
+}
+
+// wilson sets lnK to the Wilson (1969) estimate ln(Pc/P) + 5.373 (1 + ω)(1 − Tc/T).
+func (w *work) wilson(t, p float64) {
+	f := w.fl
+	for i := 0; i < w.n; i++ {
+		w.lnK[i] = math.Log(f.pc[i]/p) + 5.373*(1+f.omega[i])*(1-f.tc[i]/t)
+	}
+}
+
+func validState(t, p float64) bool {
+	return t > 0 && p > 0 && !math.IsInf(t, 0) && !math.IsInf(p, 0)
+}
