@@ -129,4 +129,8 @@ type Envelope struct {
 	Critical       [2]float64 // T (K), P (Pa) of the critical point, when HasCritical
 	Cricondenbar   [2]float64 // T, P at the maximum pressure
 	Cricondentherm [2]float64 // T, P at the maximum temperature
+	// Truncated is set when the bubble branch ended before returning to low
+	// pressure because the continuation could not go on (at low temperature,
+	// typically where a liquid–liquid split takes over).
+	Truncated bool
 }
