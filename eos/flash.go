@@ -181,8 +181,8 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 			w.y[i] = w.v[i] / V
 			w.x[i] = w.l[i] / L
 		}
-		fl.evalPhase(&w.pb, &w.ts, p, w.y, rootMinG, dN)
-		fl.evalPhase(&w.pa, &w.ts, p, w.x, rootMinG, dN)
+		fl.evalPhase(&w.pb, &w.ts, p, w.y, rootMinG, 0)
+		fl.evalPhase(&w.pa, &w.ts, p, w.x, rootMinG, 0)
 		G := 0.0
 		res = 0
 		for i := 0; i < n; i++ {
@@ -208,6 +208,8 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 			}
 			return V, it, res, true
 		}
+		fl.derivs(&w.pb, &w.ts, w.y, dN)
+		fl.derivs(&w.pa, &w.ts, w.x, dN)
 		H := w.H[:n*n]
 		c := 1 / (V * L)
 		for i := 0; i < n; i++ {

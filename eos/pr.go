@@ -89,6 +89,8 @@ type phase struct {
 	v        float64   // translated molar volume, m³/mol
 	label    Phase     // Vapour for the largest root of three or a lone root of a light fluid
 	lnPhiMix float64   // Σ x_i ln φ_i: the reduced residual Gibbs energy of the mixture
+
+	vEOS, am, bm, p float64 // untranslated molar volume and mixture parameters, kept for derivs
 }
 
 func newPhase(n int) phase {
@@ -139,11 +141,20 @@ func (f *Fluid) evalPhase(ph *phase, ts *tstate, p float64, x []float64, rc root
 	ph.lnPhiMix = mix
 	v := z * rt / p
 	ph.v = v - cshift
-	if want == 0 {
-		return
+	ph.vEOS, ph.am, ph.bm, ph.p = v, am, bm, p
+	if want != 0 {
+		f.derivs(ph, ts, x, want)
 	}
+}
 
-	// Helmholtz derivatives for one mole (Michelsen and Mollerup 2007, table 3.x).
+// derivs adds to ph, evaluated by evalPhase at composition x, the derivatives
+// of ln φ flagged in want, from the Helmholtz derivatives of one mole
+// (Michelsen and Mollerup 2007, ch. 3).
+func (f *Fluid) derivs(ph *phase, ts *tstate, x []float64, want deriv) {
+	n := f.n
+	t := ts.t
+	rt := R * t
+	v, am, bm, p := ph.vEOS, ph.am, ph.bm, ph.p
 	D := am
 	vb := v - bm
 	p1 := v + delta1*bm

@@ -47,11 +47,15 @@ func rachfordRice(z, K []float64, guess float64) float64 {
 		} else {
 			hi = beta
 		}
-		next := beta - g/dg
+		step := g / dg
+		if math.Abs(step) <= 1e-14*math.Abs(beta)+1e-16 {
+			return beta - step
+		}
+		next := beta - step
 		if !(next > lo && next < hi) {
 			next = 0.5 * (lo + hi)
 		}
-		if math.Abs(next-beta) <= 1e-15*math.Max(1, math.Abs(beta)) || hi-lo <= 1e-15*math.Max(1, math.Abs(beta)) {
+		if hi-lo <= 1e-15*math.Abs(beta) {
 			return next
 		}
 		beta = next

@@ -39,8 +39,9 @@ func (w *work) prepareFeed(p float64, z []float64) {
 
 // stability runs the liquid-like and then the vapour-like trial on feed z at
 // pressure p, after prepareFeed. With early set it stops at the first trial
-// point that proves instability. It leaves the trial compositions in w.wLiq
-// and w.wVap and returns whether each trial showed instability.
+// point that proves instability. It leaves the trial mole numbers W (not
+// normalised: Σ W > 1 at an unstable stationary point) in w.wLiq and w.wVap
+// and returns whether each trial showed instability.
 func (w *work) stability(p float64, z []float64, early bool) (liq, vap trialResult) {
 	t := w.ts.t
 	w.wilson(t, p)
@@ -50,7 +51,7 @@ func (w *work) stability(p float64, z []float64, early bool) (liq, vap trialResu
 		}
 	}
 	liq = w.trial(p, z, early)
-	copy(w.wLiq, w.wn)
+	copy(w.wLiq, w.W)
 	if early && liq.unstable {
 		return liq, trialResult{}
 	}
@@ -61,7 +62,7 @@ func (w *work) stability(p float64, z []float64, early bool) (liq, vap trialResu
 		}
 	}
 	vap = w.trial(p, z, early)
-	copy(w.wVap, w.wn)
+	copy(w.wVap, w.W)
 	return liq, vap
 }
 

@@ -15,7 +15,7 @@ type work struct {
 	feed, pa, pb phase // feed; liquid (or trial) and vapour phases
 
 	d, lnW, W, wn    []float64 // stability: ln z + ln φ(z), trial ln W, W, W normalised
-	wLiq, wVap       []float64 // converged or unstable trial compositions
+	wLiq, wVap       []float64 // trial mole numbers W where the trials stopped
 	lnK, lnK1, lnK2  []float64 // current and two previous ln K (GDEM)
 	K, x, y, r, g, s []float64
 	v, l             []float64 // flash Newton: vapour and liquid mole numbers
