@@ -318,3 +318,27 @@ func TestFlashAllocs(t *testing.T) {
 		t.Errorf("Flash allocates %g times per call, want 0", a)
 	}
 }
+
+// TestNearCricondentherm: 0.1 K below the cricondentherm the two-phase window
+// is a few percent of the pressure wide, narrower than one step of the
+// pressure scan; the upper and lower dew points must still be found on either
+// side of the cricondentherm pressure.
+func TestNearCricondentherm(t *testing.T) {
+	fl, z := o9Fluid(false)
+	env, err := TraceEnvelope(fl, z, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	T, pct := env.Cricondentherm[0]-0.1, env.Cricondentherm[1]
+	up, err := UpperSaturation(fl, T, z, nil)
+	if err != nil {
+		t.Fatalf("upper dew point 0.1 K below the cricondentherm: %v", err)
+	}
+	lo, err := LowerDewPoint(fl, T, z, up.P, nil)
+	if err != nil {
+		t.Fatalf("lower dew point 0.1 K below the cricondentherm: %v", err)
+	}
+	if !(up.P > pct && lo.P < pct && up.P < 1.2*pct && lo.P > 0.8*pct) {
+		t.Errorf("dew points %g and %g psia do not straddle the cricondentherm pressure %g psia", up.P/psi, lo.P/psi, pct/psi)
+	}
+}

@@ -72,7 +72,7 @@ func (s *Saturator) Upper(t float64, z []float64) (Saturation, error) {
 	for {
 		lo *= satScan
 		if lo < satPMin {
-			return Saturation{}, &SolveError{Op: "UpperSaturation", Iter: iter, Err: ErrNoSaturation}
+			return s.fromEnvelope(t, z, iter)
 		}
 		if !w.stableAt(lo, z, &iter) {
 			break
@@ -80,6 +80,49 @@ func (s *Saturator) Upper(t float64, z []float64) (Saturation, error) {
 		hi = lo
 	}
 	return w.refine(t, z, lo, hi, iter, "UpperSaturation")
+}
+
+// fromEnvelope is the fall-back of Upper when the pressure scan found the
+// feed stable everywhere: near the cricondentherm the two-phase region at t
+// can be narrower than one scan step. The traced envelope says where t meets
+// the saturation curve; a stability test just inside the highest crossing
+// then gives the bracket for refine.
+func (s *Saturator) fromEnvelope(t float64, z []float64, iter int) (Saturation, error) {
+	w := s.w
+	none := &SolveError{Op: "UpperSaturation", Iter: iter, Err: ErrNoSaturation}
+	env, err := TraceEnvelope(w.fl, z, nil)
+	if err != nil || env.Cricondentherm[0] <= t {
+		return Saturation{}, none
+	}
+	w.fl.setT(&w.ts, t) // the trace changed the cached temperature
+	var cross []float64
+	for k := 1; k < len(env.Points); k++ {
+		a, b := env.Points[k-1], env.Points[k]
+		if (a.T-t)*(b.T-t) <= 0 && a.T != b.T {
+			u := (t - a.T) / (b.T - a.T)
+			cross = append(cross, math.Exp(math.Log(a.P)+u*(math.Log(b.P)-math.Log(a.P))))
+		}
+	}
+	if len(cross) == 0 {
+		return Saturation{}, none
+	}
+	top, next := 0.0, 0.0
+	for _, p := range cross {
+		if p > top {
+			top, next = p, top
+		} else if p > next {
+			next = p
+		}
+	}
+	inside := top * 0.99
+	if next > 0 {
+		inside = math.Sqrt(top * next)
+	}
+	above := top * 1.01
+	if w.stableAt(inside, z, &iter) || !w.stableAt(above, z, &iter) {
+		return Saturation{}, none
+	}
+	return w.refine(t, z, inside, above, iter, "UpperSaturation")
 }
 
 // Lower finds the lower dew point of z at t (K): the pressure below pUpper (an
