@@ -134,3 +134,12 @@ type Envelope struct {
 	// typically where a liquid–liquid split takes over).
 	Truncated bool
 }
+
+// IncipientPhase is the phase that appears at the saturation point: liquid at
+// a dew point, vapour at a bubble point.
+func (s Saturation) IncipientPhase() Phase {
+	if s.Type == Bubble {
+		return Vapour
+	}
+	return Liquid
+}
