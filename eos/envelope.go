@@ -80,6 +80,7 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 	xs := make([]float64, m)
 	step := 0.05 // in ln P at the start
 	passedCrit := false
+	maxLnP := math.Inf(-1) // highest ln P before the critical point
 	var pts []envPoint
 	add := func() {
 		pts = append(pts, envPoint{x: append([]float64(nil), e.x...), dx: append([]float64(nil), e.dx...), spec: spec})
@@ -94,28 +95,27 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 	}
 	add()
 	for len(pts) < envMaxPts {
-		// choose the specification: the variable changing fastest along the
-		// tangent; close to the critical point, the ln K of largest magnitude
-		kmax, ik := 0.0, 0
-		for i := 0; i < n; i++ {
-			if e.z[i] > 0 && math.Abs(e.x[i]) > kmax {
-				kmax, ik = math.Abs(e.x[i]), i
-			}
-		}
-		nearCrit := !passedCrit && kmax < envCritK
+		// choose the specification: the variable changing fastest along the tangent
 		best := spec
-		if nearCrit {
-			best = ik
-		} else {
-			for i := 0; i < m; i++ {
-				if math.Abs(e.dx[i]) > math.Abs(e.dx[best]) {
-					best = i
-				}
+		for i := 0; i < m; i++ {
+			if math.Abs(e.dx[i]) > math.Abs(e.dx[best]) {
+				best = i
 			}
 		}
 		if best != spec {
 			scale(e.dx, 1/e.dx[best])
 			spec = best
+		}
+		// close to the critical point with a ln K specified: jump across it
+		nearCrit := false
+		if !passedCrit && spec < n {
+			kmax := 0.0
+			for i := 0; i < n; i++ {
+				if e.z[i] > 0 {
+					kmax = math.Max(kmax, math.Abs(e.x[i]))
+				}
+			}
+			nearCrit = kmax < envCritK
 		}
 		dir := 1.0
 		if len(pts) > 1 {
@@ -158,6 +158,8 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 				xs[i] = prev[i] + ds*prevDx[i]
 			}
 			copy(e.x, xs)
+			// a step across the critical point swaps the roots of the two phases
+			e.past = passedCrit || e.flips(prev, xs)
 			it, ok := e.correct(spec, xs[spec])
 			total += it
 			// a corrector that lands far from its prediction has jumped to
@@ -181,10 +183,13 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 		}
 		if !accepted {
 			copy(e.x, prev)
-			if passedCrit {
-				// The bubble branch is traced past the critical point; at low
-				// temperature it can run into a region where no vapour–liquid
-				// saturation point continues it (a liquid–liquid split, say).
+			e.past = passedCrit
+			if passedCrit || e.x[n+1] < math.Log(0.9)+maxLnP {
+				// Past the critical point, or past the pressure maximum on the
+				// way down to a critical point at low temperature, the
+				// envelope can run into a region where no vapour–liquid
+				// saturation point continues it (a liquid–liquid split, or the
+				// end of the liquid root of the incipient phase).
 				env.Truncated = true
 				return e.finish(env, pts), nil
 			}
@@ -209,7 +214,17 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 		}
 		add()
 		lnP := e.x[n+1]
-		if passedCrit && lnP < math.Log(envPStart) || math.Exp(e.x[n]) < envTMin || lnP > math.Log(satPMaxUp) {
+		if !passedCrit {
+			maxLnP = math.Max(maxLnP, lnP)
+		}
+		if passedCrit && lnP < math.Log(envPStart) || math.Exp(e.x[n]) < envTMin {
+			break
+		}
+		if lnP > math.Log(satPMaxUp) || passedCrit && lnP > maxLnP+math.Ln2 {
+			// At low temperature the bubble branch of an asymmetric mixture
+			// can turn up to very high pressure, where it bounds a
+			// liquid–liquid region rather than the vapour–liquid envelope.
+			env.Truncated = true
 			break
 		}
 	}
@@ -363,15 +378,28 @@ func (e *envTracer) trivial() bool {
 	return s < 1e-10
 }
 
-// crossed reports whether every ln K of a present component changed sign
-// between prev and e.x.
-func (e *envTracer) crossed(prev []float64) bool {
+// crossed reports whether the step from prev to e.x passed the critical
+// point.
+func (e *envTracer) crossed(prev []float64) bool { return e.flips(prev, e.x) }
+
+// flips reports whether the ln K in a and b lie on opposite sides of the
+// critical point: the ln K of largest magnitude at a, which vanishes only
+// there, changed sign, and so did most of the others.
+func (e *envTracer) flips(a, b []float64) bool {
+	k, flipped, present := 0, 0, 0
 	for i := 0; i < e.n; i++ {
-		if e.z[i] > 0 && prev[i]*e.x[i] > 0 {
-			return false
+		if e.z[i] == 0 {
+			continue
+		}
+		present++
+		if a[i]*b[i] < 0 {
+			flipped++
+		}
+		if math.Abs(a[i]) > math.Abs(a[k]) {
+			k = i
 		}
 	}
-	return true
+	return a[k]*b[k] < 0 && 2*flipped > present
 }
 
 // critical interpolates the critical point between prev and e.x where the
@@ -464,13 +492,21 @@ func (e *envTracer) finish(env *Envelope, pts []envPoint) *Envelope {
 	if len(pts) == 0 {
 		return env
 	}
+	// The cricondentherm is the highest temperature traced; the cricondenbar
+	// the first pressure maximum, which the pressure falls well below
+	// afterwards (a bubble branch turning up at low temperature is not part
+	// of the vapour–liquid envelope's top).
 	iT, iP := 0, 0
 	for i, p := range pts {
 		if p.x[n] > pts[iT].x[n] {
 			iT = i
 		}
+	}
+	for i, p := range pts {
 		if p.x[n+1] > pts[iP].x[n+1] {
 			iP = i
+		} else if p.x[n+1] < pts[iP].x[n+1]+math.Log(0.8) {
+			break
 		}
 	}
 	env.Cricondentherm = [2]float64{math.Exp(pts[iT].x[n]), math.Exp(pts[iT].x[n+1])}

@@ -65,8 +65,17 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 			w.lnK[i] = math.Log(w.wVap[i] / zi)
 		}
 	}
-	beta, it, res, ok := w.split(t, p, z)
+	copy(w.lnK0, w.lnK)
+	beta, it, res, ok := w.split(t, p, z, true)
 	iter += it
+	if !ok || !(beta > 0 && beta < 1) {
+		// Safety net: start again from the trial phase with plain
+		// substitution, which cannot overshoot the way an extrapolation or
+		// a Newton step far from the solution can.
+		copy(w.lnK, w.lnK0)
+		beta, it, res, ok = w.split(t, p, z, false)
+		iter += it
+	}
 	if !ok || !(beta > 0 && beta < 1) {
 		dst.Iter, dst.Resid = iter, res
 		return &SolveError{Op: "Flash", Iter: iter, Residual: res, Err: ErrNoConvergence}
@@ -78,11 +87,19 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 // split converges the two-phase split from w.lnK. It returns β, the
 // iterations, the final residual and whether it converged; on success the
 // liquid and vapour compositions are in w.x and w.y and evaluated in w.pa, w.pb.
-func (w *work) split(t, p float64, z []float64) (beta float64, iter int, res float64, ok bool) {
+//
+// With accel set, substitution is accelerated by GDEM and hands over to
+// Newton once it is close; without, it substitutes until the residual is
+// below 1e-6 before Newton takes over.
+func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter int, res float64, ok bool) {
 	n := w.n
 	fl := w.fl
 	beta = 0.5
-	const ssMax = 12 // substitution steps before Newton takes over
+	ssMax := 12 // substitution steps before Newton takes over
+	if !accel {
+		ssMax = w.max
+	}
+	resJump := math.Inf(1) // residual before the last GDEM jump
 	for it := 1; it <= w.max; it++ {
 		iter = it
 		for i := 0; i < n; i++ {
@@ -111,10 +128,18 @@ func (w *work) split(t, p float64, z []float64) (beta float64, iter int, res flo
 		if res < w.tol && beta > 0 && beta < 1 {
 			return beta, iter, res, true
 		}
+		if res > resJump {
+			// the extrapolation made things worse: take the plain step instead
+			copy(w.lnK, w.lnKss)
+			resJump = math.Inf(1)
+			continue
+		}
+		resJump = math.Inf(1)
 		if triv < 1e-10 {
 			return beta, iter, res, false // collapsed onto the trivial solution
 		}
-		if (it >= 3 && res < 1e-2 || it >= ssMax) && beta > 0 && beta < 1 {
+		near := accel && it >= 3 && res < 1e-2 || !accel && res < 1e-6 || it >= ssMax
+		if near && beta > 0 && beta < 1 {
 			bn, itn, resn, okn := w.newtonSplit(t, p, z, beta)
 			iter += itn
 			if okn {
@@ -127,8 +152,11 @@ func (w *work) split(t, p float64, z []float64) (beta float64, iter int, res flo
 		for i := 0; i < n; i++ {
 			w.lnK[i] += w.r[i]
 		}
-		if it%5 == 0 {
-			w.gdem()
+		if accel && it%5 == 0 {
+			copy(w.lnKss, w.lnK)
+			if w.gdem() {
+				resJump = res
+			}
 		}
 	}
 	return beta, iter, res, false
@@ -137,7 +165,10 @@ func (w *work) split(t, p float64, z []float64) (beta float64, iter int, res flo
 // gdem applies the one-eigenvalue dominant-eigenvalue extrapolation to ln K
 // (Crowe and Nishio 1975, as used by Michelsen 1982b): with Δ_k the last two
 // changes, λ = Δ_k·Δ_k / Δ_{k−1}·Δ_k and ln K += Δ_k λ/(1 − λ).
-func (w *work) gdem() {
+//
+// The jump is capped at ten times the last step, and split reverts it when the
+// next residual is larger. It reports whether it jumped.
+func (w *work) gdem() bool {
 	num, den := 0.0, 0.0
 	for i := range w.lnK {
 		d1 := w.lnK[i] - w.lnK1[i]
@@ -146,16 +177,17 @@ func (w *work) gdem() {
 		den += d0 * d1
 	}
 	if den == 0 {
-		return
+		return false
 	}
 	lam := num / den
-	if !(lam > 0 && lam < 0.98) {
-		return
+	if !(lam > 0 && lam < 1) {
+		return false
 	}
-	c := lam / (1 - lam)
+	c := math.Min(lam/(1-lam), 10)
 	for i := range w.lnK {
 		w.lnK[i] += c * (w.lnK[i] - w.lnK1[i])
 	}
+	return true
 }
 
 // newtonSplit minimises the Gibbs energy of the split in the vapour mole

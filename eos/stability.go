@@ -146,7 +146,7 @@ func (w *work) trial(p float64, z []float64, early bool) trialResult {
 			continue
 		}
 		// Newton step in α = 2√W.
-		H := w.H[:n*n]
+		H := w.H[n*n : 2*n*n]
 		for i := 0; i < n; i++ {
 			si := math.Sqrt(w.W[i])
 			w.g[i] = -si * w.r[i]
@@ -161,7 +161,7 @@ func (w *work) trial(p float64, z []float64, early bool) trialResult {
 				H[i*n+i], w.g[i] = 1, 0
 			}
 		}
-		if !cholSolve(H, n, w.g) {
+		if !w.shiftedSolve(H, n) {
 			for i := 0; i < n; i++ {
 				if z[i] > 0 {
 					w.lnW[i] -= w.r[i]
@@ -182,4 +182,33 @@ func (w *work) trial(p float64, z []float64, early bool) trialResult {
 		}
 	}
 	return res
+}
+
+// shiftedSolve solves (H + μI) Δ = g for the Newton step of the stability
+// test, with μ = 0 when H (at w.H[n*n:2*n*n]) is positive definite and
+// otherwise the smallest of 1e-8, 1e-6, … 1 times its largest diagonal
+// element that makes it so (a Levenberg–Marquardt shift: close to a critical
+// point the Hessian of tm is nearly singular). The step replaces w.g.
+func (w *work) shiftedSolve(H []float64, n int) bool {
+	a := w.H[:n*n]
+	copy(w.s, w.g)
+	copy(a, H)
+	if cholSolve(a, n, w.g) {
+		return true
+	}
+	big := 0.0
+	for i := 0; i < n; i++ {
+		big = math.Max(big, math.Abs(H[i*n+i]))
+	}
+	for mu := 1e-8 * big; mu <= big; mu *= 100 {
+		copy(a, H)
+		for i := 0; i < n; i++ {
+			a[i*n+i] += mu
+		}
+		copy(w.g, w.s)
+		if cholSolve(a, n, w.g) {
+			return true
+		}
+	}
+	return false
 }

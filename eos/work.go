@@ -17,6 +17,7 @@ type work struct {
 	d, lnW, W, wn    []float64 // stability: ln z + ln φ(z), trial ln W, W, W normalised
 	wLiq, wVap       []float64 // trial mole numbers W where the trials stopped
 	lnK, lnK1, lnK2  []float64 // current and two previous ln K (GDEM)
+	lnK0, lnKss      []float64 // ln K from the trial phase; the plain step before a GDEM jump
 	K, x, y, r, g, s []float64
 	v, l             []float64 // flash Newton: vapour and liquid mole numbers
 	H                []float64 // (n+2)×(n+2) matrix storage
@@ -31,10 +32,10 @@ func newWork(fl *Fluid, s *Settings) *work {
 		ts:   newTState(n),
 		feed: newPhase(n), pa: newPhase(n), pb: newPhase(n),
 		d: vec(), lnW: vec(), W: vec(), wn: vec(), wLiq: vec(), wVap: vec(),
-		lnK: vec(), lnK1: vec(), lnK2: vec(),
+		lnK: vec(), lnK1: vec(), lnK2: vec(), lnK0: vec(), lnKss: vec(),
 		K: vec(), x: vec(), y: vec(), r: vec(), g: vec(), s: vec(),
 		v: vec(), l: vec(),
-		H:   make([]float64, (n+2)*(n+2)),
+		H:   make([]float64, max((n+2)*(n+2), 2*n*n)),
 		rhs: make([]float64, n+2),
 	}
 }

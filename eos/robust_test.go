@@ -1,0 +1,101 @@
+package eos
+
+import (
+	"math"
+	"math/rand"
+	"testing"
+)
+
+// randomCondensate draws a gas condensate in the range of the trade's
+// lean-to-rich condensates (common practice, no published source): 60-85 %
+// methane, 1-12 % C7+ of molar mass 110-200 g/mol.
+func randomCondensate(tb testing.TB, rng *rand.Rand) (*Fluid, []float64) {
+	u := func(a, b float64) float64 { return a + (b-a)*rng.Float64() }
+	names := []string{"N2", "CO2", "C1", "C2", "C3", "iC4", "nC4", "iC5", "nC5", "nC6"}
+	frac := []float64{u(0, 2), u(0, 6), u(60, 85), u(4, 10), u(2, 6), u(0.3, 1), u(0.5, 2.5), u(0.3, 1), u(0.3, 1.2), u(0.3, 1.2)}
+	plusZ := u(1, 12)
+	total := plusZ
+	for _, v := range frac {
+		total += v
+	}
+	mPlus := u(110, 200)
+	sg := 0.70 + 0.12*(mPlus-110)/90 + u(-0.01, 0.02)
+	var comps []Component
+	var z []float64
+	for i, nm := range names {
+		c, _ := LibraryComponent(nm)
+		comps = append(comps, c)
+		z = append(z, frac[i]/total)
+	}
+	pcs, pz, err := SplitPlus(PlusFraction{Name: "C7+", FirstCarbon: 7, Z: plusZ / total, M: mPlus / 1000, SG: sg}, Characterization{Pseudo: 1 + rng.Intn(5)})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	comps = append(comps, pcs...)
+	z = append(z, pz...)
+	normalise(z)
+	fl, err := NewFluid(comps, DefaultKij(comps, ChuehPrausnitz{}), Options{VolumeShift: true})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return fl, z
+}
+
+// TestRandomCondensates runs the saturation, flash and envelope solvers on
+// many invented condensates and checks them against each other.
+func TestRandomCondensates(t *testing.T) {
+	rng := rand.New(rand.NewSource(7))
+	cases := 40
+	if testing.Short() {
+		cases = 10
+	}
+	for k := 0; k < cases; k++ {
+		fl, z := randomCondensate(t, rng)
+		T := degF(150 + 200*rng.Float64())
+		f := NewFlasher(fl, nil)
+		var r FlashResult
+		up, err := UpperSaturation(fl, T, z, nil)
+		if err != nil {
+			// a lean gas can be above its cricondentherm: confirm with flashes
+			for _, p := range []float64{500, 1500, 3000, 5000, 8000} {
+				if ferr := f.Flash(&r, T, p*psi, z); ferr != nil || r.Phases != 1 {
+					t.Errorf("case %d: no saturation point (%v) but a flash at %g psia has %d phases (%v)", k, err, p, r.Phases, ferr)
+				}
+			}
+			continue
+		}
+		if e := f.Flash(&r, T, up.P*0.999, z); e != nil || r.Phases != 2 {
+			t.Errorf("case %d (%v at %g psia): 0.1%% below: %d phases, %v", k, up.Type, up.P/psi, r.Phases, e)
+		}
+		if e := f.Flash(&r, T, up.P*1.001, z); e != nil || r.Phases != 1 {
+			t.Errorf("case %d (%v at %g psia): 0.1%% above: %d phases, %v", k, up.Type, up.P/psi, r.Phases, e)
+		}
+		for _, frac := range []float64{0.9, 0.7, 0.5, 0.3, 0.1} {
+			if e := f.Flash(&r, T, up.P*frac, z); e != nil {
+				t.Errorf("case %d: flash at %g of the saturation pressure: %v", k, frac, e)
+			} else if r.Phases == 2 && r.Resid > 1e-10 {
+				t.Errorf("case %d: residual %g", k, r.Resid)
+			}
+		}
+		if up.Type == Dew {
+			lo, err := LowerDewPoint(fl, T, z, up.P, nil)
+			if err == nil && !(lo.P < up.P) {
+				t.Errorf("case %d: lower dew point %g above upper %g", k, lo.P, up.P)
+			}
+		}
+		env, err := TraceEnvelope(fl, z, nil)
+		if err != nil {
+			t.Errorf("case %d: envelope: %v", k, err)
+			continue
+		}
+		if env.Cricondentherm[0] < T-0.5 {
+			t.Errorf("case %d: saturation point at %g K above the cricondentherm %g K", k, T, env.Cricondentherm[0])
+		}
+		if env.Cricondenbar[1] < up.P*(1-1e-3) {
+			t.Errorf("case %d: saturation pressure %g above the cricondenbar %g", k, up.P/psi, env.Cricondenbar[1]/psi)
+		}
+		if math.IsNaN(env.Critical[0]) {
+			t.Errorf("case %d: NaN critical point", k)
+		}
+	}
+}
