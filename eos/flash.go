@@ -145,7 +145,15 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 			if okn {
 				return bn, iter, resn, true
 			}
-			// Newton failed: carry on substituting from where it stopped.
+			// Newton failed: carry on substituting from where it stopped,
+			// which is no worse than where it started (it only takes steps
+			// that lower the Gibbs energy).
+			for i := 0; i < w.n; i++ {
+				if z[i] > 0 {
+					w.lnK[i] = math.Log(w.y[i] / w.x[i])
+				}
+			}
+			continue
 		}
 		copy(w.lnK2, w.lnK1)
 		copy(w.lnK1, w.lnK)
@@ -190,48 +198,33 @@ func (w *work) gdem() bool {
 	return true
 }
 
-// newtonSplit minimises the Gibbs energy of the split in the vapour mole
-// numbers v_i (liquid l_i = z_i − v_i). Gradient g_i = ln f_i^V − ln f_i^L;
+// newtonSplit minimises the Gibbs energy of the split in the mole numbers of
+// the smaller phase (vapour v_i or liquid l_i = z_i − v_i). Gradient in v:
+// g_i = ln f_i^V − ln f_i^L;
 // Hessian (δ_ij z_i/(x_i y_i) − 1)/(β(1−β)) + Φ^V_ij/β + Φ^L_ij/(1−β), with Φ
-// the composition derivatives n ∂ln φ_i/∂n_j of each phase.
+// the composition derivatives n ∂ln φ_i/∂n_j of each phase. Where the
+// Hessian is not positive definite (near a critical point) a Levenberg shift
+// is added, and each step is cut back until the Gibbs energy falls (Armijo).
 func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, int, float64, bool) {
 	n := w.n
 	fl := w.fl
+	// For each component the unknown is its amount in the phase that holds
+	// less of it (sign +1: vapour, −1: liquid), the other phase taking the
+	// rest: z_i − u_i then loses no digits, whereas a trace of a heavy
+	// component in the vapour computed as z − l would.
+	sg := w.sgn
 	for i := 0; i < n; i++ {
-		w.v[i] = beta * w.y[i]
-		w.l[i] = z[i] - w.v[i]
+		v, l := beta*w.y[i], (1-beta)*w.x[i]
+		if v <= l {
+			sg[i] = 1
+			w.v[i], w.l[i] = v, z[i]-v
+		} else {
+			sg[i] = -1
+			w.v[i], w.l[i] = z[i]-l, l
+		}
 	}
-	gOld := math.Inf(1)
-	res := math.Inf(1)
-	for it := 1; it <= 30; it++ {
-		V, L := 0.0, 0.0
-		for i := 0; i < n; i++ {
-			V += w.v[i]
-			L += w.l[i]
-		}
-		for i := 0; i < n; i++ {
-			w.y[i] = w.v[i] / V
-			w.x[i] = w.l[i] / L
-		}
-		fl.evalPhase(&w.pb, &w.ts, p, w.y, rootMinG, 0)
-		fl.evalPhase(&w.pa, &w.ts, p, w.x, rootMinG, 0)
-		G := 0.0
-		res = 0
-		for i := 0; i < n; i++ {
-			if z[i] == 0 {
-				w.g[i] = 0
-				continue
-			}
-			lfv := math.Log(w.y[i]) + w.pb.lnphi[i]
-			lfl := math.Log(w.x[i]) + w.pa.lnphi[i]
-			G += w.v[i]*lfv + w.l[i]*lfl
-			w.g[i] = lfv - lfl
-			res = math.Max(res, math.Abs(w.g[i]))
-		}
-		if G > gOld+1e-10*math.Abs(gOld) && res > w.tol {
-			return V, it, res, false // uphill: let substitution take over
-		}
-		gOld = G
+	G, res, V, L := w.splitState(p, z)
+	for it := 1; it <= 50; it++ {
 		if res < w.tol {
 			for i := 0; i < n; i++ {
 				if z[i] > 0 {
@@ -242,7 +235,7 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 		}
 		fl.derivs(&w.pb, &w.ts, w.y, dN)
 		fl.derivs(&w.pa, &w.ts, w.x, dN)
-		H := w.H[:n*n]
+		H := w.H[n*n : 2*n*n]
 		c := 1 / (V * L)
 		for i := 0; i < n; i++ {
 			for j := 0; j < n; j++ {
@@ -250,16 +243,40 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 			}
 			if z[i] > 0 {
 				H[i*n+i] += c * z[i] / (w.x[i] * w.y[i])
-			} else {
+			}
+		}
+		for i := 0; i < n; i++ { // an absent component: an identity row and column
+			if z[i] == 0 {
 				for j := 0; j < n; j++ {
 					H[i*n+j], H[j*n+i] = 0, 0
 				}
 				H[i*n+i] = 1
 			}
-			w.s[i] = -w.g[i]
 		}
-		if !cholSolve(H, n, w.s) {
+		// gradient and Hessian in the unknowns: S g and S H S with S = diag(sg);
+		// shiftedSolve turns the right-hand side −S g in w.g into the step
+		for i := 0; i < n; i++ {
+			w.g[i] = -sg[i] * w.r[i]
+			for j := 0; j < n; j++ {
+				H[i*n+j] *= sg[i] * sg[j]
+			}
+		}
+		if !w.shiftedSolve(H, n) {
 			return V, it, res, false
+		}
+		slope := 0.0 // directional derivative of G along the step
+		for i := 0; i < n; i++ {
+			slope += sg[i] * w.r[i] * w.g[i]
+		}
+		if !(slope < 0) {
+			return V, it, res, false
+		}
+		for i := 0; i < n; i++ { // the unknowns before the step
+			if sg[i] > 0 {
+				w.s[i] = w.v[i]
+			} else {
+				w.s[i] = w.l[i]
+			}
 		}
 		// Keep every mole number strictly inside (0, z_i).
 		step := 1.0
@@ -267,18 +284,67 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 			if z[i] == 0 {
 				continue
 			}
-			if nv := w.v[i] + step*w.s[i]; nv <= 0 {
-				step = math.Min(step, 0.9*w.v[i]/-w.s[i])
-			} else if nv >= z[i] {
-				step = math.Min(step, 0.9*w.l[i]/w.s[i])
+			if nu := w.s[i] + step*w.g[i]; nu <= 0 {
+				step = math.Min(step, 0.9*w.s[i]/-w.g[i])
+			} else if nu >= z[i] {
+				step = math.Min(step, 0.9*(z[i]-w.s[i])/w.g[i])
 			}
 		}
-		for i := 0; i < n; i++ {
-			w.v[i] += step * w.s[i]
-			w.l[i] = z[i] - w.v[i]
+		accepted := false
+		for cut := 0; cut < 30; cut++ {
+			for i := 0; i < n; i++ {
+				u := w.s[i] + step*w.g[i]
+				if sg[i] > 0 {
+					w.v[i], w.l[i] = u, z[i]-u
+				} else {
+					w.v[i], w.l[i] = z[i]-u, u
+				}
+			}
+			Gn, resn, Vn, Ln := w.splitState(p, z)
+			// Close to the solution the change in G is below its round-off:
+			// there the full Newton step is taken.
+			if Gn <= G+1e-4*step*slope || res < 1e-6 {
+				G, res, V, L = Gn, resn, Vn, Ln
+				accepted = true
+				break
+			}
+			step *= 0.5
+		}
+		if !accepted {
+			return V, it, res, false
 		}
 	}
-	return 0, 30, res, false
+	return V, 50, res, false
+}
+
+// splitState evaluates both phases of the split held in w.v and w.l: it sets
+// w.x, w.y and the gradient w.r_i = ln f_i^V − ln f_i^L, and returns the
+// Gibbs energy G/RT (less the ideal-gas reference), the largest |w.r_i| and
+// the phase amounts.
+func (w *work) splitState(p float64, z []float64) (G, res, V, L float64) {
+	n := w.n
+	for i := 0; i < n; i++ {
+		V += w.v[i]
+		L += w.l[i]
+	}
+	for i := 0; i < n; i++ {
+		w.y[i] = w.v[i] / V
+		w.x[i] = w.l[i] / L
+	}
+	w.fl.evalPhase(&w.pb, &w.ts, p, w.y, rootMinG, 0)
+	w.fl.evalPhase(&w.pa, &w.ts, p, w.x, rootMinG, 0)
+	for i := 0; i < n; i++ {
+		if z[i] == 0 {
+			w.r[i] = 0
+			continue
+		}
+		lfv := math.Log(w.y[i]) + w.pb.lnphi[i]
+		lfl := math.Log(w.x[i]) + w.pa.lnphi[i]
+		G += w.v[i]*lfv + w.l[i]*lfl
+		w.r[i] = lfv - lfl
+		res = math.Max(res, math.Abs(w.r[i]))
+	}
+	return G, res, V, L
 }
 
 func normalise(x []float64) {

@@ -184,11 +184,11 @@ func (w *work) trial(p float64, z []float64, early bool) trialResult {
 	return res
 }
 
-// shiftedSolve solves (H + μI) Δ = g for the Newton step of the stability
-// test, with μ = 0 when H (at w.H[n*n:2*n*n]) is positive definite and
-// otherwise the smallest of 1e-8, 1e-6, … 1 times its largest diagonal
-// element that makes it so (a Levenberg–Marquardt shift: close to a critical
-// point the Hessian of tm is nearly singular). The step replaces w.g.
+// shiftedSolve solves (H + μD) Δ = g for a Newton step, with D the diagonal
+// of H (at w.H[n*n:2*n*n]): μ = 0 when H is positive definite and otherwise
+// the smallest of 1e-6, 1e-5, … 1e3 that makes it so (a Marquardt shift:
+// close to a critical point the Hessian is nearly singular or indefinite).
+// The step replaces w.g.
 func (w *work) shiftedSolve(H []float64, n int) bool {
 	a := w.H[:n*n]
 	copy(w.s, w.g)
@@ -196,14 +196,10 @@ func (w *work) shiftedSolve(H []float64, n int) bool {
 	if cholSolve(a, n, w.g) {
 		return true
 	}
-	big := 0.0
-	for i := 0; i < n; i++ {
-		big = math.Max(big, math.Abs(H[i*n+i]))
-	}
-	for mu := 1e-8 * big; mu <= big; mu *= 100 {
+	for mu := 1e-6; mu <= 1e3; mu *= 10 {
 		copy(a, H)
 		for i := 0; i < n; i++ {
-			a[i*n+i] += mu
+			a[i*n+i] += mu * math.Abs(H[i*n+i])
 		}
 		copy(w.g, w.s)
 		if cholSolve(a, n, w.g) {

@@ -20,6 +20,7 @@ type work struct {
 	lnK0, lnKss      []float64 // ln K from the trial phase; the plain step before a GDEM jump
 	K, x, y, r, g, s []float64
 	v, l             []float64 // flash Newton: vapour and liquid mole numbers
+	sgn              []float64 // flash Newton: +1 where v_i is the unknown, −1 where l_i is
 	H                []float64 // (n+2)×(n+2) matrix storage
 	rhs              []float64 // n+2
 }
@@ -34,7 +35,7 @@ func newWork(fl *Fluid, s *Settings) *work {
 		d: vec(), lnW: vec(), W: vec(), wn: vec(), wLiq: vec(), wVap: vec(),
 		lnK: vec(), lnK1: vec(), lnK2: vec(), lnK0: vec(), lnKss: vec(),
 		K: vec(), x: vec(), y: vec(), r: vec(), g: vec(), s: vec(),
-		v: vec(), l: vec(),
+		v: vec(), l: vec(), sgn: vec(),
 		H:   make([]float64, max((n+2)*(n+2), 2*n*n)),
 		rhs: make([]float64, n+2),
 	}
