@@ -1,0 +1,272 @@
+package main
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/urfave/cli/v2"
+
+	"dewcell/cmd/dewcell/internal/study"
+	"dewcell/cmd/dewcell/internal/units"
+)
+
+// Exit codes (DESIGN.md).
+const (
+	exitFailed = 1 // a computation failed
+	exitUsage  = 2 // bad input or usage
+)
+
+// caution is printed to standard error after every result.
+const caution = "caution: screening estimates; reserves and development decisions need review by qualified, licensed professionals under local regulations"
+
+// Flag names shared by the commands.
+const (
+	flagUnits       = "units"
+	flagFormat      = "format"
+	flagOutput      = "output"
+	flagPressure    = "pressure"
+	flagTemperature = "temperature"
+)
+
+// run runs the command line args and returns the exit code.
+func run(args []string, stdout, stderr io.Writer) int {
+	app := newApp(stdout, stderr)
+	err := app.Run(args)
+	if err == nil {
+		return 0
+	}
+	if msg := err.Error(); msg != "" {
+		fmt.Fprintln(stderr, "dewcell:", msg)
+	}
+	var ec cli.ExitCoder
+	if errors.As(err, &ec) {
+		return ec.ExitCode()
+	}
+	return exitFailed // the computation failed, e.g. errors.Is(err, eos.ErrNoConvergence)
+}
+
+func newApp(stdout, stderr io.Writer) *cli.App {
+	app := &cli.App{
+		Name:      "dewcell",
+		Usage:     "Peng–Robinson fluid model for gas-condensate reservoirs",
+		UsageText: "dewcell COMMAND [flags] STUDY.toml",
+		Description: "Flags go before the study file. Temperatures and pressures carry their unit, " +
+			`as in the study file: --pressure "3000 psia", --temperature "220 degF".`,
+		HideVersion:    true,
+		Writer:         stdout,
+		ErrWriter:      stderr,
+		ExitErrHandler: func(*cli.Context, error) {}, // run chooses the exit code
+		OnUsageError:   usageError,
+		Action: func(c *cli.Context) error {
+			if c.Args().Present() {
+				return cli.Exit(fmt.Sprintf("unknown command %q; run dewcell help for the list", c.Args().First()), exitUsage)
+			}
+			c.App.Writer = c.App.ErrWriter // usage, not a result
+			_ = cli.ShowAppHelp(c)
+			return cli.Exit("", exitUsage)
+		},
+		Commands: []*cli.Command{
+			fluidCommand(),
+			flashCommand(),
+			satpointCommand(),
+			envelopeCommand(),
+			demoCommand(),
+		},
+	}
+	for _, c := range app.Commands {
+		c.OnUsageError = usageError
+	}
+	return app
+}
+
+// usageError turns a flag-parsing error into exit code 2, without printing
+// help on standard output.
+func usageError(c *cli.Context, err error, _ bool) error {
+	name := "dewcell"
+	if c.Command != nil && c.Command.Name != "" {
+		name += " " + c.Command.Name
+	}
+	return cli.Exit(fmt.Sprintf("%v (see %s --help)", err, name), exitUsage)
+}
+
+// sharedFlags are the flags of every command.
+func sharedFlags() []cli.Flag {
+	return []cli.Flag{
+		&cli.StringFlag{
+			Name:  flagUnits,
+			Value: units.Field.String(),
+			Usage: "unit system of the output: `SYSTEM` is field or metric",
+			Action: func(_ *cli.Context, s string) error {
+				if _, err := units.ParseSystem(s); err != nil {
+					return cli.Exit("--units: "+err.Error(), exitUsage)
+				}
+				return nil
+			},
+		},
+		&cli.StringFlag{
+			Name:  flagFormat,
+			Value: formatTable,
+			Usage: "output `FORMAT`: table (for people), csv or json",
+			Action: func(_ *cli.Context, s string) error {
+				for _, f := range formats {
+					if s == f {
+						return nil
+					}
+				}
+				return cli.Exit(fmt.Sprintf("--format: unknown format %q, want table, csv or json", s), exitUsage)
+			},
+		},
+		&cli.StringFlag{
+			Name:  flagOutput,
+			Usage: "write the result to `FILE`, in full or not at all, instead of standard output",
+		},
+	}
+}
+
+// options are the settings every command shares.
+type options struct {
+	sys    units.System
+	format string
+	output string // "" for standard output
+	study  string // path of the study file, "" for commands without one
+	stdout io.Writer
+	stderr io.Writer
+}
+
+// commonOptions reads the shared flags and, when wantStudy, the one study
+// file argument.
+func commonOptions(c *cli.Context, wantStudy bool) (*options, error) {
+	o := &options{format: c.String(flagFormat), output: c.String(flagOutput), stdout: c.App.Writer, stderr: c.App.ErrWriter}
+	var err error
+	if o.sys, err = units.ParseSystem(c.String(flagUnits)); err != nil {
+		return nil, cli.Exit("--units: "+err.Error(), exitUsage)
+	}
+	args := c.Args().Slice()
+	usage := fmt.Sprintf("usage: dewcell %s %s", c.Command.Name, c.Command.ArgsUsage)
+	switch {
+	case !wantStudy && len(args) > 0:
+		return nil, cli.Exit(fmt.Sprintf("%s takes no arguments, got %q; %s", c.Command.Name, args[0], usage), exitUsage)
+	case wantStudy && len(args) == 0:
+		return nil, cli.Exit(fmt.Sprintf("%s needs a study file; %s", c.Command.Name, usage), exitUsage)
+	case wantStudy && len(args) > 1:
+		return nil, cli.Exit(fmt.Sprintf("%s takes one study file, got %d arguments (%s); flags go before the study file; %s",
+			c.Command.Name, len(args), strings.Join(args, " "), usage), exitUsage)
+	case wantStudy:
+		o.study = args[0]
+	}
+	if o.output != "" {
+		if err := checkOutput(o.output, o.study); err != nil {
+			return nil, cli.Exit("--output: "+err.Error(), exitUsage)
+		}
+	}
+	return o, nil
+}
+
+// checkOutput refuses an output path that is the study file, a directory, or
+// in a directory that does not exist.
+func checkOutput(out, studyPath string) error {
+	if studyPath != "" {
+		a, errA := filepath.Abs(out)
+		b, errB := filepath.Abs(studyPath)
+		if errA == nil && errB == nil && a == b {
+			return fmt.Errorf("%s is the study file; refusing to overwrite it", out)
+		}
+		fo, errO := os.Stat(out)
+		fs, errS := os.Stat(studyPath)
+		if errO == nil && errS == nil && os.SameFile(fo, fs) {
+			return fmt.Errorf("%s is the study file; refusing to overwrite it", out)
+		}
+	}
+	if fi, err := os.Stat(out); err == nil && fi.IsDir() {
+		return fmt.Errorf("%s is a directory", out)
+	}
+	dir := filepath.Dir(out)
+	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
+		return fmt.Errorf("directory %s does not exist", dir)
+	}
+	return nil
+}
+
+// loadStudy reads the study file, printing its warnings to standard error;
+// a bad study is a usage error.
+func (o *options) loadStudy() (*study.Study, error) {
+	st, err := study.Read(o.study)
+	if err != nil {
+		return nil, cli.Exit(err, exitUsage)
+	}
+	o.warn(st.Warnings...)
+	return st, nil
+}
+
+func (o *options) warn(msgs ...string) {
+	for _, m := range msgs {
+		fmt.Fprintln(o.stderr, "warning:", m)
+	}
+}
+
+// quantityFlag reads a flag holding a quantity with its unit; ok is false
+// when the flag was not given.
+func quantityFlag(c *cli.Context, name string, kind units.Kind, atm float64) (v float64, ok bool, err error) {
+	if !c.IsSet(name) {
+		return 0, false, nil
+	}
+	v, err = units.Parse(c.String(name), kind, atm)
+	if err != nil {
+		return 0, false, cli.Exit(fmt.Sprintf("--%s: %v", name, err), exitUsage)
+	}
+	return v, true, nil
+}
+
+// emit renders the reports and writes them to standard output or, with
+// --output, to the file: a temporary file in the same directory, renamed
+// into place once complete, so that the file is written in full or not at all.
+func (o *options) emit(reports ...*Report) error {
+	var buf bytes.Buffer
+	if err := render(&buf, o.format, reports...); err != nil {
+		return err
+	}
+	if o.output == "" {
+		if _, err := o.stdout.Write(buf.Bytes()); err != nil {
+			return err
+		}
+	} else if err := writeAtomic(o.output, buf.Bytes()); err != nil {
+		return fmt.Errorf("--output: %w", err)
+	}
+	fmt.Fprintln(o.stderr, caution)
+	return nil
+}
+
+func writeAtomic(path string, data []byte) (err error) {
+	dir, base := filepath.Split(path)
+	if dir == "" {
+		dir = "."
+	}
+	f, err := os.CreateTemp(dir, "."+base+".*.tmp")
+	if err != nil {
+		return err
+	}
+	defer func() {
+		if err != nil {
+			f.Close()
+			os.Remove(f.Name())
+		}
+	}()
+	if _, err = f.Write(data); err != nil {
+		return err
+	}
+	if err = f.Chmod(0o644); err != nil {
+		return err
+	}
+	if err = f.Sync(); err != nil {
+		return err
+	}
+	if err = f.Close(); err != nil {
+		return err
+	}
+	return os.Rename(f.Name(), path)
+}

@@ -1,0 +1,74 @@
+package main
+
+import (
+	"fmt"
+
+	"github.com/urfave/cli/v2"
+
+	"dewcell/cmd/dewcell/internal/study"
+	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/eos"
+)
+
+func envelopeCommand() *cli.Command {
+	return &cli.Command{
+		Name:      "envelope",
+		Usage:     "the phase envelope: dew and bubble branches, critical point, cricondenbar, cricondentherm",
+		ArgsUsage: "STUDY.toml",
+		Flags:     sharedFlags(),
+		Action: func(c *cli.Context) error {
+			o, err := commonOptions(c, true)
+			if err != nil {
+				return err
+			}
+			st, err := o.loadStudy()
+			if err != nil {
+				return err
+			}
+			r, warnings, err := envelopeReport(st, o.sys, true)
+			if err != nil {
+				return err
+			}
+			o.warn(warnings...)
+			return o.emit(r)
+		},
+	}
+}
+
+// envelopeReport traces the phase envelope of the study's feed. The summary
+// table holds the critical point (when found), the cricondenbar and the
+// cricondentherm; the points table, when withPoints, every traced point.
+// The warnings say where the trace stopped short.
+func envelopeReport(st *study.Study, sys units.System, withPoints bool) (*Report, []string, error) {
+	env, err := eos.TraceEnvelope(st.Fluid, st.Z, nil)
+	if err != nil {
+		return nil, nil, fmt.Errorf("phase envelope: %w", err)
+	}
+	var warnings []string
+	if !env.HasCritical {
+		warnings = append(warnings, "phase envelope: the trace reached no critical point; with a heavy tail the equation of state can turn the saturation curve up to high pressure at low temperature (a liquid-liquid region) instead")
+	}
+	if env.Truncated {
+		warnings = append(warnings, "phase envelope: the trace ended before returning to low pressure; the points given are converged saturation points")
+	}
+	tU, pU := sys.Unit(units.Temperature), sys.Unit(units.Pressure)
+	cols := []Column{{Name: "type"}, {Name: "temperature", Unit: tU}, {Name: "pressure", Unit: pU}}
+	row := func(kind string, t, p float64) []any { return []any{kind, tU.FromSI(t), pU.FromSI(p)} }
+	summary := Table{Name: "summary", Title: "critical point and extremes", Columns: cols}
+	if env.HasCritical {
+		summary.Rows = append(summary.Rows, row("critical", env.Critical[0], env.Critical[1]))
+	}
+	summary.Rows = append(summary.Rows,
+		row("cricondenbar", env.Cricondenbar[0], env.Cricondenbar[1]),
+		row("cricondentherm", env.Cricondentherm[0], env.Cricondentherm[1]))
+	r := &Report{Name: "envelope", Title: "phase envelope of " + fluidName(st)}
+	if withPoints {
+		points := Table{Name: "points", Title: "envelope points", Columns: cols}
+		for _, pt := range env.Points {
+			points.Rows = append(points.Rows, row(pt.Type.String(), pt.T, pt.P))
+		}
+		r.Tables = append(r.Tables, points)
+	}
+	r.Tables = append(r.Tables, summary)
+	return r, warnings, nil
+}

@@ -1,0 +1,128 @@
+package main
+
+import (
+	"fmt"
+
+	"github.com/urfave/cli/v2"
+
+	"dewcell/cmd/dewcell/internal/study"
+	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/eos"
+)
+
+func flashCommand() *cli.Command {
+	return &cli.Command{
+		Name:      "flash",
+		Usage:     "one pressure–temperature flash: phase split, phase compositions, Z-factors, densities",
+		ArgsUsage: "STUDY.toml",
+		Flags: append(sharedFlags(),
+			&cli.StringFlag{Name: flagPressure, Usage: "flash pressure `P` with its unit, e.g. \"3000 psia\" (required)"},
+			&cli.StringFlag{Name: flagTemperature, Usage: "flash temperature `T` with its unit, e.g. \"220 degF\" (default: the reservoir temperature)"},
+		),
+		Action: func(c *cli.Context) error {
+			o, err := commonOptions(c, true)
+			if err != nil {
+				return err
+			}
+			if !c.IsSet(flagPressure) {
+				return cli.Exit(`flash needs --pressure, e.g. --pressure "3000 psia"`, exitUsage)
+			}
+			st, err := o.loadStudy()
+			if err != nil {
+				return err
+			}
+			p, _, err := quantityFlag(c, flagPressure, units.Pressure, st.Atmospheric)
+			if err != nil {
+				return err
+			}
+			if p <= 0 {
+				return cli.Exit("--pressure: must be above zero absolute pressure", exitUsage)
+			}
+			t, set, err := quantityFlag(c, flagTemperature, units.Temperature, st.Atmospheric)
+			if err != nil {
+				return err
+			}
+			if !set {
+				t = st.Reservoir.Temperature
+			}
+			r, err := flashReport(st, o.sys, t, p)
+			if err != nil {
+				return err
+			}
+			return o.emit(r)
+		},
+	}
+}
+
+// flashReport flashes the study's feed at t (K) and p (Pa).
+func flashReport(st *study.Study, sys units.System, t, p float64) (*Report, error) {
+	var res eos.FlashResult
+	if err := eos.NewFlasher(st.Fluid, nil).Flash(&res, t, p, st.Z); err != nil {
+		return nil, fmt.Errorf("flash at %s: %w", stateText(sys, t, p), err)
+	}
+	tU, pU, dU := sys.Unit(units.Temperature), sys.Unit(units.Pressure), sys.Unit(units.Density)
+	liquid, vapor := true, true
+	phaseState := "two-phase"
+	if res.Phases == 1 { // only the one phase's properties exist
+		liquid, vapor = res.Single == eos.Liquid, res.Single != eos.Liquid
+		phaseState = "vapor"
+		if liquid {
+			phaseState = "liquid"
+		}
+	}
+	only := func(ok bool, v float64) any {
+		if !ok {
+			return nil
+		}
+		return v
+	}
+	r := &Report{
+		Name:  "flash",
+		Title: fmt.Sprintf("flash of %s at %s", fluidName(st), stateText(sys, t, p)),
+		Fields: []Field{
+			{Column{Name: "pressure", Unit: pU}, pU.FromSI(p)},
+			{Column{Name: "temperature", Unit: tU}, tU.FromSI(t)},
+			{Column{Name: "phases"}, res.Phases},
+			{Column{Name: "state"}, phaseState},
+			{Column{Name: "vapor_fraction"}, res.Beta},
+			{Column{Name: "z_liquid"}, only(liquid, res.L.Z)},
+			{Column{Name: "z_vapor"}, only(vapor, res.V.Z)},
+			{Column{Name: "density_liquid", Unit: dU}, only(liquid, dU.FromSI(res.L.Rho))},
+			{Column{Name: "density_vapor", Unit: dU}, only(vapor, dU.FromSI(res.V.Rho))},
+			{Column{Name: "molar_mass_liquid", Unit: units.GPerMol}, only(liquid, units.GPerMol.FromSI(res.L.M))},
+			{Column{Name: "molar_mass_vapor", Unit: units.GPerMol}, only(vapor, units.GPerMol.FromSI(res.V.M))},
+			{Column{Name: "iterations"}, res.Iter},
+			{Column{Name: "residual"}, res.Resid},
+		},
+	}
+	names := componentNames(st.Fluid)
+	r.Vectors = append(r.Vectors, Vector{Name: "feed_composition", Label: "component", Labels: names, Values: st.Z})
+	if liquid {
+		r.Vectors = append(r.Vectors, Vector{Name: "liquid_composition", Label: "component", Labels: names, Values: res.X})
+	}
+	if vapor {
+		r.Vectors = append(r.Vectors, Vector{Name: "vapor_composition", Label: "component", Labels: names, Values: res.Y})
+	}
+	return r, nil
+}
+
+func componentNames(fl *eos.Fluid) []string {
+	names := make([]string, fl.N())
+	for i := range names {
+		names[i] = fl.Component(i).Name
+	}
+	return names
+}
+
+func fluidName(st *study.Study) string {
+	if st.Title != "" {
+		return st.Title
+	}
+	return st.File
+}
+
+// stateText writes a temperature and a pressure for people.
+func stateText(sys units.System, t, p float64) string {
+	tU, pU := sys.Unit(units.Temperature), sys.Unit(units.Pressure)
+	return fmt.Sprintf("%.6g %s and %.6g %s", tU.FromSI(t), tU.Symbol, pU.FromSI(p), pU.Symbol)
+}

@@ -1,0 +1,90 @@
+package main
+
+import (
+	"github.com/urfave/cli/v2"
+
+	"dewcell/cmd/dewcell/internal/study"
+	"dewcell/cmd/dewcell/internal/units"
+)
+
+func fluidCommand() *cli.Command {
+	return &cli.Command{
+		Name:      "fluid",
+		Usage:     "the characterized fluid: components, mole %, critical properties, volume shifts, interaction coefficients",
+		ArgsUsage: "STUDY.toml",
+		Flags:     sharedFlags(),
+		Action: func(c *cli.Context) error {
+			o, err := commonOptions(c, true)
+			if err != nil {
+				return err
+			}
+			st, err := o.loadStudy()
+			if err != nil {
+				return err
+			}
+			return o.emit(fluidReport(st, o.sys))
+		},
+	}
+}
+
+// fluidReport tabulates the components of the study's fluid and their
+// interaction coefficients.
+func fluidReport(st *study.Study, sys units.System) *Report {
+	fl := st.Fluid
+	tU, pU, vU := sys.Unit(units.Temperature), sys.Unit(units.Pressure), sys.Unit(units.MolarVolume)
+	t := Table{
+		Name:  "components",
+		Title: "components",
+		Columns: []Column{
+			{Name: "component"},
+			{Name: "mole", Unit: units.Percent},
+			{Name: "molar_mass", Unit: units.GPerMol},
+			{Name: "critical_temperature", Unit: tU},
+			{Name: "critical_pressure", Unit: pU},
+			{Name: "acentric_factor"},
+			{Name: "volume_shift"},
+			{Name: "critical_volume", Unit: vU},
+		},
+	}
+	n := fl.N()
+	m := &Matrix{Name: "kij", Title: "binary interaction coefficients kij", Labels: make([]string, n), Values: make([][]float64, n)}
+	for i, c := range fl.Components() {
+		vc := any(vU.FromSI(c.Vc))
+		if c.Vc == 0 {
+			vc = nil // unknown
+		}
+		t.Rows = append(t.Rows, []any{
+			c.Name,
+			units.Percent.FromSI(st.Z[i]),
+			units.GPerMol.FromSI(c.M),
+			tU.FromSI(c.Tc),
+			pU.FromSI(c.Pc),
+			c.Omega,
+			c.Shift,
+			vc,
+		})
+		m.Labels[i] = c.Name
+		m.Values[i] = make([]float64, n)
+		for j := range n {
+			m.Values[i][j] = fl.Kij(i, j)
+		}
+	}
+	opt := fl.Options()
+	return &Report{
+		Name:  "fluid",
+		Title: fluidTitle(st),
+		Fields: []Field{
+			{Column{Name: "equation"}, opt.Equation.String()},
+			{Column{Name: "volume_shift_applied"}, opt.VolumeShift},
+		},
+		Tables: []Table{t},
+		Matrix: m,
+	}
+}
+
+func fluidTitle(st *study.Study) string {
+	if st.Title == "" {
+		return "fluid of " + st.File
+	}
+	return "fluid: " + st.Title
+}

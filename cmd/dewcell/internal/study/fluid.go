@@ -1,0 +1,468 @@
+package study
+
+import (
+	"fmt"
+	"math"
+	"regexp"
+	"strconv"
+	"strings"
+
+	"github.com/BurntSushi/toml"
+
+	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/eos"
+)
+
+// Limits on what a study may say about a fluid. They catch unit mistakes
+// (kg/mol for g/mol, a pressure in bar read as psia) rather than bound
+// physics closely; common practice, no published source.
+const (
+	sumTolerance = 0.05   // mol %: DESIGN.md, "must sum to 100 within 0.05"
+	maxMolarMass = 2000.0 // g/mol, any component
+	maxPlusMass  = 1000.0 // g/mol, a plus fraction
+	minPlusSG    = 0.6    // plus-fraction specific gravity, 60/60 degF
+	maxPlusSG    = 1.2
+	maxTc        = 2000.0 // K
+	maxPc        = 100e6  // Pa
+	maxPseudo    = 20
+	maxCarbon    = 100
+	maxGamma     = 20.0 // gamma shape; Whitson (1983) reports 0.5 to 2.5
+)
+
+var plusName = regexp.MustCompile(`^C([0-9]+)\+$`)
+
+// spec is one entry of [fluid.composition] with what the file says of it.
+type spec struct {
+	name  string  // as in the file
+	pct   float64 // mol %
+	plus  bool
+	comp  eos.Component // library or user component; canonical library name
+	first int           // index of its first component in the fluid
+	count int           // number of components it became
+}
+
+func (r *reader) fluid(s *Study, f *fileFluid, md toml.MetaData) {
+	if f == nil {
+		r.failf("fluid", "missing section; [fluid.composition] is needed")
+		return
+	}
+	var opt eos.Options
+	switch r.choice("fluid.equation", f.Equation, "PR78", "PR78", "PR76") {
+	case "PR76":
+		opt.Equation = eos.PR76
+	default:
+		opt.Equation = eos.PR78
+	}
+	opt.VolumeShift = r.boolean("fluid.volume_shift", f.VolumeShift, false)
+	var cp eos.ChuehPrausnitz
+	if a, ok := r.between("fluid.hydrocarbon_kij_a", f.KijA, "the Chueh–Prausnitz constant A", false, 0, 1, false, true); ok {
+		cp.A = a
+		cp.Off = a == 0 // in eos.ChuehPrausnitz, A = 0 alone would mean the default A
+	}
+	cp.B, _ = r.between("fluid.hydrocarbon_kij_b", f.KijB, "the Chueh–Prausnitz exponent B", false, 0, 20, true, false)
+	if r.err != nil {
+		return
+	}
+
+	specs := r.composition(f, tableOrder(md, "fluid", "composition"))
+	if r.err != nil {
+		return
+	}
+	plus := r.plus(f, specs)
+	r.properties(f, specs, tableOrder(md, "fluid", "properties"))
+	if r.err != nil {
+		return
+	}
+
+	// Components in file order, the plus fraction split in its place.
+	var comps []eos.Component
+	var z []float64
+	total := 0.0
+	for _, sp := range specs {
+		total += sp.pct
+	}
+	for i := range specs {
+		sp := &specs[i]
+		sp.first = len(comps)
+		if sp.plus {
+			plus.p.Z = sp.pct / total
+			pc, pz, err := eos.SplitPlus(plus.p, plus.c)
+			if err != nil {
+				r.err = &Error{File: r.file, Key: "fluid.plus", Msg: fmt.Sprintf("cannot split %s: %v", sp.name, err), Err: err}
+				return
+			}
+			comps = append(comps, pc...)
+			z = append(z, pz...)
+			sp.count = len(pc)
+			continue
+		}
+		comps = append(comps, sp.comp)
+		z = append(z, sp.pct/total)
+		sp.count = 1
+	}
+	normalise(z)
+
+	// Default coefficients from the canonical names, then the names of the file.
+	n := len(comps)
+	kij := eos.DefaultKij(comps, cp)
+	if len(kij) != n*n {
+		r.failf("fluid", "internal error: %d default interaction coefficients for %d components", len(kij), n)
+		return
+	}
+	for _, sp := range specs {
+		if !sp.plus {
+			comps[sp.first].Name = sp.name
+		}
+	}
+	r.interaction(f, specs, comps, kij, tableOrder(md, "fluid", "interaction"))
+	if r.err != nil {
+		return
+	}
+	fl, err := eos.NewFluid(comps, kij, opt)
+	if err != nil {
+		r.err = &Error{File: r.file, Key: "fluid", Msg: err.Error(), Err: err}
+		return
+	}
+	s.Fluid, s.Z = fl, z
+}
+
+// normalise scales z to sum to 1, then nudges its largest entry until the
+// sum, taken in order, is exactly 1.
+func normalise(z []float64) {
+	sum := func() float64 {
+		s := 0.0
+		for _, v := range z {
+			s += v
+		}
+		return s
+	}
+	s := sum()
+	big := 0
+	for i := range z {
+		z[i] /= s
+		if z[i] > z[big] {
+			big = i
+		}
+	}
+	for range 8 {
+		s = sum()
+		if s == 1 {
+			return
+		}
+		z[big] += 1 - s
+	}
+}
+
+func (r *reader) composition(f *fileFluid, order []string) []spec {
+	if len(f.Composition) == 0 {
+		r.missing("fluid.composition", "the mole percent of each component, such as C1 = 73.2")
+		return nil
+	}
+	var specs []spec
+	total := 0.0
+	for _, name := range order {
+		k := key("fluid", "composition", name)
+		v, ok := f.Composition[name]
+		if !ok {
+			continue
+		}
+		pct, ok := r.number(k, v, "a mole percent", true)
+		if !ok {
+			return nil
+		}
+		if pct < 0 || pct > 100 {
+			r.failf(k, "%v is out of range; want a mole percent from 0 to 100", pct)
+			return nil
+		}
+		if name == "" || strings.ContainsAny(name, "/ \t") {
+			r.failf(k, "component names may not be empty or contain '/' or spaces")
+			return nil
+		}
+		specs = append(specs, spec{name: name, pct: pct})
+		total += pct
+	}
+	if len(specs) != len(f.Composition) {
+		// Keys missing from MetaData.Keys: cannot happen with BurntSushi/toml v1.
+		r.failf("fluid.composition", "internal error: %d of %d components in order", len(specs), len(f.Composition))
+		return nil
+	}
+	if math.Abs(total-100) > sumTolerance {
+		r.failf("fluid.composition", "sums to %.6g mol%%; want 100 within %g", total, sumTolerance)
+		return nil
+	}
+	if math.Abs(total-100) > 1e-9 { // beyond the rounding of the sum itself
+		r.warnings = append(r.warnings, fmt.Sprintf("%s: fluid.composition sums to %.6g mol%%; normalised to 100", r.file, total))
+	}
+	// Two names for one library component (C6 and nC6).
+	seen := map[string]string{}
+	for _, sp := range specs {
+		if c, ok := eos.LibraryComponent(sp.name); ok {
+			if other, dup := seen[c.Name]; dup {
+				r.failf(key("fluid", "composition", sp.name), "%s and %s are the same library component", other, sp.name)
+				return nil
+			}
+			seen[c.Name] = sp.name
+		}
+	}
+	return specs
+}
+
+type plusSpec struct {
+	p eos.PlusFraction
+	c eos.Characterization
+}
+
+// plus reads [fluid.plus] and marks the plus fraction among specs.
+func (r *reader) plus(f *fileFluid, specs []spec) plusSpec {
+	var ps plusSpec
+	fp := f.Plus
+	if fp == nil {
+		for _, sp := range specs {
+			if strings.HasSuffix(sp.name, "+") {
+				r.missing("fluid.plus", fmt.Sprintf("a [fluid.plus] section describing %s (name, molar_mass, specific_gravity)", sp.name))
+				return ps
+			}
+		}
+		return ps
+	}
+	name := r.text("fluid.plus.name", fp.Name, true)
+	if r.err != nil {
+		return ps
+	}
+	found := -1
+	for i := range specs {
+		if specs[i].name == name {
+			found = i
+		}
+	}
+	if found < 0 {
+		r.failf("fluid.plus.name", "%q is not in fluid.composition", name)
+		return ps
+	}
+	if specs[found].pct == 0 {
+		r.failf(key("fluid", "composition", name), "the plus fraction is 0 mol%%; give its amount, or remove it and [fluid.plus]")
+		return ps
+	}
+	if _, ok := eos.LibraryComponent(name); ok {
+		r.failf("fluid.plus.name", "%q is a library component, not a plus fraction", name)
+		return ps
+	}
+	for _, sp := range specs {
+		if sp.name != name && strings.HasSuffix(sp.name, "+") {
+			r.failf(key("fluid", "composition", sp.name), "only one plus fraction is supported, and [fluid.plus] describes %s", name)
+			return ps
+		}
+	}
+	specs[found].plus = true
+	ps.p.Name = name
+
+	first := 0
+	if m := plusName.FindStringSubmatch(name); m != nil {
+		if n, err := strconv.Atoi(m[1]); err == nil {
+			first = n
+		} else {
+			first = -1
+		}
+	}
+	if n, ok := r.integer("fluid.plus.first_carbon", fp.FirstCarbon, "the carbon number n of the Cn+ fraction", 2, maxCarbon); ok {
+		if first != 0 && n != first {
+			r.failf("fluid.plus.first_carbon", "%d, but the name %q says %d", n, name, first)
+		}
+		first = n
+	} else if first == 0 && r.err == nil {
+		r.missing("fluid.plus.first_carbon", fmt.Sprintf("the carbon number n of the fraction, because the name %q does not say it (as C7+ would)", name))
+	}
+	if first < 2 || first > maxCarbon {
+		r.failf("fluid.plus.name", "carbon number %d of %q is out of range; want 2 to %d", first, name, maxCarbon)
+	}
+	ps.p.FirstCarbon = first
+	eta := float64(14*first - 6) // g/mol, the default minimum molar mass (Whitson, 1983)
+
+	split := r.choice("fluid.plus.split", fp.Split, "gamma", "gamma", "exponential", "none")
+	switch split {
+	case "exponential":
+		ps.c.Split = eos.SplitExponential
+	case "none":
+		ps.c.Split = eos.SplitNone
+	default:
+		ps.c.Split = eos.SplitGamma
+	}
+	if a, ok := r.between("fluid.plus.gamma_shape", fp.GammaShape, "the gamma shape alpha", false, 0, maxGamma, true, false); ok {
+		if split != "gamma" {
+			r.failf("fluid.plus.gamma_shape", "applies only with split = \"gamma\", not %q", split)
+		}
+		ps.c.Alpha = a
+	}
+	if e, ok := r.between("fluid.plus.minimum_molar_mass", fp.MinimumMolarMass, "the minimum molar mass in g/mol", false, 0, maxPlusMass, true, false); ok {
+		if split != "gamma" {
+			r.failf("fluid.plus.minimum_molar_mass", "applies only with split = \"gamma\", not %q", split)
+		}
+		ps.c.Eta = e / 1000
+		eta = e
+	}
+	if n, ok := r.integer("fluid.plus.pseudo_components", fp.PseudoComponents, "the number of pseudo-components", 1, maxPseudo); ok {
+		if split == "none" && n != 1 {
+			r.failf("fluid.plus.pseudo_components", "%d, but split = \"none\" keeps %s as one pseudo-component", n, name)
+		}
+		ps.c.Pseudo = n
+	}
+	switch r.choice("fluid.plus.correlation", fp.Correlation, "kesler-lee", "kesler-lee", "riazi-daubert", "twu") {
+	case "riazi-daubert":
+		ps.c.Correlation = eos.RiaziDaubert
+	case "twu":
+		ps.c.Correlation = eos.Twu
+	default:
+		ps.c.Correlation = eos.KeslerLee
+	}
+	if r.choice("fluid.plus.acentric", fp.Acentric, "kesler-lee", "kesler-lee", "edmister") == "edmister" {
+		ps.c.Acentric = eos.AcentricEdmister
+	}
+
+	m, ok := r.number("fluid.plus.molar_mass", fp.MolarMass, "the molar mass of the plus fraction in g/mol", true)
+	if ok && (m <= eta || m > maxPlusMass) {
+		r.failf("fluid.plus.molar_mass", "%v g/mol is out of range; want more than the minimum molar mass %g g/mol and at most %g g/mol",
+			m, eta, maxPlusMass)
+	}
+	ps.p.M = m / 1000
+	ps.p.SG, _ = r.between("fluid.plus.specific_gravity", fp.SpecificGravity, "the specific gravity (60/60 degF) of the plus fraction", true, minPlusSG, maxPlusSG, false, false)
+	return ps
+}
+
+// properties reads [fluid.properties.NAME] into the specs: library
+// components with overrides, user components in full.
+func (r *reader) properties(f *fileFluid, specs []spec, order []string) {
+	for _, name := range order {
+		inComp := false
+		for _, sp := range specs {
+			if sp.name == name {
+				inComp = true
+				if sp.plus {
+					r.failf(key("fluid", "properties", name), "%s is the plus fraction; describe it in [fluid.plus]", name)
+					return
+				}
+			}
+		}
+		if !inComp {
+			r.failf(key("fluid", "properties", name), "%s is not in fluid.composition", name)
+			return
+		}
+	}
+	for i := range specs {
+		sp := &specs[i]
+		if sp.plus {
+			continue
+		}
+		lib, isLib := eos.LibraryComponent(sp.name)
+		fp := f.Properties[sp.name]
+		if fp == nil {
+			if !isLib {
+				r.failf(key("fluid", "composition", sp.name), "unknown component %q: not in the library (%s), not the plus fraction, and no [fluid.properties.%s] defines it",
+					sp.name, strings.Join(eos.LibraryNames(), ", "), sp.name)
+				return
+			}
+			sp.comp = lib
+			continue
+		}
+		c := lib
+		if !isLib {
+			c = eos.Component{Name: sp.name}
+		}
+		k := func(field string) string { return key("fluid", "properties", sp.name, field) }
+		need := !isLib // a user component needs the four properties of the equation of state
+		if v, ok := r.between(k("molar_mass"), fp.MolarMass, "a molar mass in g/mol", need, 0, maxMolarMass, true, false); ok {
+			c.M = v / 1000
+		}
+		if v, ok := r.quantity(k("critical_temperature"), fp.CriticalTemperature, units.Temperature, need); ok {
+			if v > maxTc {
+				r.failf(k("critical_temperature"), "%.6g K is out of range; want at most %g K", v, maxTc)
+			}
+			c.Tc = v
+		}
+		if v, ok := r.quantity(k("critical_pressure"), fp.CriticalPressure, units.Pressure, need); ok {
+			if v <= 0 || v > maxPc {
+				r.failf(k("critical_pressure"), "%.6g Pa is out of range; want above 0 and at most %g MPa", v, maxPc/1e6)
+			}
+			c.Pc = v
+		}
+		if v, ok := r.between(k("acentric_factor"), fp.AcentricFactor, "an acentric factor", need, -1, 3, true, true); ok {
+			c.Omega = v
+		}
+		if v, ok := r.between(k("volume_shift"), fp.VolumeShift, "a dimensionless Peneloux shift s = c/b", false, -1, 1, true, true); ok {
+			c.Shift = v
+		}
+		if v, ok := r.quantity(k("critical_volume"), fp.CriticalVolume, units.MolarVolume, false); ok {
+			if v <= 0 {
+				r.failf(k("critical_volume"), "must be above zero")
+			}
+			c.Vc = v
+		}
+		if v, ok := r.quantity(k("boiling_point"), fp.BoilingPoint, units.Temperature, false); ok {
+			c.Tb = v
+		}
+		if v, ok := r.between(k("specific_gravity"), fp.SpecificGravity, "a specific gravity (60/60 degF)", false, 0, 3, true, false); ok {
+			c.SG = v
+		}
+		if r.err != nil {
+			return
+		}
+		sp.comp = c
+	}
+}
+
+// interaction applies [fluid.interaction] to kij, n×n for comps.
+func (r *reader) interaction(f *fileFluid, specs []spec, comps []eos.Component, kij []float64, order []string) {
+	n := len(comps)
+	// Each name of the file or of the fluid stands for some components.
+	groups := map[string][]int{}
+	for i, c := range comps {
+		groups[c.Name] = []int{i}
+	}
+	for _, sp := range specs {
+		g := make([]int, sp.count)
+		for j := range g {
+			g[j] = sp.first + j
+		}
+		groups[sp.name] = g
+	}
+	setBy := make(map[[2]int]string)
+	for _, pair := range order {
+		k := key("fluid", "interaction", pair)
+		parts := strings.Split(pair, "/")
+		if len(parts) != 2 {
+			r.failf(k, `want a pair of component names such as "C1/C7+"`)
+			return
+		}
+		a, b := strings.TrimSpace(parts[0]), strings.TrimSpace(parts[1])
+		ga, okA := groups[a]
+		gb, okB := groups[b]
+		switch {
+		case !okA:
+			r.failf(k, "%q is not a component of the fluid", a)
+			return
+		case !okB:
+			r.failf(k, "%q is not a component of the fluid", b)
+			return
+		case a == b:
+			r.failf(k, "a component does not interact with itself")
+			return
+		}
+		v, ok := r.between(k, f.Interaction[pair], "an interaction coefficient", true, -1, 1, true, true)
+		if !ok {
+			return
+		}
+		for _, i := range ga {
+			for _, j := range gb {
+				if i == j {
+					continue
+				}
+				ij := [2]int{min(i, j), max(i, j)}
+				if prev, dup := setBy[ij]; dup {
+					r.failf(k, "sets %s/%s, which %s already set", comps[i].Name, comps[j].Name, prev)
+					return
+				}
+				setBy[ij] = k
+				kij[i*n+j], kij[j*n+i] = v, v
+			}
+		}
+	}
+}

@@ -1,0 +1,318 @@
+package study
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/BurntSushi/toml"
+
+	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/eos"
+)
+
+// A Study is one checked case. Every quantity is SI: K, Pa, m, m², m³, 1/Pa.
+type Study struct {
+	File  string // the file name as given to Read or Parse
+	Title string
+
+	Reservoir Reservoir
+
+	Fluid *eos.Fluid
+	Z     []float64 // feed mole fractions in the order of Fluid's components; they sum to 1
+
+	Separator []Stage   // in order, the stock tank (standard conditions) follows the last
+	Depletion []float64 // depletion pressures, Pa, falling; nil when not given
+
+	Lab Lab
+
+	// Atmospheric is the atmospheric pressure, Pa, that converts gauge
+	// pressures (1 atm unless the study sets one).
+	Atmospheric float64
+
+	standard    units.Conditions
+	standardSet [2]bool // temperature, pressure given
+
+	// Warnings are remarks on accepted input (a composition normalised, ...).
+	Warnings []string
+}
+
+// Reservoir holds the [reservoir] section. Optional values not given are 0.
+type Reservoir struct {
+	Temperature     float64 // K
+	InitialPressure float64 // Pa
+
+	Area         float64 // m²; with NetThickness, or PoreVolume alone
+	NetThickness float64 // m
+	PoreVolume   float64 // m³
+
+	Porosity        float64
+	WaterSaturation float64
+
+	AbandonmentPressure          float64 // Pa
+	CriticalCondensateSaturation float64
+	RockCompressibility          float64 // 1/Pa
+	WaterCompressibility         float64 // 1/Pa
+}
+
+// A Stage is one separator stage.
+type Stage struct {
+	Pressure    float64 // Pa
+	Temperature float64 // K
+}
+
+// Lab holds the paths of the laboratory tables, resolved against the
+// directory of the study file; empty when not given.
+type Lab struct {
+	CCE, CVD string
+}
+
+// Error is a problem with a study file: the file, the key and what is wrong.
+type Error struct {
+	File string
+	Key  string // dotted TOML key, e.g. fluid.composition.C1; empty for the whole file
+	Msg  string
+	Err  error // the underlying error, when another package reported it
+}
+
+func (e *Error) Error() string {
+	if e.Key == "" {
+		return fmt.Sprintf("%s: %s", e.File, e.Msg)
+	}
+	return fmt.Sprintf("%s: %s: %s", e.File, e.Key, e.Msg)
+}
+
+// Unwrap gives the underlying error, if any.
+func (e *Error) Unwrap() error { return e.Err }
+
+// StandardConditions returns the standard conditions of the study: those set
+// in [standard_conditions], the others from the default of sys (60 degF and
+// 14.696 psia for field units, 15 degC and 101.325 kPa for metric).
+func (s *Study) StandardConditions(sys units.System) units.Conditions {
+	c := sys.Standard()
+	if s.standardSet[0] {
+		c.T = s.standard.T
+	}
+	if s.standardSet[1] {
+		c.P = s.standard.P
+	}
+	return c
+}
+
+// Read reads and checks the study file at path and builds its fluid.
+func Read(path string) (*Study, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read the study file: %v", errors.Unwrap(err)), Err: err}
+	}
+	return Parse(path, data)
+}
+
+// Parse checks the study in data, read from the file called name (which
+// names the file in errors and anchors the relative paths of [lab]), and
+// builds its fluid. The error is an *Error, or wraps one.
+func Parse(name string, data []byte) (*Study, error) {
+	var f fileStudy
+	md, err := toml.Decode(string(data), &f)
+	if err != nil {
+		return nil, decodeError(name, err)
+	}
+	r := &reader{file: name, atm: units.PaPerAtm}
+	r.checkKeys(md)
+	if r.err != nil {
+		return nil, r.err
+	}
+	s := &Study{File: name, Atmospheric: units.PaPerAtm}
+	s.Title = r.text("title", f.Title, false)
+	r.standard(s, f.Standard)
+	r.reservoir(s, f.Reservoir)
+	r.fluid(s, f.Fluid, md)
+	r.separator(s, f.Separator)
+	r.depletion(s, f.Depletion)
+	r.lab(s, f.Lab, filepath.Dir(name))
+	if r.err != nil {
+		return nil, r.err
+	}
+	s.Warnings = r.warnings
+	return s, nil
+}
+
+// decodeError restates a TOML syntax or structure error with the file name.
+func decodeError(name string, err error) error {
+	var pe toml.ParseError
+	if errors.As(err, &pe) {
+		msg := fmt.Sprintf("line %d: %s", pe.Position.Line, pe.Message)
+		return &Error{File: name, Key: pe.LastKey, Msg: msg, Err: err}
+	}
+	msg := strings.TrimPrefix(err.Error(), "toml: ")
+	return &Error{File: name, Msg: "not a valid study file: " + msg, Err: err}
+}
+
+// tableOrder lists the keys directly inside table parent, in file order.
+func tableOrder(md toml.MetaData, parent ...string) []string {
+	var names []string
+	seen := map[string]bool{}
+next:
+	for _, k := range md.Keys() {
+		if len(k) <= len(parent) {
+			continue
+		}
+		for i, p := range parent {
+			if k[i] != p {
+				continue next
+			}
+		}
+		if name := k[len(parent)]; !seen[name] {
+			seen[name] = true
+			names = append(names, name)
+		}
+	}
+	return names
+}
+
+func (r *reader) standard(s *Study, f *fileStandard) {
+	if f == nil {
+		return
+	}
+	r.atm = 0 // the atmospheric pressure itself cannot be a gauge value
+	if p, ok := r.quantity("standard_conditions.atmospheric_pressure", f.Atmospheric, units.Pressure, false); ok {
+		if p <= 0 {
+			r.failf("standard_conditions.atmospheric_pressure", "must be above zero")
+		}
+		s.Atmospheric = p
+	}
+	r.atm = s.Atmospheric
+	if t, ok := r.quantity("standard_conditions.temperature", f.Temperature, units.Temperature, false); ok {
+		s.standard.T, s.standardSet[0] = t, true
+	}
+	if p, ok := r.quantity("standard_conditions.pressure", f.Pressure, units.Pressure, false); ok {
+		if p <= 0 {
+			r.failf("standard_conditions.pressure", "must be above zero")
+		}
+		s.standard.P, s.standardSet[1] = p, true
+	}
+}
+
+func (r *reader) positivePressure(k string, v value, required bool) float64 {
+	p, ok := r.quantity(k, v, units.Pressure, required)
+	if ok && p <= 0 {
+		r.failf(k, "must be above zero absolute pressure")
+	}
+	return p
+}
+
+func (r *reader) reservoir(s *Study, f *fileReservoir) {
+	if f == nil {
+		r.failf("reservoir", "missing section; at least [reservoir] temperature is needed")
+		return
+	}
+	res := &s.Reservoir
+	res.Temperature, _ = r.quantity("reservoir.temperature", f.Temperature, units.Temperature, true)
+	res.InitialPressure = r.positivePressure("reservoir.initial_pressure", f.InitialPressure, false)
+	res.AbandonmentPressure = r.positivePressure("reservoir.abandonment_pressure", f.AbandonmentPressure, false)
+	if res.InitialPressure > 0 && res.AbandonmentPressure >= res.InitialPressure {
+		r.failf("reservoir.abandonment_pressure", "must be below reservoir.initial_pressure")
+	}
+
+	positive := func(k string, v value, kd units.Kind) float64 {
+		x, ok := r.quantity(k, v, kd, false)
+		if ok && x <= 0 {
+			r.failf(k, "must be above zero")
+		}
+		return x
+	}
+	res.Area = positive("reservoir.area", f.Area, units.Area)
+	res.NetThickness = positive("reservoir.net_thickness", f.NetThickness, units.Length)
+	res.PoreVolume = positive("reservoir.pore_volume", f.PoreVolume, units.Volume)
+	switch {
+	case f.PoreVolume.set && (f.Area.set || f.NetThickness.set):
+		r.failf("reservoir.pore_volume", "give either pore_volume or area with net_thickness, not both")
+	case f.Area.set && !f.NetThickness.set:
+		r.missing("reservoir.net_thickness", `a length such as "85 ft", to go with reservoir.area`)
+	case f.NetThickness.set && !f.Area.set:
+		r.missing("reservoir.area", `an area such as "2400 acre", to go with reservoir.net_thickness`)
+	}
+	res.Porosity, _ = r.between("reservoir.porosity", f.Porosity, "a porosity (fraction)", false, 0, 1, true, true)
+	res.WaterSaturation, _ = r.between("reservoir.water_saturation", f.WaterSaturation, "a water saturation (fraction)", false, 0, 1, false, true)
+	res.CriticalCondensateSaturation, _ = r.between("reservoir.critical_condensate_saturation", f.CriticalCondensate,
+		"a critical condensate saturation (fraction of pore volume)", false, 0, 1, false, true)
+	if res.CriticalCondensateSaturation+res.WaterSaturation >= 1 {
+		r.failf("reservoir.critical_condensate_saturation", "%g with water_saturation %g leaves no room for gas",
+			res.CriticalCondensateSaturation, res.WaterSaturation)
+	}
+	res.RockCompressibility, _ = r.quantity("reservoir.rock_compressibility", f.RockCompressibility, units.Compressibility, false)
+	res.WaterCompressibility, _ = r.quantity("reservoir.water_compressibility", f.WaterCompressibility, units.Compressibility, false)
+}
+
+func (r *reader) separator(s *Study, f *fileSeparator) {
+	if f == nil {
+		return
+	}
+	for i, st := range f.Stage {
+		k := fmt.Sprintf("separator.stage[%d]", i+1)
+		p := r.positivePressure(k+".pressure", st.Pressure, true)
+		t, _ := r.quantity(k+".temperature", st.Temperature, units.Temperature, true)
+		if i > 0 && p >= s.Separator[i-1].Pressure && r.err == nil {
+			r.failf(k+".pressure", "must be below the pressure of stage %d: the separator pressures fall along the train", i)
+		}
+		s.Separator = append(s.Separator, Stage{Pressure: p, Temperature: t})
+	}
+}
+
+func (r *reader) depletion(s *Study, f *fileDepletion) {
+	if f == nil {
+		return
+	}
+	const k = "depletion.pressures"
+	if !f.Pressures.set {
+		r.missing(k, `a list of pressures such as ["5000 psia", "4000 psia"]`)
+		return
+	}
+	list, ok := f.Pressures.raw.([]any)
+	if !ok {
+		r.failf(k, `%s was given; want a list of pressures such as ["5000 psia", "4000 psia"]`, describe(f.Pressures.raw))
+		return
+	}
+	if len(list) == 0 {
+		r.failf(k, "empty list; give the pressure steps or leave out [depletion]")
+	}
+	for i, item := range list {
+		ki := fmt.Sprintf("%s[%d]", k, i+1)
+		p := r.positivePressure(ki, value{set: true, raw: item}, true)
+		if i > 0 && p >= s.Depletion[i-1] && r.err == nil {
+			r.failf(ki, "must be below the pressure before it: depletion pressures fall")
+		}
+		s.Depletion = append(s.Depletion, p)
+	}
+}
+
+func (r *reader) lab(s *Study, f *fileLab, dir string) {
+	if f == nil {
+		return
+	}
+	path := func(k string, v value) string {
+		p := r.text(k, v, false)
+		if !v.set || r.err != nil {
+			return ""
+		}
+		if p == "" {
+			r.failf(k, "empty path")
+			return ""
+		}
+		if !filepath.IsAbs(p) {
+			p = filepath.Join(dir, p)
+		}
+		fi, err := os.Stat(p)
+		switch {
+		case err != nil:
+			r.failf(k, "cannot use %s: %v", p, errors.Unwrap(err))
+		case fi.IsDir():
+			r.failf(k, "%s is a directory; want a CSV file", p)
+		}
+		return p
+	}
+	s.Lab.CCE = path("lab.cce", f.CCE)
+	s.Lab.CVD = path("lab.cvd", f.CVD)
+}

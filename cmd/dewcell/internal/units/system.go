@@ -1,0 +1,82 @@
+package units
+
+import "fmt"
+
+// A System is a set of output units, one per kind of quantity.
+type System int
+
+const (
+	// Field: degF, psia, ft, acre, bbl, 1/psi, lb/ft3, g/mol, ft3/lbmol.
+	Field System = iota
+	// Metric: degC, bara, m, ha, m3, 1/bar, kg/m3, g/mol, m3/kmol.
+	Metric
+)
+
+// ParseSystem reads the name of a unit system, "field" or "metric".
+func ParseSystem(s string) (System, error) {
+	switch s {
+	case "field":
+		return Field, nil
+	case "metric":
+		return Metric, nil
+	}
+	return 0, fmt.Errorf("unknown unit system %q, want field or metric", s)
+}
+
+func (s System) String() string {
+	if s == Metric {
+		return "metric"
+	}
+	return "field"
+}
+
+var systems = [2]map[Kind]Unit{
+	Field: {
+		Temperature:     DegF,
+		Pressure:        Psia,
+		Length:          Foot,
+		Area:            Acre,
+		Volume:          Barrel,
+		Compressibility: PerPsi,
+		Density:         LbPerFt3,
+		MolarMass:       GPerMol,
+		MolarVolume:     Ft3PerLb,
+	},
+	Metric: {
+		Temperature:     DegC,
+		Pressure:        Bara,
+		Length:          Metre,
+		Area:            Hectare,
+		Volume:          CuMetre,
+		Compressibility: PerBar,
+		Density:         KgPerM3,
+		MolarMass:       GPerMol,
+		MolarVolume:     M3PerKmol,
+	},
+}
+
+// Unit returns the output unit of kind k in s; a dimensionless number for
+// Dimensionless.
+func (s System) Unit(k Kind) Unit {
+	if s != Metric {
+		s = Field
+	}
+	if u, ok := systems[s][k]; ok {
+		return u
+	}
+	return Fraction
+}
+
+// Conditions are a temperature and a pressure, in K and Pa.
+type Conditions struct {
+	T, P float64
+}
+
+// Standard returns the standard conditions of s: 60 °F and 14.696 psia for
+// field units, 15 °C and 101.325 kPa for metric units.
+func (s System) Standard() Conditions {
+	if s == Metric {
+		return Conditions{T: 15 + KAt0C, P: 101.325e3}
+	}
+	return Conditions{T: (60 + DegRAt0F) * KPerDegR, P: 14.696 * PaPerPsi}
+}

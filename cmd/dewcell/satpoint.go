@@ -1,0 +1,98 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+
+	"github.com/urfave/cli/v2"
+
+	"dewcell/cmd/dewcell/internal/study"
+	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/eos"
+)
+
+func satpointCommand() *cli.Command {
+	return &cli.Command{
+		Name:      "satpoint",
+		Usage:     "saturation pressures at a temperature: dew or bubble point, and the lower dew point where one exists",
+		ArgsUsage: "STUDY.toml",
+		Flags: append(sharedFlags(),
+			&cli.StringFlag{Name: flagTemperature, Usage: "temperature `T` with its unit, e.g. \"220 degF\" (default: the reservoir temperature)"},
+		),
+		Action: func(c *cli.Context) error {
+			o, err := commonOptions(c, true)
+			if err != nil {
+				return err
+			}
+			st, err := o.loadStudy()
+			if err != nil {
+				return err
+			}
+			t, set, err := quantityFlag(c, flagTemperature, units.Temperature, st.Atmospheric)
+			if err != nil {
+				return err
+			}
+			if !set {
+				t = st.Reservoir.Temperature
+			}
+			r, _, err := satpointReport(st, o.sys, t)
+			if err != nil {
+				return err
+			}
+			return o.emit(r)
+		},
+	}
+}
+
+// satpointReport finds the saturation pressures of the study's feed at t (K):
+// the upper one (dew point of a gas condensate, bubble point of an oil) and
+// the lower dew point when there is one. It also returns the upper point.
+func satpointReport(st *study.Study, sys units.System, t float64) (*Report, eos.Saturation, error) {
+	tU, pU, dU := sys.Unit(units.Temperature), sys.Unit(units.Pressure), sys.Unit(units.Density)
+	at := fmt.Sprintf("%.6g %s", tU.FromSI(t), tU.Symbol)
+	up, err := eos.UpperSaturation(st.Fluid, t, st.Z, nil)
+	if errors.Is(err, eos.ErrNoSaturation) {
+		return nil, up, fmt.Errorf("no saturation point at %s: the fluid is one phase at every pressure there (is the temperature above the cricondentherm?): %w", at, err)
+	}
+	if err != nil {
+		return nil, up, fmt.Errorf("saturation pressure at %s: %w", at, err)
+	}
+	low, err := eos.LowerDewPoint(st.Fluid, t, st.Z, up.P, nil)
+	hasLow := err == nil
+	if err != nil && !errors.Is(err, eos.ErrNoSaturation) {
+		return nil, up, fmt.Errorf("lower dew point at %s: %w", at, err)
+	}
+	upperName := "upper_dew_pressure"
+	if up.Type == eos.Bubble {
+		upperName = "bubble_pressure"
+	}
+	lowP := any(nil)
+	if hasLow {
+		lowP = pU.FromSI(low.P)
+	}
+	r := &Report{
+		Name:  "saturation",
+		Title: fmt.Sprintf("saturation pressures of %s at %s", fluidName(st), at),
+		Fields: []Field{
+			{Column{Name: "type"}, up.Type.String()},
+			{Column{Name: "temperature", Unit: tU}, tU.FromSI(t)},
+			{Column{Name: upperName, Unit: pU}, pU.FromSI(up.P)},
+			{Column{Name: "lower_dew_pressure", Unit: pU}, lowP},
+			{Column{Name: "z_feed"}, up.Feed.Z},
+			{Column{Name: "z_incipient"}, up.Inc.Z},
+			{Column{Name: "density_feed", Unit: dU}, dU.FromSI(up.Feed.Rho)},
+			{Column{Name: "density_incipient", Unit: dU}, dU.FromSI(up.Inc.Rho)},
+			{Column{Name: "iterations"}, up.Iter},
+			{Column{Name: "residual"}, up.Resid},
+		},
+	}
+	names := componentNames(st.Fluid)
+	r.Vectors = []Vector{
+		{Name: "feed_composition", Label: "component", Labels: names, Values: st.Z},
+		{Name: "incipient_composition", Label: "component", Labels: names, Values: up.Incipient},
+	}
+	if hasLow {
+		r.Vectors = append(r.Vectors, Vector{Name: "lower_incipient_composition", Label: "component", Labels: names, Values: low.Incipient})
+	}
+	return r, up, nil
+}
