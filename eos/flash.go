@@ -21,7 +21,7 @@ func (f *Flasher) Fluid() *Fluid { return f.w.fl }
 //     vapour-like trial phases; a stable feed is returned as one phase;
 //  2. successive substitution on ln K from the unstable trial phase, with
 //     Rachford–Rice for the split and a dominant-eigenvalue (GDEM) jump every
-//     fifth step (Crowe and Nishio 1975);
+//     third step (Crowe and Nishio 1975);
 //  3. Newton steps on the Gibbs energy in the vapour mole numbers with the
 //     analytic Hessian, guarded by a line search, until every
 //     |ln f_i^L − ln f_i^V| is below the tolerance.
@@ -52,29 +52,29 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 		w.single(dst, t, p, z, iter)
 		return nil
 	}
-	// Initial K from the trial phase(s) that showed instability.
-	for i, zi := range z {
-		switch {
-		case zi == 0:
-			w.lnK[i] = 0
-		case liq.unstable && vap.unstable:
-			w.lnK[i] = math.Log(w.wVap[i] / w.wLiq[i])
-		case liq.unstable:
-			w.lnK[i] = math.Log(zi / w.wLiq[i])
-		default:
-			w.lnK[i] = math.Log(w.wVap[i] / zi)
-		}
-	}
-	copy(w.lnK0, w.lnK)
+	w.trialK(z, liq.unstable, vap.unstable)
 	beta, it, res, ok := w.split(t, p, z, true)
 	iter += it
 	if !ok || !(beta > 0 && beta < 1) {
-		// Safety net: start again from the trial phase with plain
+		// Safety net: the trial phase where the stability test stopped
+		// early can be a poor start (the split then collapses onto the
+		// trivial solution). Converge the stability test to its stationary
+		// points and start again, first accelerated, then with plain
 		// substitution, which cannot overshoot the way an extrapolation or
 		// a Newton step far from the solution can.
-		copy(w.lnK, w.lnK0)
-		beta, it, res, ok = w.split(t, p, z, false)
-		iter += it
+		liq, vap = w.stability(p, z, false)
+		iter += liq.iter + vap.iter
+		for _, accel := range []bool{true, false} {
+			if !liq.unstable && !vap.unstable {
+				break
+			}
+			w.trialK(z, liq.unstable, vap.unstable)
+			beta, it, res, ok = w.split(t, p, z, accel)
+			iter += it
+			if ok && beta > 0 && beta < 1 {
+				break
+			}
+		}
 	}
 	if !ok || !(beta > 0 && beta < 1) {
 		dst.Iter, dst.Resid = iter, res
@@ -82,6 +82,23 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 	}
 	w.twoPhase(dst, t, p, z, beta, iter, res)
 	return nil
+}
+
+// trialK sets w.lnK from the trial phase(s) of the last stability test that
+// showed instability: K = z/W_liquid, W_vapour/z, or W_vapour/W_liquid.
+func (w *work) trialK(z []float64, liq, vap bool) {
+	for i, zi := range z {
+		switch {
+		case zi == 0:
+			w.lnK[i] = 0
+		case liq && vap:
+			w.lnK[i] = math.Log(w.wVap[i] / w.wLiq[i])
+		case liq:
+			w.lnK[i] = math.Log(zi / w.wLiq[i])
+		default:
+			w.lnK[i] = math.Log(w.wVap[i] / zi)
+		}
+	}
 }
 
 // split converges the two-phase split from w.lnK. It returns β, the
@@ -94,7 +111,7 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter int, res float64, ok bool) {
 	n := w.n
 	fl := w.fl
-	beta = 0.5
+	beta, res = 0.5, math.Inf(1)
 	ssMax := 12 // substitution steps before Newton takes over
 	if !accel {
 		ssMax = w.max
@@ -105,7 +122,8 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 		for i := 0; i < n; i++ {
 			w.K[i] = math.Exp(w.lnK[i])
 		}
-		beta = rachfordRice(z, w.K, beta)
+		// β to 1e-4 of the last residual (at least 1e-14 relative)
+		beta = rachfordRiceTol(z, w.K, beta, math.Max(1e-14, math.Min(1e-6, 1e-4*res)))
 		if math.IsInf(beta, 0) {
 			return beta, iter, math.NaN(), false
 		}
@@ -160,7 +178,7 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 		for i := 0; i < n; i++ {
 			w.lnK[i] += w.r[i]
 		}
-		if accel && it%5 == 0 {
+		if accel && it%3 == 0 {
 			copy(w.lnKss, w.lnK)
 			if w.gdem() {
 				resJump = res

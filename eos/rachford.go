@@ -16,6 +16,13 @@ import "math"
 // Denominators are formed as (1 − β) + β K_i for β > 1/2, which keeps them
 // accurate when β is close to 1 (a flash just below a dew point).
 func rachfordRice(z, K []float64, guess float64) float64 {
+	return rachfordRiceTol(z, K, guess, 1e-14)
+}
+
+// rachfordRiceTol is rachfordRice stopping when the Newton step is below
+// rtol relative to β: the successive substitution of a flash far from its
+// solution does not need β to the last digit.
+func rachfordRiceTol(z, K []float64, guess, rtol float64) float64 {
 	kmin, kmax := math.Inf(1), math.Inf(-1)
 	for i, zi := range z {
 		if zi > 0 {
@@ -48,7 +55,7 @@ func rachfordRice(z, K []float64, guess float64) float64 {
 			hi = beta
 		}
 		step := g / dg
-		if math.Abs(step) <= 1e-14*math.Abs(beta)+1e-16 {
+		if math.Abs(step) <= rtol*math.Abs(beta)+1e-16 {
 			return beta - step
 		}
 		next := beta - step

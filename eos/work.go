@@ -17,7 +17,7 @@ type work struct {
 	d, lnW, W, wn    []float64 // stability: ln z + ln φ(z), trial ln W, W, W normalised
 	wLiq, wVap       []float64 // trial mole numbers W where the trials stopped
 	lnK, lnK1, lnK2  []float64 // current and two previous ln K (GDEM)
-	lnK0, lnKss      []float64 // ln K from the trial phase; the plain step before a GDEM jump
+	lnKss            []float64 // the plain substitution step before a GDEM jump
 	K, x, y, r, g, s []float64
 	v, l             []float64 // flash Newton: vapour and liquid mole numbers
 	sgn              []float64 // flash Newton: +1 where v_i is the unknown, −1 where l_i is
@@ -33,7 +33,7 @@ func newWork(fl *Fluid, s *Settings) *work {
 		ts:   newTState(n),
 		feed: newPhase(n), pa: newPhase(n), pb: newPhase(n),
 		d: vec(), lnW: vec(), W: vec(), wn: vec(), wLiq: vec(), wVap: vec(),
-		lnK: vec(), lnK1: vec(), lnK2: vec(), lnK0: vec(), lnKss: vec(),
+		lnK: vec(), lnK1: vec(), lnK2: vec(), lnKss: vec(),
 		K: vec(), x: vec(), y: vec(), r: vec(), g: vec(), s: vec(),
 		v: vec(), l: vec(), sgn: vec(),
 		H:   make([]float64, max((n+2)*(n+2), 2*n*n)),
