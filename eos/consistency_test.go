@@ -146,8 +146,21 @@ func TestAcentricDefinition(t *testing.T) {
 // than the single phase, and that a state called single-phase leaves no
 // negative tangent-plane distance for a set of trial phases.
 func TestFlashGrid(t *testing.T) {
+	type gridFluid struct {
+		name string
+		fl   *Fluid
+		z    []float64
+	}
+	var fluids []gridFluid
 	for _, vs := range []bool{false, true} {
 		fl, z := o9Fluid(vs)
+		fluids = append(fluids, gridFluid{"O9", fl, z})
+	}
+	for _, bc := range benchCases(t) { // characterized 12-component condensates
+		fluids = append(fluids, gridFluid{bc.name, bc.fl, bc.z})
+	}
+	for _, gf := range fluids {
+		fl, z := gf.fl, gf.z
 		n := fl.N()
 		f := NewFlasher(fl, nil)
 		var r FlashResult
@@ -198,7 +211,7 @@ func TestFlashGrid(t *testing.T) {
 			}
 		}
 		if two < 30 {
-			t.Errorf("only %d two-phase states on the grid; the grid no longer tests the split", two)
+			t.Errorf("%s: only %d two-phase states on the grid; the grid no longer tests the split", gf.name, two)
 		}
 	}
 }
