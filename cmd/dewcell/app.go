@@ -194,6 +194,38 @@ func checkOutput(out, studyPath string) error {
 
 // loadStudy reads the study file, printing its warnings to standard error;
 // a bad study is a usage error.
+// studyCommand builds a command that reads one study file, given as its
+// argument, and hands it with the parsed shared options to act.
+func studyCommand(name, usage string, extra []cli.Flag, act func(c *cli.Context, o *options, st *study.Study) error) *cli.Command {
+	return &cli.Command{
+		Name:      name,
+		Usage:     usage,
+		ArgsUsage: "STUDY.toml",
+		Flags:     append(sharedFlags(), extra...),
+		Action: func(c *cli.Context) error {
+			o, err := commonOptions(c, true)
+			if err != nil {
+				return err
+			}
+			st, err := o.loadStudy()
+			if err != nil {
+				return err
+			}
+			return act(c, o, st)
+		},
+	}
+}
+
+// temperatureOrReservoir reads --temperature, which defaults to the
+// reservoir temperature of the study.
+func temperatureOrReservoir(c *cli.Context, st *study.Study) (float64, error) {
+	t, set, err := quantityFlag(c, flagTemperature, units.Temperature, st.Atmospheric)
+	if err != nil || set {
+		return t, err
+	}
+	return st.Reservoir.Temperature, nil
+}
+
 func (o *options) loadStudy() (*study.Study, error) {
 	st, err := study.Read(o.study)
 	if err != nil {

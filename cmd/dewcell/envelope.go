@@ -11,28 +11,16 @@ import (
 )
 
 func envelopeCommand() *cli.Command {
-	return &cli.Command{
-		Name:      "envelope",
-		Usage:     "the phase envelope: dew and bubble branches, critical point, cricondenbar, cricondentherm",
-		ArgsUsage: "STUDY.toml",
-		Flags:     sharedFlags(),
-		Action: func(c *cli.Context) error {
-			o, err := commonOptions(c, true)
-			if err != nil {
-				return err
-			}
-			st, err := o.loadStudy()
-			if err != nil {
-				return err
-			}
+	return studyCommand("envelope",
+		"the phase envelope: dew and bubble branches, critical point, cricondenbar, cricondentherm",
+		nil, func(_ *cli.Context, o *options, st *study.Study) error {
 			r, warnings, err := envelopeReport(st, o.sys, true)
 			if err != nil {
 				return err
 			}
 			o.warn(warnings...)
 			return o.emit(r)
-		},
-	}
+		})
 }
 
 // envelopeReport traces the phase envelope of the study's feed. The summary

@@ -11,25 +11,15 @@ import (
 )
 
 func flashCommand() *cli.Command {
-	return &cli.Command{
-		Name:      "flash",
-		Usage:     "one pressure–temperature flash: phase split, phase compositions, Z-factors, densities",
-		ArgsUsage: "STUDY.toml",
-		Flags: append(sharedFlags(),
+	return studyCommand("flash",
+		"one pressure–temperature flash: phase split, phase compositions, Z-factors, densities",
+		[]cli.Flag{
 			&cli.StringFlag{Name: flagPressure, Usage: "flash pressure `P` with its unit, e.g. \"3000 psia\" (required)"},
 			&cli.StringFlag{Name: flagTemperature, Usage: "flash temperature `T` with its unit, e.g. \"220 degF\" (default: the reservoir temperature)"},
-		),
-		Action: func(c *cli.Context) error {
-			o, err := commonOptions(c, true)
-			if err != nil {
-				return err
-			}
+		},
+		func(c *cli.Context, o *options, st *study.Study) error {
 			if !c.IsSet(flagPressure) {
 				return cli.Exit(`flash needs --pressure, e.g. --pressure "3000 psia"`, exitUsage)
-			}
-			st, err := o.loadStudy()
-			if err != nil {
-				return err
 			}
 			p, _, err := quantityFlag(c, flagPressure, units.Pressure, st.Atmospheric)
 			if err != nil {
@@ -38,20 +28,16 @@ func flashCommand() *cli.Command {
 			if p <= 0 {
 				return cli.Exit("--pressure: must be above zero absolute pressure", exitUsage)
 			}
-			t, set, err := quantityFlag(c, flagTemperature, units.Temperature, st.Atmospheric)
+			t, err := temperatureOrReservoir(c, st)
 			if err != nil {
 				return err
-			}
-			if !set {
-				t = st.Reservoir.Temperature
 			}
 			r, err := flashReport(st, o.sys, t, p)
 			if err != nil {
 				return err
 			}
 			return o.emit(r)
-		},
-	}
+		})
 }
 
 // flashReport flashes the study's feed at t (K) and p (Pa).

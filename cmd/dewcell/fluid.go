@@ -8,23 +8,11 @@ import (
 )
 
 func fluidCommand() *cli.Command {
-	return &cli.Command{
-		Name:      "fluid",
-		Usage:     "the characterized fluid: components, mole %, critical properties, volume shifts, interaction coefficients",
-		ArgsUsage: "STUDY.toml",
-		Flags:     sharedFlags(),
-		Action: func(c *cli.Context) error {
-			o, err := commonOptions(c, true)
-			if err != nil {
-				return err
-			}
-			st, err := o.loadStudy()
-			if err != nil {
-				return err
-			}
+	return studyCommand("fluid",
+		"the characterized fluid: components, mole %, critical properties, volume shifts, interaction coefficients",
+		nil, func(_ *cli.Context, o *options, st *study.Study) error {
 			return o.emit(fluidReport(st, o.sys))
-		},
-	}
+		})
 }
 
 // fluidReport tabulates the components of the study's fluid and their

@@ -12,36 +12,22 @@ import (
 )
 
 func satpointCommand() *cli.Command {
-	return &cli.Command{
-		Name:      "satpoint",
-		Usage:     "saturation pressures at a temperature: dew or bubble point, and the lower dew point where one exists",
-		ArgsUsage: "STUDY.toml",
-		Flags: append(sharedFlags(),
+	return studyCommand("satpoint",
+		"saturation pressures at a temperature: dew or bubble point, and the lower dew point where one exists",
+		[]cli.Flag{
 			&cli.StringFlag{Name: flagTemperature, Usage: "temperature `T` with its unit, e.g. \"220 degF\" (default: the reservoir temperature)"},
-		),
-		Action: func(c *cli.Context) error {
-			o, err := commonOptions(c, true)
+		},
+		func(c *cli.Context, o *options, st *study.Study) error {
+			t, err := temperatureOrReservoir(c, st)
 			if err != nil {
 				return err
-			}
-			st, err := o.loadStudy()
-			if err != nil {
-				return err
-			}
-			t, set, err := quantityFlag(c, flagTemperature, units.Temperature, st.Atmospheric)
-			if err != nil {
-				return err
-			}
-			if !set {
-				t = st.Reservoir.Temperature
 			}
 			r, _, err := satpointReport(st, o.sys, t)
 			if err != nil {
 				return err
 			}
 			return o.emit(r)
-		},
-	}
+		})
 }
 
 // satpointReport finds the saturation pressures of the study's feed at t (K):
