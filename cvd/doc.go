@@ -1,5 +1,17 @@
-// Package cvd will hold the simulated laboratory experiments on a fluid
-// described by package eos: constant-volume depletion, constant-composition
-// expansion and the separator train, with lab-data import, comparison and
-// tuning. It has no code yet; see DESIGN.md for its place in the layers.
+// Package cvd simulates the laboratory experiments on a reservoir fluid
+// described by package eos: constant-volume depletion (CVD),
+// constant-composition expansion (CCE) and the separator train that turns a
+// well stream into surface gas and stock-tank condensate.
+//
+// All quantities are SI: K, Pa, m³, mol, kg. Standard volumes are ideal-gas
+// volumes at the standard conditions of the Train.
+//
+// # References
+//
+//   - Whitson, C.H. and Torp, S.B. (1983). Evaluating constant-volume depletion
+//     data. JPT 35(3), 610–620. SPE-10067-PA.
+//   - Whitson, C.H. and Brulé, M.R. (2000). Phase Behavior. SPE Monograph 20,
+//     Richardson, TX (CVD and CCE procedures, separator calculations).
+//   - Lohrenz, J., Bray, B.G. and Clark, C.R. (1964). Calculating viscosities of
+//     reservoir fluids from their compositions. JPT 16(10), 1171–1176.
 package cvd
