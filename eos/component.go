@@ -90,6 +90,7 @@ type Fluid struct {
 	tc    []float64
 	pc    []float64
 	omega []float64
+	vc    []float64 // critical volume for viscosity, m³/mol: Vc, or estimateVc when Vc is 0
 }
 
 // Errors returned by NewFluid, wrapped with the offending component.
@@ -121,6 +122,7 @@ func NewFluid(comps []Component, kij []float64, opt Options) (*Fluid, error) {
 		tc:    make([]float64, n),
 		pc:    make([]float64, n),
 		omega: make([]float64, n),
+		vc:    make([]float64, n),
 	}
 	seen := make(map[string]bool, n)
 	for i, c := range comps {
@@ -138,6 +140,10 @@ func NewFluid(comps []Component, kij []float64, opt Options) (*Fluid, error) {
 			f.c[i] = c.Shift * f.b[i]
 		}
 		f.m[i], f.tc[i], f.pc[i], f.omega[i] = c.M, c.Tc, c.Pc, c.Omega
+		f.vc[i] = c.Vc
+		if f.vc[i] == 0 {
+			f.vc[i] = estimateVc(c.Tc, c.Pc, c.Omega)
+		}
 	}
 	if kij != nil {
 		if len(kij) != n*n {

@@ -355,3 +355,27 @@ func TestNearCricondentherm(t *testing.T) {
 		t.Errorf("dew points %g and %g psia do not straddle the cricondentherm pressure %g psia", up.P/psi, lo.P/psi, pct/psi)
 	}
 }
+
+// TestPhaseCompressibility: the analytic isothermal compressibility of
+// Flasher.Phase against a central difference of the molar volume, and the
+// ideal-gas limit c = 1/p at low pressure.
+func TestPhaseCompressibility(t *testing.T) {
+	fl, z := o9Fluid(true)
+	f := NewFlasher(fl, nil)
+	for _, c := range [][2]float64{{degF(220), 6000 * psi}, {degF(300), 4500 * psi}, {degF(60), 8000 * psi}} {
+		pp, _, comp := f.Phase(c[0], c[1], z)
+		h := 1e-6 * c[1]
+		up, _, _ := f.Phase(c[0], c[1]+h, z)
+		dn, _, _ := f.Phase(c[0], c[1]-h, z)
+		fd := -(up.V - dn.V) / (2 * h * pp.V)
+		if math.Abs(comp/fd-1) > 1e-6 {
+			t.Errorf("T %g K, p %g psia: compressibility %g, central difference %g", c[0], c[1]/psi, comp, fd)
+		}
+	}
+	// ideal gas: c = 1/p (definition of the isothermal compressibility)
+	p := 1000.0 // Pa
+	_, _, comp := f.Phase(degF(300), p, z)
+	if math.Abs(comp*p-1) > 1e-3 {
+		t.Errorf("compressibility at 1 kPa times p = %g, want 1", comp*p)
+	}
+}

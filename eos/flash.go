@@ -405,3 +405,23 @@ func (w *work) twoPhase(dst *FlashResult, t, p float64, z []float64, beta float6
 	dst.L, dst.V = lp, vp
 	dst.Single = Vapour
 }
+
+// Phase returns the single-phase properties of composition x at t (K) and p
+// (Pa) on the cubic root of lowest Gibbs energy, the label of that root and
+// the isothermal compressibility −(1/v) ∂v/∂p (1/Pa), from
+//
+//	∂p/∂v = −R T/(v − b)² + 2 a (v + b)/(v² + 2 b v − b²)²
+//
+// of the Peng–Robinson equation (a volume shift does not change ∂v/∂p). No
+// stability test is made: the caller knows the phase is single.
+func (f *Flasher) Phase(t, p float64, x []float64) (PhaseProps, Phase, float64) {
+	w := f.w
+	w.fl.checkLen(x)
+	w.fl.setT(&w.ts, t)
+	ph := &w.pa
+	w.fl.evalPhase(ph, &w.ts, p, x, rootMinG, 0)
+	v, a, b := ph.vEOS, ph.am, ph.bm
+	q := v*v + 2*b*v - b*b
+	dpdv := -R*t/((v-b)*(v-b)) + 2*a*(v+b)/(q*q)
+	return w.fl.props(ph, t, p, x), ph.label, -1 / (ph.v * dpdv)
+}
