@@ -2,11 +2,11 @@ package cvd
 
 import (
 	"errors"
+	"fmt"
+	"math"
 
 	"dewcell/eos"
 )
-
-var errNotYet = errors.New("cvd: not implemented yet")
 
 // DepletionOptions control Deplete. Pressures, when given, are the steps
 // below the start, strictly decreasing; otherwise Steps pressures are spaced
@@ -66,7 +66,249 @@ type Depletion struct {
 	MaxDropout, MaxDropoutP float64
 }
 
-// Deplete simulates a constant-volume depletion of feed z at t (K).
+// Errors of Deplete and Expand, wrapped with the detail.
+var (
+	ErrBadOptions = errors.New("cvd: invalid experiment options")
+	ErrNotDew     = errors.New("cvd: depletion cannot continue")
+)
+
+// Deplete simulates a constant-volume depletion of feed z at t (K), the
+// laboratory procedure of Whitson and Torp (1983) as an equation-of-state
+// calculation (METHODS 8.3). One mole of feed fills the cell at the dew point
+// (or at o.Start above it), fixing the cell volume. At each lower pressure the
+// cell contents are flashed, and just enough equilibrium gas is removed to
+// bring the two phases back to the cell volume; the liquid stays behind.
+// Above the dew point the cell holds one phase and the gas removed has the
+// feed's composition. Volumes are volume-translated when the fluid is.
+//
+// Special cases:
+//   - no saturation point at t (above the cricondentherm): an error wrapping
+//     eos.ErrNoSaturation;
+//   - a pressure not below the previous one, not positive, or above the
+//     saturation point while Start is not above it: ErrBadOptions;
+//   - a flash that fails: its *eos.SolveError, wrapped with the pressure.
+//
+// Deplete also works from the bubble point of an oil; Dew then holds it.
 func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Depletion, error) {
-	return nil, errNotYet
+	if err := fl.CheckComposition(z); err != nil {
+		return nil, err
+	}
+	if !(t > 0) || math.IsInf(t, 0) {
+		return nil, fmt.Errorf("%w: temperature %g K", ErrBadOptions, t)
+	}
+	sat, err := eos.NewSaturator(fl, o.Settings).Upper(t, z)
+	if err != nil {
+		return nil, fmt.Errorf("cvd: saturation point at %.6g K: %w", t, err)
+	}
+	pd := sat.P
+	steps, err := o.pressures(pd)
+	if err != nil {
+		return nil, err
+	}
+	n := fl.N()
+	d := &Depletion{T: t, Dew: sat}
+	f := eos.NewFlasher(fl, o.Settings)
+	var sep *Separator
+	var std Conditions
+	if o.Train != nil {
+		if sep, err = NewSeparator(fl, *o.Train, o.Settings); err != nil {
+			return nil, err
+		}
+		std = o.Train.standard()
+	}
+
+	// The cell: one mole of feed at the start pressure.
+	start := pd
+	if o.Start > pd {
+		start = o.Start
+	}
+	var res eos.FlashResult
+	if err := f.Flash(&res, t, start, z); err != nil {
+		return nil, fmt.Errorf("cvd: feed at %.6g Pa: %w", start, err)
+	}
+	if start == pd {
+		d.CellVolume = sat.Feed.V
+	} else if res.Phases == 1 {
+		d.CellVolume = res.V.V
+	} else {
+		return nil, fmt.Errorf("%w: the feed is two-phase at the start pressure %.6g Pa above the saturation pressure %.6g Pa", ErrNotDew, start, pd)
+	}
+	cell := append([]float64(nil), z...) // component moles in the cell
+	total := 1.0
+	var surf SurfaceStep
+	first := DepletionStep{
+		P: start, Gas: sat.Feed, ZGas: sat.Feed.Z, ZTwoPhase: sat.Feed.Z,
+		Y: append([]float64(nil), z...), Cell: append([]float64(nil), z...),
+	}
+	if start != pd {
+		first.Gas, first.ZGas, first.ZTwoPhase = res.V, res.V.Z, res.V.Z
+	}
+	first.GasViscosity = fl.ViscosityLBC(t, z, first.Gas.V)
+	if sep != nil {
+		s := surf
+		first.Surface = &s
+	}
+	d.Steps = append(d.Steps, first)
+
+	zc := make([]float64, n) // cell composition
+	for _, p := range steps {
+		for i := range zc {
+			zc[i] = cell[i] / total
+		}
+		if err := f.Flash(&res, t, p, zc); err != nil {
+			return d, fmt.Errorf("cvd: flash of the cell at %.6g Pa: %w", p, err)
+		}
+		st := DepletionStep{P: p}
+		var removed float64
+		if res.Phases == 2 {
+			// vapour removed so that the two phases fill the cell volume again
+			vTotal := total * (res.Beta*res.V.V + (1-res.Beta)*res.L.V)
+			removed = (vTotal - d.CellVolume) / res.V.V
+			if removed < 0 || removed > total*res.Beta {
+				return d, fmt.Errorf("%w: at %.6g Pa the cell contents fill %.6g of the cell volume; no gas can be removed", ErrNotDew, p, vTotal/d.CellVolume)
+			}
+			nL := total * (1 - res.Beta)
+			nV := total*res.Beta - removed
+			for i := range cell {
+				cell[i] = nL*res.X[i] + nV*res.Y[i]
+			}
+			st.TwoPhase = true
+			st.LiquidMoles = nL
+			st.LiquidDropout = nL * res.L.V / d.CellVolume
+			st.Liquid = res.L
+			st.X = append([]float64(nil), res.X...)
+			st.Gas = res.V
+			st.Y = append([]float64(nil), res.Y...)
+		} else {
+			// one phase fills the cell: remove it at its own composition
+			v := res.V.V
+			if res.Single == eos.Liquid {
+				v = res.L.V
+			}
+			after := d.CellVolume / v
+			removed = total - after
+			if removed < 0 {
+				return d, fmt.Errorf("%w: at %.6g Pa the single-phase cell contents shrink below the cell volume", ErrNotDew, p)
+			}
+			for i := range cell {
+				cell[i] = after * zc[i]
+			}
+			st.Gas = res.V
+			st.Y = append([]float64(nil), zc...)
+		}
+		total -= removed
+		st.StepProduced = removed
+		st.Produced = 1 - total
+		st.ZGas = st.Gas.Z
+		st.ZTwoPhase = p * d.CellVolume / (total * eos.R * t)
+		st.GasViscosity = fl.ViscosityLBC(t, st.Y, st.Gas.V)
+		st.Cell = append([]float64(nil), cell...)
+		if sep != nil {
+			sr, err := sep.Separate(st.Y)
+			if err != nil {
+				return d, fmt.Errorf("cvd: surface yield of the gas produced at %.6g Pa: %w", p, err)
+			}
+			surf.CGR = sr.CGR
+			surf.GasGravity = sr.GasGravity
+			surf.CumGas += removed * sr.GasVolume
+			surf.CumOil += removed * sr.OilVolume
+			surf.CumWetGas += removed * eos.R * std.T / std.P
+			s := surf
+			st.Surface = &s
+		}
+		d.Steps = append(d.Steps, st)
+	}
+	d.MaxDropout, d.MaxDropoutP = maxDropout(d.Steps)
+	return d, nil
+}
+
+// pressures returns the steps below the start: the user's list, checked, or
+// the default even steps from the dew point pd to the abandonment pressure.
+// A start above pd adds the dew point itself as a step.
+func (o DepletionOptions) pressures(pd float64) ([]float64, error) {
+	var ps []float64
+	if o.Start > pd {
+		ps = append(ps, pd)
+	}
+	if o.Pressures != nil {
+		prev := math.Inf(1)
+		if o.Start > pd {
+			prev = o.Start
+		}
+		for k, p := range o.Pressures {
+			switch {
+			case !(p > 0) || math.IsInf(p, 0):
+				return nil, fmt.Errorf("%w: pressure %d is %g Pa", ErrBadOptions, k+1, p)
+			case p >= prev:
+				return nil, fmt.Errorf("%w: pressure %d (%.6g Pa) is not below the one before (%.6g Pa)", ErrBadOptions, k+1, p, prev)
+			case p >= pd && o.Start <= pd:
+				return nil, fmt.Errorf("%w: pressure %d (%.6g Pa) is not below the saturation pressure %.6g Pa, where the depletion starts", ErrBadOptions, k+1, p, pd)
+			}
+			prev = p
+		}
+		// user steps above pd come before the dew point itself
+		var above, below []float64
+		for _, p := range o.Pressures {
+			if p > pd {
+				above = append(above, p)
+			} else if p < pd {
+				below = append(below, p)
+			}
+		}
+		if o.Start > pd {
+			ps = append(append(above, pd), below...)
+		} else {
+			ps = below
+		}
+		return ps, nil
+	}
+	steps := o.Steps
+	if steps == 0 {
+		steps = 8
+	}
+	if steps < 1 || steps > 1000 {
+		return nil, fmt.Errorf("%w: %d steps, want 1 to 1000", ErrBadOptions, o.Steps)
+	}
+	if !(o.Abandonment > 0 && o.Abandonment < pd) {
+		return nil, fmt.Errorf("%w: abandonment pressure %.6g Pa, want above zero and below the saturation pressure %.6g Pa", ErrBadOptions, o.Abandonment, pd)
+	}
+	for k := 1; k < steps; k++ {
+		ps = append(ps, pd-(pd-o.Abandonment)*float64(k)/float64(steps))
+	}
+	ps = append(ps, o.Abandonment)
+	return ps, nil
+}
+
+// maxDropout locates the largest liquid dropout: a parabola in pressure
+// through the largest step and its neighbours, or that step at an end of the
+// list or where the parabola does not peak between the neighbours.
+func maxDropout(steps []DepletionStep) (float64, float64) {
+	k := 0
+	for i, s := range steps {
+		if s.LiquidDropout > steps[k].LiquidDropout {
+			k = i
+		}
+	}
+	best, bestP := steps[k].LiquidDropout, steps[k].P
+	if k == 0 || k == len(steps)-1 {
+		return best, bestP
+	}
+	x0, x1, x2 := steps[k-1].P, steps[k].P, steps[k+1].P
+	y0, y1, y2 := steps[k-1].LiquidDropout, steps[k].LiquidDropout, steps[k+1].LiquidDropout
+	// Lagrange parabola through the three points; vertex where its slope vanishes
+	d01, d12 := (y1-y0)/(x1-x0), (y2-y1)/(x2-x1)
+	a := (d12 - d01) / (x2 - x0)
+	if a >= 0 {
+		return best, bestP
+	}
+	b := d01 - a*(x0+x1)
+	xv := -b / (2 * a)
+	if xv <= math.Min(x0, x2) || xv >= math.Max(x0, x2) {
+		return best, bestP
+	}
+	yv := y1 + (xv-x1)*(d01+a*(xv-x0))
+	if yv < best {
+		return best, bestP
+	}
+	return yv, xv
 }

@@ -1,6 +1,11 @@
 package cvd
 
-import "dewcell/eos"
+import (
+	"fmt"
+	"math"
+
+	"dewcell/eos"
+)
 
 // ExpansionStep is one pressure of a constant-composition expansion. Volumes
 // are relative to the volume at the saturation pressure.
@@ -25,7 +30,53 @@ type Expansion struct {
 }
 
 // Expand simulates a constant-composition expansion of feed z at t (K) over
-// the pressures given (Pa, any order; reported in the order given).
+// the pressures given (Pa, reported in the order given): one mole of feed at
+// each pressure, flashed, its total volume compared with the volume at the
+// saturation point. The single-phase compressibility comes from the
+// equation of state's ∂v/∂p (eos.Flasher.Phase). Volumes are
+// volume-translated when the fluid is.
+//
+// Special cases: no saturation point at t: an error wrapping
+// eos.ErrNoSaturation; a pressure that is not positive: ErrBadOptions; a
+// flash that fails: its *eos.SolveError, wrapped with the pressure.
 func Expand(fl *eos.Fluid, z []float64, t float64, pressures []float64, s *eos.Settings) (*Expansion, error) {
-	return nil, errNotYet
+	if err := fl.CheckComposition(z); err != nil {
+		return nil, err
+	}
+	for k, p := range pressures {
+		if !(p > 0) || math.IsInf(p, 0) {
+			return nil, fmt.Errorf("%w: pressure %d is %g Pa", ErrBadOptions, k+1, p)
+		}
+	}
+	sat, err := eos.NewSaturator(fl, s).Upper(t, z)
+	if err != nil {
+		return nil, fmt.Errorf("cvd: saturation point at %.6g K: %w", t, err)
+	}
+	e := &Expansion{T: t, Saturation: sat, VSat: sat.Feed.V}
+	f := eos.NewFlasher(fl, s)
+	var res eos.FlashResult
+	for _, p := range pressures {
+		if err := f.Flash(&res, t, p, z); err != nil {
+			return e, fmt.Errorf("cvd: flash at %.6g Pa: %w", p, err)
+		}
+		st := ExpansionStep{P: p, VaporFraction: res.Beta}
+		var v float64
+		switch {
+		case res.Phases == 2:
+			v = res.Beta*res.V.V + (1-res.Beta)*res.L.V
+			st.TwoPhase = true
+			st.LiquidVolume = (1 - res.Beta) * res.L.V / e.VSat
+		case res.Single == eos.Liquid:
+			v = res.L.V
+		default:
+			v = res.V.V
+		}
+		if !st.TwoPhase {
+			_, _, st.Compressibility = f.Phase(t, p, z)
+		}
+		st.RelativeVolume = v / e.VSat
+		st.Z = p * v / (eos.R * t)
+		e.Steps = append(e.Steps, st)
+	}
+	return e, nil
 }

@@ -1,0 +1,223 @@
+package cvd
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"dewcell/eos"
+)
+
+const psi = 6894.757293168361 // Pa per psi (lb, g_n and inch definitions)
+
+func degF(f float64) float64 { return (f + 459.67) / 1.8 }
+
+// condensate is an invented 12-component gas condensate (eight library
+// components, a C7+ split into four pseudo-components), used where the test
+// checks identities rather than published values.
+func condensate(tb testing.TB, shift bool) (*eos.Fluid, []float64) {
+	tb.Helper()
+	defined := []struct {
+		name string
+		pct  float64
+	}{{"N2", 0.3}, {"CO2", 2.4}, {"C1", 72}, {"C2", 8.5}, {"C3", 4.8}, {"nC4", 2.6}, {"nC5", 1.4}, {"nC6", 1.0}}
+	var comps []eos.Component
+	var z []float64
+	for _, d := range defined {
+		c, ok := eos.LibraryComponent(d.name)
+		if !ok {
+			tb.Fatalf("no %s in the library", d.name)
+		}
+		comps = append(comps, c)
+		z = append(z, d.pct/100)
+	}
+	pcs, pz, err := eos.SplitPlus(eos.PlusFraction{Name: "C7+", FirstCarbon: 7, Z: 0.07, M: 0.150, SG: 0.80}, eos.Characterization{Alpha: 2})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	comps = append(comps, pcs...)
+	z = append(z, pz...)
+	s := 0.0
+	for _, v := range z {
+		s += v
+	}
+	for i := range z {
+		z[i] /= s
+	}
+	fl, err := eos.NewFluid(comps, eos.DefaultKij(comps, eos.ChuehPrausnitz{}), eos.Options{VolumeShift: shift})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return fl, z
+}
+
+var twoStage = &Train{Stages: []Conditions{{T: degF(95), P: 1050 * psi}, {T: degF(80), P: 120 * psi}}}
+
+// TestDepletionBalances checks the identities of a constant-volume depletion
+// at every step: each component's initial moles equal those left in the cell
+// plus those produced (1e-10 relative), the cell contents fill the dew-point
+// volume after each removal (1e-9 relative), the dropout is zero at the dew
+// point, and the cumulative surface volumes grow.
+func TestDepletionBalances(t *testing.T) {
+	for _, shift := range []bool{false, true} {
+		fl, z := condensate(t, shift)
+		T := degF(250)
+		d, err := Deplete(fl, z, T, DepletionOptions{Abandonment: 600 * psi, Steps: 10, Train: twoStage})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(d.Steps) != 11 {
+			t.Fatalf("%d steps, want the dew point and 10 below it", len(d.Steps))
+		}
+		if d.Steps[0].LiquidDropout != 0 || d.Steps[0].P != d.Dew.P {
+			t.Errorf("first step at %g Pa with dropout %g, want the dew point %g Pa with none", d.Steps[0].P, d.Steps[0].LiquidDropout, d.Dew.P)
+		}
+		if d.Steps[len(d.Steps)-1].P != 600*psi {
+			t.Errorf("last step at %g psia, want the abandonment pressure", d.Steps[len(d.Steps)-1].P/psi)
+		}
+		produced := make([]float64, len(z))
+		prevGas, prevOil := 0.0, 0.0
+		for k, s := range d.Steps {
+			for i := range z {
+				produced[i] += s.StepProduced * s.Y[i]
+				if got := s.Cell[i] + produced[i]; math.Abs(got-z[i]) > 1e-10*z[i] {
+					t.Errorf("shift=%v step %d: %s balance %.15g, want %.15g", shift, k, fl.Component(i).Name, got, z[i])
+				}
+			}
+			if k == 0 {
+				continue
+			}
+			// volume of what is left: liquid plus remaining vapour
+			nV := (1 - s.Produced) - s.LiquidMoles
+			v := s.LiquidMoles*s.Liquid.V + nV*s.Gas.V
+			if math.Abs(v/d.CellVolume-1) > 1e-9 {
+				t.Errorf("shift=%v step %d: cell contents fill %.12g of the cell volume", shift, k, v/d.CellVolume)
+			}
+			if s.Surface.CumGas <= prevGas || s.Surface.CumOil < prevOil {
+				t.Errorf("step %d: cumulative surface volumes fell", k)
+			}
+			prevGas, prevOil = s.Surface.CumGas, s.Surface.CumOil
+			// two-phase Z by its definition p V_d / (n R T) (Whitson and Torp 1983)
+			if z2 := s.P * d.CellVolume / ((1 - s.Produced) * eos.R * T); math.Abs(z2-s.ZTwoPhase) > 1e-12 {
+				t.Errorf("step %d: two-phase Z %g, definition gives %g", k, s.ZTwoPhase, z2)
+			}
+		}
+	}
+}
+
+// TestDropoutMaximum: a retrograde condensate's liquid dropout rises below the
+// dew point, passes a maximum inside the pressure range and falls again as
+// liquid revaporizes at low pressure (common practice, no published source:
+// the shape of every gas-condensate CVD report).
+func TestDropoutMaximum(t *testing.T) {
+	fl, z := condensate(t, true)
+	d, err := Deplete(fl, z, degF(250), DepletionOptions{Abandonment: 500 * psi, Steps: 12})
+	if err != nil {
+		t.Fatal(err)
+	}
+	last := d.Steps[len(d.Steps)-1]
+	if !(d.MaxDropoutP < d.Dew.P && d.MaxDropoutP > last.P) {
+		t.Errorf("maximum dropout at %g psia, outside (%g, %g)", d.MaxDropoutP/psi, last.P/psi, d.Dew.P/psi)
+	}
+	if !(last.LiquidDropout < d.MaxDropout) {
+		t.Errorf("no revaporization: dropout %g at the end, maximum %g", last.LiquidDropout, d.MaxDropout)
+	}
+	for _, s := range d.Steps {
+		if s.LiquidDropout > d.MaxDropout {
+			t.Errorf("step at %g psia has dropout %g above the reported maximum %g", s.P/psi, s.LiquidDropout, d.MaxDropout)
+		}
+	}
+}
+
+// TestDepletionFromAbove: starting above the dew point, the steps above it
+// produce gas of the feed composition, the cell volume is that at the start,
+// and the dew point itself is a step.
+func TestDepletionFromAbove(t *testing.T) {
+	fl, z := condensate(t, true)
+	T := degF(250)
+	plain, err := Deplete(fl, z, T, DepletionOptions{Abandonment: 1000 * psi, Steps: 4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pd := plain.Dew.P
+	start := pd + 500*psi
+	d, err := Deplete(fl, z, T, DepletionOptions{Start: start, Pressures: []float64{pd + 250*psi, 3000 * psi, 2000 * psi}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []float64{start, pd + 250*psi, pd, 3000 * psi, 2000 * psi}
+	if len(d.Steps) != len(want) {
+		t.Fatalf("%d steps, want %d", len(d.Steps), len(want))
+	}
+	for k, s := range d.Steps {
+		if s.P != want[k] {
+			t.Errorf("step %d at %g psia, want %g", k, s.P/psi, want[k]/psi)
+		}
+		if k > 0 && k <= 2 {
+			if s.TwoPhase || s.LiquidDropout != 0 {
+				t.Errorf("step %d above or at the dew point is two-phase", k)
+			}
+			for i := range z {
+				if math.Abs(s.Y[i]-z[i]) > 1e-12 {
+					t.Fatalf("step %d: produced gas is not the feed", k)
+				}
+			}
+		}
+	}
+	// above the dew point the produced moles follow p/Z of the feed
+	s := d.Steps[2]
+	if got, want := 1-s.Produced, s.P*d.CellVolume/(s.ZGas*eos.R*T); math.Abs(got/want-1) > 1e-10 {
+		t.Errorf("moles at the dew point %g, p V/(Z R T) %g", got, want)
+	}
+}
+
+func TestDepletionBadOptions(t *testing.T) {
+	fl, z := condensate(t, false)
+	T := degF(250)
+	for _, o := range []DepletionOptions{
+		{Pressures: []float64{3000 * psi, 3500 * psi}},
+		{Pressures: []float64{9000 * psi}},
+		{Pressures: []float64{-1}},
+		{Abandonment: 0},
+		{Abandonment: 500 * psi, Steps: -2},
+	} {
+		if _, err := Deplete(fl, z, T, o); !errors.Is(err, ErrBadOptions) {
+			t.Errorf("%+v: err = %v, want ErrBadOptions", o, err)
+		}
+	}
+	if _, err := Deplete(fl, z, degF(900), DepletionOptions{Abandonment: 500 * psi}); !errors.Is(err, eos.ErrNoSaturation) {
+		t.Errorf("above the cricondentherm: err = %v, want ErrNoSaturation", err)
+	}
+}
+
+// TestExpansionShape: relative volume 1 at the saturation point, below 1 above
+// it and rising below it; liquid only below it; compressibility positive in
+// the single phase.
+func TestExpansionShape(t *testing.T) {
+	fl, z := condensate(t, true)
+	T := degF(250)
+	d, err := Deplete(fl, z, T, DepletionOptions{Abandonment: 1000 * psi, Steps: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pd := d.Dew.P
+	e, err := Expand(fl, z, T, []float64{1.2 * pd, 1.1 * pd, pd, 0.9 * pd, 0.7 * pd, 0.5 * pd}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(e.Steps[2].RelativeVolume-1) > 1e-9 {
+		t.Errorf("V/Vsat at the saturation pressure = %.12g", e.Steps[2].RelativeVolume)
+	}
+	for k, s := range e.Steps {
+		above := s.P > pd
+		if above && (s.RelativeVolume >= 1 || s.TwoPhase || !(s.Compressibility > 0)) {
+			t.Errorf("step %d above saturation: %+v", k, s)
+		}
+		if s.P < pd && (!s.TwoPhase || s.RelativeVolume <= 1 || s.LiquidVolume <= 0) {
+			t.Errorf("step %d below saturation: %+v", k, s)
+		}
+		if k > 0 && s.RelativeVolume <= e.Steps[k-1].RelativeVolume {
+			t.Errorf("relative volume does not rise as pressure falls at step %d", k)
+		}
+	}
+}
