@@ -19,8 +19,20 @@ type DepletionOptions struct {
 	// volume is that of the single-phase fluid at Start, and the steps above
 	// the dew point produce feed-composition gas. Zero starts at the dew point.
 	Start    float64
-	Train    *Train // when set, each step's produced gas goes through the train
+	Train    *Train // when set, each step's produced stream goes through the train
 	Settings *eos.Settings
+
+	// PoreCompressibility is the effective compressibility of the cell (the
+	// hydrocarbon pore volume), 1/Pa: at pressure p the cell volume is
+	// V_start [1 − c (p_start − p)]. For rock and connate water,
+	// c = (c_f + c_w S_w)/(1 − S_w) (Havlena and Odeh 1963). Zero keeps the
+	// laboratory's constant volume.
+	PoreCompressibility float64
+	// MobileLiquid produces, with the gas, the liquid above
+	// CriticalLiquid (a fraction of the cell volume): the modified depletion
+	// in which condensate beyond its critical saturation flows.
+	MobileLiquid   bool
+	CriticalLiquid float64
 }
 
 // SurfaceStep is the surface yield of one depletion step's produced gas.
@@ -47,9 +59,12 @@ type DepletionStep struct {
 	Gas           eos.PhaseProps
 	Liquid        eos.PhaseProps // zero when single phase
 	GasViscosity  float64        // Pa·s, Lohrenz–Bray–Clark
-	Y             []float64      // produced (equilibrium) gas composition
+	Y             []float64      // equilibrium gas composition
 	X             []float64      // liquid composition (nil when single phase)
+	Stream        []float64      // composition of all that was removed (Y unless liquid flowed too)
 	LiquidMoles   float64        // moles of liquid in the cell
+	LiquidOut     float64        // moles of liquid removed at this step (MobileLiquid only)
+	CellVolume    float64        // cell volume at this pressure, m³ per mole of initial fluid
 	Cell          []float64      // moles of each component left in the cell
 	Surface       *SurfaceStep   // nil without a Train
 }
@@ -126,6 +141,9 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 	if err := f.Flash(&res, t, start, z); err != nil {
 		return nil, fmt.Errorf("cvd: feed at %.6g Pa: %w", start, err)
 	}
+	if o.PoreCompressibility < 0 || math.IsNaN(o.PoreCompressibility) || o.CriticalLiquid < 0 || o.CriticalLiquid >= 1 {
+		return nil, fmt.Errorf("%w: pore compressibility %g 1/Pa and critical liquid fraction %g", ErrBadOptions, o.PoreCompressibility, o.CriticalLiquid)
+	}
 	if start == pd {
 		d.CellVolume = sat.Feed.V
 	} else if res.Phases == 1 {
@@ -140,6 +158,7 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 		P: start, Gas: sat.Feed, ZGas: sat.Feed.Z, ZTwoPhase: sat.Feed.Z,
 		Y: append([]float64(nil), z...), Cell: append([]float64(nil), z...),
 	}
+	first.Stream = first.Y
 	if start != pd {
 		first.Gas, first.ZGas, first.ZTwoPhase = res.V, res.V.Z, res.V.Z
 	}
@@ -148,6 +167,7 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 		s := surf
 		first.Surface = &s
 	}
+	first.CellVolume = d.CellVolume
 	d.Steps = append(d.Steps, first)
 
 	zc := make([]float64, n) // cell composition
@@ -158,34 +178,56 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 		if err := f.Flash(&res, t, p, zc); err != nil {
 			return d, fmt.Errorf("cvd: flash of the cell at %.6g Pa: %w", p, err)
 		}
-		st := DepletionStep{P: p}
+		vCell := d.CellVolume * (1 - o.PoreCompressibility*(start-p))
+		if !(vCell > 0) {
+			return d, fmt.Errorf("%w: pore compressibility %g 1/Pa shrinks the cell to nothing at %.6g Pa", ErrBadOptions, o.PoreCompressibility, p)
+		}
+		st := DepletionStep{P: p, CellVolume: vCell}
 		var removed float64
 		if res.Phases == 2 {
-			// vapour removed so that the two phases fill the cell volume again
-			vTotal := total * (res.Beta*res.V.V + (1-res.Beta)*res.L.V)
-			removed = (vTotal - d.CellVolume) / res.V.V
-			if removed < 0 || removed > total*res.Beta {
-				return d, fmt.Errorf("%w: at %.6g Pa the cell contents fill %.6g of the cell volume; no gas can be removed", ErrNotDew, p, vTotal/d.CellVolume)
+			// Remove vapour (and, with MobileLiquid, the liquid beyond its
+			// critical volume) so that what stays fills the cell again.
+			nV, nL := total*res.Beta, total*(1-res.Beta)
+			vV, vL := res.V.V, res.L.V
+			excess := nV*vV + nL*vL - vCell // volume to remove
+			if excess < 0 {
+				return d, fmt.Errorf("%w: at %.6g Pa the cell contents fill %.6g of the cell volume; no gas can be removed", ErrNotDew, p, (excess+vCell)/vCell)
 			}
-			nL := total * (1 - res.Beta)
-			nV := total*res.Beta - removed
+			outL := 0.0
+			if o.MobileLiquid {
+				if lim := o.CriticalLiquid * vCell; nL*vL > lim {
+					outL = math.Min(nL*vL-lim, excess) / vL
+				}
+			}
+			outV := (excess - outL*vL) / vV
+			if outV > nV {
+				return d, fmt.Errorf("%w: at %.6g Pa removing the excess volume would take more vapour than the cell holds", ErrNotDew, p)
+			}
+			nV -= outV
+			nL -= outL
+			removed = outV + outL
 			for i := range cell {
 				cell[i] = nL*res.X[i] + nV*res.Y[i]
 			}
 			st.TwoPhase = true
 			st.LiquidMoles = nL
-			st.LiquidDropout = nL * res.L.V / d.CellVolume
+			st.LiquidOut = outL
+			st.LiquidDropout = nL * vL / vCell
 			st.Liquid = res.L
 			st.X = append([]float64(nil), res.X...)
 			st.Gas = res.V
 			st.Y = append([]float64(nil), res.Y...)
+			st.Stream = make([]float64, n)
+			for i := range st.Stream {
+				st.Stream[i] = (outV*res.Y[i] + outL*res.X[i]) / removed
+			}
 		} else {
 			// one phase fills the cell: remove it at its own composition
 			v := res.V.V
 			if res.Single == eos.Liquid {
 				v = res.L.V
 			}
-			after := d.CellVolume / v
+			after := vCell / v
 			removed = total - after
 			if removed < 0 {
 				return d, fmt.Errorf("%w: at %.6g Pa the single-phase cell contents shrink below the cell volume", ErrNotDew, p)
@@ -195,18 +237,19 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 			}
 			st.Gas = res.V
 			st.Y = append([]float64(nil), zc...)
+			st.Stream = st.Y
 		}
 		total -= removed
 		st.StepProduced = removed
 		st.Produced = 1 - total
 		st.ZGas = st.Gas.Z
-		st.ZTwoPhase = p * d.CellVolume / (total * eos.R * t)
+		st.ZTwoPhase = p * vCell / (total * eos.R * t)
 		st.GasViscosity = fl.ViscosityLBC(t, st.Y, st.Gas.V)
 		st.Cell = append([]float64(nil), cell...)
 		if sep != nil {
-			sr, err := sep.Separate(st.Y)
+			sr, err := sep.Separate(st.Stream)
 			if err != nil {
-				return d, fmt.Errorf("cvd: surface yield of the gas produced at %.6g Pa: %w", p, err)
+				return d, fmt.Errorf("cvd: surface yield of the stream produced at %.6g Pa: %w", p, err)
 			}
 			surf.CGR = sr.CGR
 			surf.GasGravity = sr.GasGravity

@@ -79,7 +79,7 @@ func TestDepletionBalances(t *testing.T) {
 		prevGas, prevOil := 0.0, 0.0
 		for k, s := range d.Steps {
 			for i := range z {
-				produced[i] += s.StepProduced * s.Y[i]
+				produced[i] += s.StepProduced * s.Stream[i]
 				if got := s.Cell[i] + produced[i]; math.Abs(got-z[i]) > 1e-10*z[i] {
 					t.Errorf("shift=%v step %d: %s balance %.15g, want %.15g", shift, k, fl.Component(i).Name, got, z[i])
 				}
@@ -90,7 +90,7 @@ func TestDepletionBalances(t *testing.T) {
 			// volume of what is left: liquid plus remaining vapour
 			nV := (1 - s.Produced) - s.LiquidMoles
 			v := s.LiquidMoles*s.Liquid.V + nV*s.Gas.V
-			if math.Abs(v/d.CellVolume-1) > 1e-9 {
+			if s.CellVolume != d.CellVolume || math.Abs(v/d.CellVolume-1) > 1e-9 {
 				t.Errorf("shift=%v step %d: cell contents fill %.12g of the cell volume", shift, k, v/d.CellVolume)
 			}
 			if s.Surface.CumGas <= prevGas || s.Surface.CumOil < prevOil {
@@ -218,6 +218,79 @@ func TestExpansionShape(t *testing.T) {
 		}
 		if k > 0 && s.RelativeVolume <= e.Steps[k-1].RelativeVolume {
 			t.Errorf("relative volume does not rise as pressure falls at step %d", k)
+		}
+	}
+}
+
+// TestModifiedDepletion: with liquid beyond a critical saturation produced
+// along with the gas, the retrograde liquid never exceeds that saturation,
+// the component balance still closes, and the stock-tank condensate produced
+// exceeds that of the plain depletion (the liquid that flowed is recovered).
+func TestModifiedDepletion(t *testing.T) {
+	fl, z := condensate(t, true)
+	T := degF(250)
+	const crit = 0.05
+	plain, err := Deplete(fl, z, T, DepletionOptions{Abandonment: 600 * psi, Steps: 10, Train: twoStage})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if plain.MaxDropout <= crit {
+		t.Fatalf("test fluid drops out only %g; pick a smaller critical fraction", plain.MaxDropout)
+	}
+	mob, err := Deplete(fl, z, T, DepletionOptions{Abandonment: 600 * psi, Steps: 10, Train: twoStage, MobileLiquid: true, CriticalLiquid: crit})
+	if err != nil {
+		t.Fatal(err)
+	}
+	produced := make([]float64, len(z))
+	flowed := false
+	for k, s := range mob.Steps {
+		if s.LiquidDropout > crit*(1+1e-12) {
+			t.Errorf("step %d: dropout %g above the critical %g", k, s.LiquidDropout, crit)
+		}
+		flowed = flowed || s.LiquidOut > 0
+		for i := range z {
+			produced[i] += s.StepProduced * s.Stream[i]
+			if got := s.Cell[i] + produced[i]; math.Abs(got-z[i]) > 1e-10*z[i] {
+				t.Errorf("step %d: %s balance %.15g, want %.15g", k, fl.Component(i).Name, got, z[i])
+			}
+		}
+	}
+	if !flowed {
+		t.Error("no liquid flowed")
+	}
+	lastP, lastM := plain.Steps[len(plain.Steps)-1].Surface, mob.Steps[len(mob.Steps)-1].Surface
+	if !(lastM.CumOil > lastP.CumOil) {
+		t.Errorf("condensate with mobile liquid %g not above the plain depletion %g", lastM.CumOil, lastP.CumOil)
+	}
+}
+
+// TestPoreCompressibility: a shrinking pore volume follows
+// V = V_start [1 − c (p_start − p)], the contents fill it, and more moles are
+// expelled than from the rigid cell.
+func TestPoreCompressibility(t *testing.T) {
+	fl, z := condensate(t, true)
+	T := degF(250)
+	c := 1e-5 / psi // a large effective compressibility, to make the effect plain
+	rigid, err := Deplete(fl, z, T, DepletionOptions{Abandonment: 600 * psi, Steps: 6})
+	if err != nil {
+		t.Fatal(err)
+	}
+	soft, err := Deplete(fl, z, T, DepletionOptions{Abandonment: 600 * psi, Steps: 6, PoreCompressibility: c})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p0 := soft.Steps[0].P
+	for k, s := range soft.Steps[1:] {
+		want := soft.CellVolume * (1 - c*(p0-s.P))
+		if math.Abs(s.CellVolume/want-1) > 1e-14 {
+			t.Errorf("step %d: cell volume %g, want %g", k+1, s.CellVolume, want)
+		}
+		nV := (1 - s.Produced) - s.LiquidMoles
+		if v := s.LiquidMoles*s.Liquid.V + nV*s.Gas.V; math.Abs(v/want-1) > 1e-9 {
+			t.Errorf("step %d: contents fill %g of the cell", k+1, v/want)
+		}
+		if !(s.Produced > rigid.Steps[k+1].Produced) {
+			t.Errorf("step %d: produced %g not above the rigid cell's %g", k+1, s.Produced, rigid.Steps[k+1].Produced)
 		}
 	}
 }
