@@ -44,6 +44,9 @@ type SurfaceStep struct {
 	// CumWetGas is the cumulative produced well stream as an ideal-gas
 	// standard volume, m³ per mole of initial fluid.
 	CumWetGas float64
+	// CumGasMoles and CumOilMoles are the cumulative surface gas and
+	// stock-tank oil, moles per mole of initial fluid.
+	CumGasMoles, CumOilMoles float64
 }
 
 // DepletionStep is the cell after the gas removal at one pressure. Amounts are
@@ -256,6 +259,8 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 			surf.CumGas += removed * sr.GasVolume
 			surf.CumOil += removed * sr.OilVolume
 			surf.CumWetGas += removed * eos.R * std.T / std.P
+			surf.CumGasMoles += removed * sr.GasMoles
+			surf.CumOilMoles += removed * sr.OilMoles
 			s := surf
 			st.Surface = &s
 		}

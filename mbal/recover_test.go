@@ -1,0 +1,194 @@
+package mbal
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"dewcell/cvd"
+	"dewcell/eos"
+)
+
+// Trade constants (METHODS 5.1, C9): the conversions of the field units.
+const (
+	rPsi  = 6894.757293168361 // Pa per psi, from the lb, g_n and inch definitions
+	rFt   = 0.3048            // m, exact
+	rFt3  = rFt * rFt * rFt
+	rAcre = 43560 * rFt * rFt // 43,560 ft² per acre
+)
+
+func rDegF(f float64) float64 { return (f + 459.67) / 1.8 }
+
+// rCondensate is an invented 12-component gas condensate for identity checks.
+func rCondensate(tb testing.TB) (*eos.Fluid, []float64) {
+	tb.Helper()
+	defined := []struct {
+		name string
+		pct  float64
+	}{{"N2", 0.3}, {"CO2", 2.4}, {"C1", 72}, {"C2", 8.5}, {"C3", 4.8}, {"nC4", 2.6}, {"nC5", 1.4}, {"nC6", 1.0}}
+	var comps []eos.Component
+	var z []float64
+	for _, d := range defined {
+		c, _ := eos.LibraryComponent(d.name)
+		comps = append(comps, c)
+		z = append(z, d.pct/100)
+	}
+	pcs, pz, err := eos.SplitPlus(eos.PlusFraction{Name: "C7+", FirstCarbon: 7, Z: 0.07, M: 0.150, SG: 0.80}, eos.Characterization{Alpha: 2})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	comps = append(comps, pcs...)
+	z = append(z, pz...)
+	s := 0.0
+	for _, v := range z {
+		s += v
+	}
+	for i := range z {
+		z[i] /= s
+	}
+	fl, err := eos.NewFluid(comps, eos.DefaultKij(comps, eos.ChuehPrausnitz{}), eos.Options{VolumeShift: true})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return fl, z
+}
+
+var rTrain = cvd.Train{Stages: []cvd.Conditions{{T: rDegF(95), P: 1050 * rPsi}, {T: rDegF(80), P: 120 * rPsi}}}
+
+// field640 is the hand-worked reservoir of TestInPlaceHandWorked.
+var field640 = Reservoir{
+	T: rDegF(250), Pi: 5200 * rPsi, Abandonment: 700 * rPsi,
+	BulkVolume: 640 * rAcre * 100 * rFt, Porosity: 0.20, Sw: 0.25,
+}
+
+// TestInPlaceHandWorked checks the volumetrics of the equation-of-state route
+// against a hand calculation in field units (our own numbers):
+//
+//	bulk   = 640 acre × 100 ft × 43,560 ft²/acre        = 2.787840e9 ft³
+//	PV     = 0.20 × bulk                                 = 5.575680e8 ft³
+//	HCPV   = PV × (1 − 0.25)                             = 4.181760e8 ft³
+//	moles  = p HCPV / (Z R T) = 5200 × 4.18176e8 / (Z × 10.7316 × 709.67)
+//	       ≈ 2.8552e8 / Z lbmol
+//	wet gas = moles × R T_sc/p_sc = p HCPV T_sc / (Z T p_sc)
+//	        = 5200 × 4.18176e8 × 519.67 / (Z × 709.67 × 14.696) = 1.083514e11 / Z scf
+//
+// (R cancels; with the rounded 10.7316 and 379.49 the product is 1.08354e11,
+// 3e-5 high). Z is the reservoir fluid's Z at 5200 psia and 250 °F, which the
+// test takes from the result and checks against p v/(R T).
+func TestInPlaceHandWorked(t *testing.T) {
+	fl, z := rCondensate(t)
+	ip, err := InPlaceEOS(fl, z, field640, rTrain, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := ip.HCPV / rFt3; math.Abs(got/4.181760e8-1) > 1e-6 {
+		t.Errorf("HCPV = %.7g ft³, want 4.181760e8 (hand calculation)", got)
+	}
+	if zv := field640.Pi * ip.V / (eos.R * field640.T); math.Abs(zv-ip.Z) > 1e-12 {
+		t.Errorf("Z = %g, p v/(R T) = %g", ip.Z, zv)
+	}
+	wantScf := 1.083514e11 / ip.Z // hand calculation, 7 digits
+	if got := ip.WetGas / rFt3; math.Abs(got/wantScf-1) > 2e-6 {
+		t.Errorf("wet gas in place = %.7g scf, hand calculation %.7g", got, wantScf)
+	}
+	// the separator splits the wet gas into sales gas and condensate
+	if !(ip.SalesGas < ip.WetGas && ip.Condensate > 0) {
+		t.Errorf("sales gas %g, wet gas %g, condensate %g", ip.SalesGas, ip.WetGas, ip.Condensate)
+	}
+}
+
+// TestRecoveryBalances: recovery rises monotonically as pressure falls; the
+// surface gas moles, the stock-tank oil moles (the condensate's gas
+// equivalent) and the moles left in the reservoir add up to the initial
+// moles; the condensate saturation is the dropout times (1 − Sw).
+func TestRecoveryBalances(t *testing.T) {
+	fl, z := rCondensate(t)
+	r := field640
+	r.Cf, r.Cw = 4e-6/rPsi, 3e-6/rPsi
+	rec, err := Recover(fl, z, r, rTrain, RecoverOptions{Steps: 10})
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := rec.InPlace.Moles
+	if rec.Steps[0].P != r.Pi || rec.Steps[len(rec.Steps)-1].P != r.Abandonment {
+		t.Errorf("steps from %g to %g psia, want the initial to the abandonment pressure", rec.Steps[0].P/rPsi, rec.Steps[len(rec.Steps)-1].P/rPsi)
+	}
+	for k, s := range rec.Steps {
+		if got := s.SalesGasMoles + s.OilMoles + s.Remaining; math.Abs(got/n-1) > 1e-9 {
+			t.Errorf("step %d: surface gas + oil + remaining = %.12g of the initial moles", k, got/n)
+		}
+		d := rec.Depletion.Steps[k]
+		if math.Abs(s.So-d.LiquidDropout*(1-r.Sw)) > 1e-15 {
+			t.Errorf("step %d: So %g, dropout %g", k, s.So, d.LiquidDropout)
+		}
+		if k == 0 {
+			continue
+		}
+		prev := rec.Steps[k-1]
+		if !(s.P < prev.P && s.WetGasRF > prev.WetGasRF && s.SalesGasRF > prev.SalesGasRF && s.CondensateRF >= prev.CondensateRF) {
+			t.Errorf("step %d: recovery not monotone: %+v after %+v", k, s, prev)
+		}
+	}
+	last := rec.Steps[len(rec.Steps)-1]
+	// condensate produced + condensate left behind exceeds none of the in place
+	// by more than the separator's path dependence allows (the depleted gas is
+	// leaner, so produced + left is close to but not exactly the in place)
+	if got := (last.Condensate + rec.CondensateLeft) / rec.InPlace.Condensate; got < 0.8 || got > 1.2 {
+		t.Errorf("produced + left condensate = %.3g of the in place", got)
+	}
+	if !(last.CondensateRF < last.SalesGasRF) {
+		t.Errorf("condensate recovery %g not below gas recovery %g: retrograde loss missing", last.CondensateRF, last.SalesGasRF)
+	}
+}
+
+// TestMobileLiquidBounds: letting condensate above the critical saturation
+// flow recovers more condensate than keeping it immobile; the saturation
+// never exceeds the critical value then.
+func TestMobileLiquidBounds(t *testing.T) {
+	fl, z := rCondensate(t)
+	r := field640
+	r.Sc = 0.05
+	lo, err := Recover(fl, z, r, rTrain, RecoverOptions{Steps: 10})
+	if err != nil {
+		t.Fatal(err)
+	}
+	hi, err := Recover(fl, z, r, rTrain, RecoverOptions{Steps: 10, MobileLiquid: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if lo.CriticalP == 0 {
+		t.Fatal("the immobile case never passes the critical saturation; the test needs a richer fluid")
+	}
+	for _, s := range hi.Steps {
+		if s.So > r.Sc*(1+1e-9) {
+			t.Errorf("mobile case: So %g above Sc %g at %g psia", s.So, r.Sc, s.P/rPsi)
+		}
+	}
+	a, b := lo.Steps[len(lo.Steps)-1], hi.Steps[len(hi.Steps)-1]
+	if !(b.CondensateRF > a.CondensateRF) {
+		t.Errorf("condensate recovery mobile %g, immobile %g", b.CondensateRF, a.CondensateRF)
+	}
+}
+
+func TestReservoirChecks(t *testing.T) {
+	fl, z := rCondensate(t)
+	for _, mod := range []func(*Reservoir){
+		func(r *Reservoir) { r.Porosity = 0 },
+		func(r *Reservoir) { r.Sw = 1 },
+		func(r *Reservoir) { r.Abandonment = r.Pi },
+		func(r *Reservoir) { r.BulkVolume = 0 },
+		func(r *Reservoir) { r.Cf = -1 },
+		func(r *Reservoir) { r.Sc = 0.9 },
+	} {
+		r := field640
+		mod(&r)
+		if _, err := InPlaceEOS(fl, z, r, rTrain, nil); !errors.Is(err, ErrBadReservoir) {
+			t.Errorf("%+v: err = %v, want ErrBadReservoir", r, err)
+		}
+	}
+	r := field640
+	r.Pi = 2000 * rPsi // below the dew point
+	if _, err := InPlaceEOS(fl, z, r, rTrain, nil); !errors.Is(err, ErrInitiallyTwoPhase) {
+		t.Errorf("initial pressure below the dew point: err = %v", err)
+	}
+}
