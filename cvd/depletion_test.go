@@ -223,7 +223,8 @@ func TestExpansionShape(t *testing.T) {
 }
 
 // TestModifiedDepletion: with liquid beyond a critical saturation produced
-// along with the gas, the retrograde liquid never exceeds that saturation,
+// along with the gas, the retrograde liquid does not stay above that
+// saturation while gas is produced,
 // the component balance still closes, and the stock-tank condensate produced
 // exceeds that of the plain depletion (the liquid that flowed is recovered).
 func TestModifiedDepletion(t *testing.T) {
@@ -244,8 +245,10 @@ func TestModifiedDepletion(t *testing.T) {
 	produced := make([]float64, len(z))
 	flowed := false
 	for k, s := range mob.Steps {
-		if s.LiquidDropout > crit*(1+1e-12) {
-			t.Errorf("step %d: dropout %g above the critical %g", k, s.LiquidDropout, crit)
+		// the liquid stays at or below its critical volume, unless the step's
+		// whole expansion went to producing liquid (the cell stays full)
+		if s.LiquidDropout > crit*(1+1e-12) && math.Abs(s.LiquidOut-s.StepProduced) > 1e-15 {
+			t.Errorf("step %d: dropout %g above the critical %g while gas was produced", k, s.LiquidDropout, crit)
 		}
 		flowed = flowed || s.LiquidOut > 0
 		for i := range z {
