@@ -75,6 +75,9 @@ func newApp(stdout, stderr io.Writer) *cli.App {
 			flashCommand(),
 			satpointCommand(),
 			envelopeCommand(),
+			expandCommand(),
+			depleteCommand(),
+			separateCommand(),
 			demoCommand(),
 		},
 	}
