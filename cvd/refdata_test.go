@@ -28,19 +28,14 @@ package cvd_test
 // 1e-10 relative, and the cell volume equal to the dew-point volume to 1e-9.
 
 import (
-	"encoding/json"
 	"fmt"
 	"math"
-	"os"
-	"path/filepath"
-	"sync"
 	"testing"
 
 	"dewcell/cvd"
 	"dewcell/eos"
+	"dewcell/internal/refdata"
 )
-
-const refdataFile = "pr-open.json"
 
 const psi = 6894.757293168361 // Pa per psi, from the lb, g_n and inch definitions (as in pr-open.md)
 
@@ -53,171 +48,31 @@ const (
 	sameTol     = 1e-6 // "same equations" tier, absolute on fractions and Z, relative on volumes
 )
 
-type refComponent struct {
-	Name  string  `json:"name"`
-	TcK   float64 `json:"Tc_K"`
-	PcPa  float64 `json:"Pc_Pa"`
-	Omega float64 `json:"omega"`
-	MW    float64 `json:"MW"` // g/mol
-}
-
-func (c refComponent) component() eos.Component {
-	return eos.Component{Name: c.Name, M: c.MW / 1000, Tc: c.TcK, Pc: c.PcPa, Omega: c.Omega}
-}
-
-type refFlash struct {
-	PPa            float64   `json:"P_Pa"`
-	Z              []float64 `json:"z"`
-	VapourFraction float64   `json:"vapour_fraction"`
-	X              []float64 `json:"x"`
-	Y              []float64 `json:"y"`
-	ZL             float64   `json:"Z_L"`
-	ZV             float64   `json:"Z_V"`
-}
-
-type refCVDRow struct {
-	PPa         float64   `json:"P_Pa"`
-	PPsia       float64   `json:"P_psia"`
-	DropoutPct  float64   `json:"liquid_dropout_pct_of_Vdew"`
-	ProducedPct float64   `json:"cum_produced_mol_pct"`
-	ZV          float64   `json:"Z_V"`
-	ZTwoPhase   float64   `json:"Z_two_phase"`
-	VapFrac     float64   `json:"vapour_fraction"`
-	Y           []float64 `json:"produced_y"`
-	X           []float64 `json:"liquid_x"`
-	MolesInCell float64   `json:"moles_in_cell"`
-	RhoL        float64   `json:"rho_L_kg_m3"`
-}
-
-type refCCERow struct {
-	PPa            float64 `json:"P_Pa"`
-	PPsia          float64 `json:"P_psia"`
-	Region         string  `json:"region"`
-	RelativeVolume float64 `json:"relative_volume"`
-	LiquidPct      float64 `json:"liquid_volume_pct_of_Vdew"`
-	Z              float64 `json:"Z"`
-	ZTwoPhase      float64 `json:"Z_two_phase"`
-	VapFrac        float64 `json:"vapour_fraction"`
-}
-
-type refData struct {
-	Meta struct {
-		SourceNote    string `json:"source_note"`
-		ThermoVersion string `json:"thermo_version"`
-	} `json:"meta"`
-	Pure struct {
-		Components []refComponent `json:"components"`
-	} `json:"pure"`
-	Binary struct {
-		Components []string    `json:"components"`
-		Kij        [][]float64 `json:"kij"`
-		TK         float64     `json:"T_K"`
-		Flashes    []refFlash  `json:"flashes"`
-	} `json:"binary"`
-	O9 struct {
-		TK    float64 `json:"T_K"`
-		TF    float64 `json:"T_F"`
-		Comps []struct {
-			refComponent
-			Z float64 `json:"z"`
-		} `json:"components"`
-		Kij      [][]float64 `json:"kij"`
-		DewPoint struct {
-			PPa   float64 `json:"P_Pa"`
-			ZFeed float64 `json:"Z_feed"`
-		} `json:"dew_point"`
-		Flashes []struct {
-			refFlash
-			TK float64 `json:"T_K"`
-		} `json:"flashes"`
-		CVD struct {
-			Rows []refCVDRow `json:"rows"`
-		} `json:"cvd"`
-		CCE struct {
-			VDew float64     `json:"V_dew_m3_per_mol"`
-			ZDew float64     `json:"Z_dew"`
-			Rows []refCCERow `json:"rows"`
-		} `json:"cce"`
-	} `json:"o9"`
-}
-
-var loadRefdata = sync.OnceValues(func() (*refData, error) {
-	path := filepath.Join("..", "testdata", refdataFile)
-	b, err := os.ReadFile(path)
-	if err != nil {
-		return nil, err
-	}
-	d := new(refData)
-	if err := json.Unmarshal(b, d); err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	if len(d.O9.Comps) == 0 || len(d.O9.CVD.Rows) < 2 || len(d.O9.CCE.Rows) == 0 || d.O9.DewPoint.PPa == 0 ||
-		len(d.O9.Flashes) == 0 || len(d.Binary.Flashes) == 0 {
-		return nil, fmt.Errorf("%s: a section the tests need is missing or empty", path)
-	}
-	return d, nil
-})
-
-func refdata(t testing.TB) *refData {
+// loadRef returns pr-open.json as internal/refdata decodes it.
+func loadRef(t testing.TB) *refdata.Data {
 	t.Helper()
-	d, err := loadRefdata()
+	d, err := refdata.Load()
 	if err != nil {
 		t.Fatal(err)
 	}
 	return d
 }
 
-func flatKij(t testing.TB, rows [][]float64, n int) []float64 {
-	t.Helper()
-	if len(rows) != n {
-		t.Fatalf("%s: kij has %d rows for %d components", refdataFile, len(rows), n)
-	}
-	k := make([]float64, 0, n*n)
-	for i, r := range rows {
-		if len(r) != n {
-			t.Fatalf("%s: kij row %d has %d entries for %d components", refdataFile, i, len(r), n)
-		}
-		k = append(k, r...)
-	}
-	return k
-}
-
 // o9Fluid is fluid O9 of pr-open.md, part C: constants and kij as printed
 // there, PR78, no volume shift.
-func o9Fluid(t testing.TB, d *refData) (*eos.Fluid, []float64) {
+func o9Fluid(t testing.TB) (*eos.Fluid, []float64) {
 	t.Helper()
-	comps := make([]eos.Component, len(d.O9.Comps))
-	z := make([]float64, len(d.O9.Comps))
-	for i, c := range d.O9.Comps {
-		comps[i] = c.component()
-		z[i] = c.Z
-	}
-	fl, err := eos.NewFluid(comps, flatKij(t, d.O9.Kij, len(comps)), eos.Options{Equation: eos.PR78})
+	fl, z, err := refdata.O9Fluid()
 	if err != nil {
 		t.Fatal(err)
-	}
-	if err := fl.CheckComposition(z); err != nil {
-		t.Fatalf("%s: O9 feed: %v", refdataFile, err)
 	}
 	return fl, z
 }
 
 // binaryFluid is methane + n-butane with kij 0.02 (pr-open.md, part B).
-func binaryFluid(t testing.TB, d *refData) *eos.Fluid {
+func binaryFluid(t testing.TB) *eos.Fluid {
 	t.Helper()
-	byName := map[string]eos.Component{}
-	for _, c := range d.Pure.Components {
-		byName[c.Name] = c.component()
-	}
-	var comps []eos.Component
-	for _, name := range d.Binary.Components {
-		c, ok := byName[name]
-		if !ok {
-			t.Fatalf("%s: binary component %q has no constants in part 'pure'", refdataFile, name)
-		}
-		comps = append(comps, c)
-	}
-	fl, err := eos.NewFluid(comps, flatKij(t, d.Binary.Kij, len(comps)), eos.Options{Equation: eos.PR78})
+	fl, err := refdata.BinaryFluid()
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -254,9 +109,9 @@ func stepAt(dep *cvd.Depletion, p float64) *cvd.DepletionStep {
 
 // o9Depletion runs Deplete on O9 at the pressures of the pr-open CVD table
 // (the rows below the dew point, in Pa exactly as the reference used them).
-func o9Depletion(t testing.TB, d *refData) (*cvd.Depletion, *eos.Fluid, []float64) {
+func o9Depletion(t testing.TB, d *refdata.Data) (*cvd.Depletion, *eos.Fluid, []float64) {
 	t.Helper()
-	fl, z := o9Fluid(t, d)
+	fl, z := o9Fluid(t)
 	var ps []float64
 	for _, row := range d.O9.CVD.Rows[1:] {
 		ps = append(ps, row.PPa)
@@ -269,15 +124,15 @@ func o9Depletion(t testing.TB, d *refData) (*cvd.Depletion, *eos.Fluid, []float6
 }
 
 func TestDepleteO9Reference(t *testing.T) {
-	d := refdata(t)
+	d := loadRef(t)
 	dep, fl, _ := o9Depletion(t, d)
-	src := refdataFile + ", o9.cvd"
+	src := refdata.File + ", o9.cvd"
 	n := fl.N()
 
 	// The dew point and the cell volume Vd = Z_d R T/P_d per mole charged.
 	dew := d.O9.CVD.Rows[0]
 	withinRel(t, "dew-point pressure (Pa)", dep.Dew.P, dew.PPa, sameTol, src)
-	withinRel(t, "cell volume (m³/mol)", dep.CellVolume, d.O9.CCE.VDew, sameTol, refdataFile+", o9.cce.V_dew_m3_per_mol")
+	withinRel(t, "cell volume (m³/mol)", dep.CellVolume, d.O9.CCE.VDew, sameTol, refdata.File+", o9.cce.V_dew_m3_per_mol")
 	if st := stepAt(dep, dep.Dew.P); st != nil { // a reported dew-point step, if Deplete lists one
 		within(t, "dew-point step produced", st.Produced, 0, 1e-15, "nothing is removed at the dew point")
 		within(t, "dew-point step dropout", st.LiquidDropout, 0, 1e-15, "no liquid at the dew point")
@@ -311,14 +166,14 @@ func TestDepleteO9Reference(t *testing.T) {
 				within(t, at+": "+c.name+" [same equations]", c.got, c.want, sameTol, src)
 			})
 		}
-		if len(st.Y) != n || len(row.Y) != n || len(st.X) != n || len(row.X) != n {
-			t.Errorf("%s: compositions have %d, %d entries (y, x), reference %d, %d; want %d", at, len(st.Y), len(st.X), len(row.Y), len(row.X), n)
+		if len(st.Y) != n || len(row.ProducedY) != n || len(st.X) != n || len(row.LiquidX) != n {
+			t.Errorf("%s: compositions have %d, %d entries (y, x), reference %d, %d; want %d", at, len(st.Y), len(st.X), len(row.ProducedY), len(row.LiquidX), n)
 			continue
 		}
 		for i := range n {
 			name := fl.Component(i).Name
-			within(t, at+": produced gas y_"+name, st.Y[i], row.Y[i], sameTol, src)
-			within(t, at+": liquid x_"+name, st.X[i], row.X[i], sameTol, src)
+			within(t, at+": produced gas y_"+name, st.Y[i], row.ProducedY[i], sameTol, src)
+			within(t, at+": liquid x_"+name, st.X[i], row.LiquidX[i], sameTol, src)
 		}
 		within(t, at+": moles left in the cell", sum(st.Cell), row.MolesInCell, sameTol, src)
 		withinRel(t, at+": liquid density (kg/m³)", st.Liquid.Rho, row.RhoL, sameTol, src)
@@ -337,7 +192,7 @@ func sum(v []float64) float64 {
 // component balance and the constant cell volume. Run on O9 (no volume shift)
 // and on a characterized condensate with volume shift.
 func TestDepleteBalances(t *testing.T) {
-	d := refdata(t)
+	d := loadRef(t)
 	type tc struct {
 		name string
 		dep  *cvd.Depletion
@@ -406,9 +261,9 @@ func checkDepletionIdentities(t *testing.T, dep *cvd.Depletion, z []float64) {
 }
 
 func TestExpandO9Reference(t *testing.T) {
-	d := refdata(t)
-	fl, z := o9Fluid(t, d)
-	src := refdataFile + ", o9.cce"
+	d := loadRef(t)
+	fl, z := o9Fluid(t)
+	src := refdata.File + ", o9.cce"
 	var ps []float64
 	for _, row := range d.O9.CCE.Rows {
 		ps = append(ps, row.PPa)
@@ -438,8 +293,8 @@ func TestExpandO9Reference(t *testing.T) {
 			if st.TwoPhase {
 				t.Errorf("%s: two phases, want one (%s)", at, src)
 			}
-			within(t, at+": Z [acceptance]", st.Z, row.Z, accZ, src)
-			within(t, at+": Z [same equations]", st.Z, row.Z, sameTol, src)
+			within(t, at+": Z [acceptance]", st.Z, refdata.Value(row.Z), accZ, src)
+			within(t, at+": Z [same equations]", st.Z, refdata.Value(row.Z), sameTol, src)
 			if !(st.Compressibility > 0) {
 				t.Errorf("%s: compressibility %g 1/Pa, want > 0 for a single phase (thermodynamic stability)", at, st.Compressibility)
 			}
@@ -447,9 +302,9 @@ func TestExpandO9Reference(t *testing.T) {
 			if !st.TwoPhase {
 				t.Errorf("%s: one phase, want two (%s)", at, src)
 			}
-			within(t, at+": two-phase Z [acceptance]", st.Z, row.ZTwoPhase, accZ, src)
-			within(t, at+": two-phase Z [same equations]", st.Z, row.ZTwoPhase, sameTol, src)
-			within(t, at+": vapour fraction", st.VaporFraction, row.VapFrac, sameTol, src)
+			within(t, at+": two-phase Z [acceptance]", st.Z, refdata.Value(row.ZTwoPhase), accZ, src)
+			within(t, at+": two-phase Z [same equations]", st.Z, refdata.Value(row.ZTwoPhase), sameTol, src)
+			within(t, at+": vapour fraction", st.VaporFraction, refdata.Value(row.VapourFraction), sameTol, src)
 			// the same cell: V/V_sat = Z2 (P_sat/P)/Z_sat
 			withinRel(t, at+": relative volume = Z2 P_sat/(P Z_sat)", st.RelativeVolume,
 				st.Z*exp.Saturation.P/(st.P*exp.Saturation.Feed.Z), 1e-9, "definition")

@@ -8,6 +8,7 @@ import (
 
 	"dewcell/cvd"
 	"dewcell/eos"
+	"dewcell/internal/refdata"
 )
 
 // Unit definitions used to state trade values in field units (exact by
@@ -144,8 +145,7 @@ func checkSeparation(t *testing.T, fl *eos.Fluid, train cvd.Train, z []float64, 
 }
 
 func TestSeparatorInvariants(t *testing.T) {
-	d := refdata(t)
-	o9, zO9 := o9Fluid(t, d)
+	o9, zO9 := o9Fluid(t)
 	type tc struct {
 		name  string
 		fl    *eos.Fluid
@@ -197,25 +197,25 @@ func TestSeparatorInvariants(t *testing.T) {
 // stage sits at the conditions of a reference flash must split the feed as
 // that flash does (1e-6, the tolerance of eos/refdata_test.go).
 func TestSeparatorFirstStage(t *testing.T) {
-	d := refdata(t)
-	o9, _ := o9Fluid(t, d)
+	d := loadRef(t)
+	o9, _ := o9Fluid(t)
 	type tc struct {
 		name string
 		fl   *eos.Fluid
 		t    float64
-		f    refFlash
+		f    refdata.Flash
 	}
 	var cases []tc
 	for _, f := range d.O9.Flashes {
-		cases = append(cases, tc{fmt.Sprintf("O9 at %.4g Pa", f.PPa), o9, f.TK, f.refFlash})
+		cases = append(cases, tc{fmt.Sprintf("O9 at %.4g Pa", f.PPa), o9, f.TK, f})
 	}
-	bin := binaryFluid(t, d)
+	bin := binaryFluid(t)
 	for _, f := range d.Binary.Flashes {
 		cases = append(cases, tc{fmt.Sprintf("C1+nC4 at %.4g Pa", f.PPa), bin, d.Binary.TK, f})
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			src := refdataFile + ", " + c.name
+			src := refdata.File + ", " + c.name
 			train := cvd.Train{Stages: []cvd.Conditions{{T: c.t, P: c.f.PPa}}}
 			sep, err := cvd.NewSeparator(c.fl, train, nil)
 			if err != nil {
@@ -237,8 +237,7 @@ func TestSeparatorFirstStage(t *testing.T) {
 }
 
 func TestSeparatorBadTrain(t *testing.T) {
-	d := refdata(t)
-	fl, _ := o9Fluid(t, d)
+	fl, _ := o9Fluid(t)
 	for _, st := range []cvd.Conditions{{T: 0, P: 1e6}, {T: 300, P: -1}, {T: math.NaN(), P: 1e6}, {T: 300, P: math.Inf(1)}} {
 		_, err := cvd.NewSeparator(fl, cvd.Train{Stages: []cvd.Conditions{{T: 300, P: 5e6}, st}}, nil)
 		if !errors.Is(err, cvd.ErrBadTrain) {

@@ -96,7 +96,7 @@ func molarMasses(fl *eos.Fluid) []float64 {
 // division by n_L), so 1e-9 leaves three or more orders of magnitude for the
 // amplification n_g/n_L of a lean cell.
 func TestBackCalculateReproducesDeplete(t *testing.T) {
-	d := refdata(t)
+	d := loadRef(t)
 	type tc struct {
 		name string
 		fl   *eos.Fluid

@@ -16,185 +16,33 @@ package eos_test
 // pressure by 0.76 %, rounded Omegas by 0.02 %: pr-open.md, part A) nor a wrong root.
 
 import (
-	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
-	"os"
-	"path/filepath"
-	"sync"
 	"testing"
 
 	"dewcell/eos"
+	"dewcell/internal/refdata"
 )
-
-const refdataFile = "pr-open.json"
 
 // refTol is the relative tolerance of every comparison with pr-open.json.
 const refTol = 1e-6
 
-type refComponent struct {
-	Name  string  `json:"name"`
-	TcK   float64 `json:"Tc_K"`
-	PcPa  float64 `json:"Pc_Pa"`
-	Omega float64 `json:"omega"`
-	MW    float64 `json:"MW"` // g/mol
-}
-
-// component converts the JSON constants to an eos.Component (molar mass in kg/mol).
-func (c refComponent) component() eos.Component {
-	return eos.Component{Name: c.Name, M: c.MW / 1000, Tc: c.TcK, Pc: c.PcPa, Omega: c.Omega}
-}
-
-type refPureCase struct {
-	Tr     float64 `json:"Tr"`
-	TK     float64 `json:"T_K"`
-	PsatPa float64 `json:"Psat_Pa"`
-}
-
-type refFlash struct {
-	PPa            float64   `json:"P_Pa"`
-	PPsia          float64   `json:"P_psia"`
-	FractionOfPdew float64   `json:"fraction_of_Pdew"`
-	Z              []float64 `json:"z"`
-	Phases         int       `json:"phases"`
-	VapourFraction float64   `json:"vapour_fraction"`
-	X              []float64 `json:"x"`
-	Y              []float64 `json:"y"`
-	ZL             float64   `json:"Z_L"`
-	ZV             float64   `json:"Z_V"`
-	RhoL           float64   `json:"rho_L_kg_m3"`
-	RhoV           float64   `json:"rho_V_kg_m3"`
-	MWL            float64   `json:"MW_L"` // g/mol
-	MWV            float64   `json:"MW_V"` // g/mol
-}
-
-type refSatPoint struct {
-	Branch    string    `json:"branch"` // "upper" or "lower"
-	Type      string    `json:"type"`   // "bubble", "dew" or "none"
-	PPa       float64   `json:"P_Pa"`
-	PPsia     float64   `json:"P_psia"`
-	Incipient []float64 `json:"incipient"`
-}
-
-type refData struct {
-	Meta struct {
-		SourceNote    string  `json:"source_note"`
-		ThermoVersion string  `json:"thermo_version"`
-		PsiPa         float64 `json:"psi_Pa"`
-	} `json:"meta"`
-	Pure struct {
-		Components []struct {
-			refComponent
-			Cases []refPureCase `json:"cases"`
-		} `json:"components"`
-		Sensitivity struct {
-			TK         float64 `json:"T_K"`
-			PR78PsatPa float64 `json:"PR78_Psat_Pa"`
-			PR76PsatPa float64 `json:"PR76_kappa_Psat_Pa"`
-		} `json:"sensitivity"`
-	} `json:"pure"`
-	Binary struct {
-		Components []string    `json:"components"`
-		Kij        [][]float64 `json:"kij"`
-		TK         float64     `json:"T_K"`
-		TF         float64     `json:"T_F"`
-		Flashes    []refFlash  `json:"flashes"`
-		Saturation []struct {
-			Z      []float64     `json:"z"`
-			Points []refSatPoint `json:"points"`
-		} `json:"saturation"`
-	} `json:"binary"`
-	O9 struct {
-		TK    float64 `json:"T_K"`
-		TF    float64 `json:"T_F"`
-		Comps []struct {
-			refComponent
-			Z float64 `json:"z"`
-		} `json:"components"`
-		Kij      [][]float64 `json:"kij"`
-		DewPoint struct {
-			Type        string    `json:"type"`
-			PPa         float64   `json:"P_Pa"`
-			PPsia       float64   `json:"P_psia"`
-			Incipient   []float64 `json:"incipient_liquid_x"`
-			IncipientMW float64   `json:"incipient_MW"` // g/mol
-			ZFeed       float64   `json:"Z_feed"`
-			ZIncipient  float64   `json:"Z_incipient"`
-			RhoFeed     float64   `json:"rho_feed_kg_m3"`
-			RhoInc      float64   `json:"rho_incipient_kg_m3"`
-		} `json:"dew_point"`
-		Flashes []refFlash `json:"flashes"`
-		CCE     struct {
-			Rows []struct {
-				PPa    float64 `json:"P_Pa"`
-				Region string  `json:"region"`
-				Z      float64 `json:"Z"`
-				Rho    float64 `json:"rho_kg_m3"`
-			} `json:"rows"`
-		} `json:"cce"`
-	} `json:"o9"`
-}
-
-var loadRefdata = sync.OnceValues(func() (*refData, error) {
-	path := filepath.Join("..", "testdata", refdataFile)
-	b, err := os.ReadFile(path)
-	if err != nil {
-		return nil, err
-	}
-	d := new(refData)
-	if err := json.Unmarshal(b, d); err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	if len(d.Pure.Components) == 0 || len(d.Binary.Flashes) == 0 || len(d.Binary.Saturation) == 0 ||
-		len(d.O9.Comps) == 0 || len(d.O9.Flashes) == 0 || d.O9.DewPoint.PPa == 0 {
-		return nil, fmt.Errorf("%s: a section the tests need is missing or empty", path)
-	}
-	return d, nil
-})
-
-func refdata(t *testing.T) *refData {
+// loadRef returns pr-open.json as internal/refdata decodes it.
+func loadRef(t *testing.T) *refdata.Data {
 	t.Helper()
-	d, err := loadRefdata()
+	d, err := refdata.Load()
 	if err != nil {
 		t.Fatal(err)
 	}
 	return d
 }
 
-// flatKij turns the JSON's n×n rows into the row-major slice NewFluid takes.
-func flatKij(t *testing.T, rows [][]float64, n int) []float64 {
-	t.Helper()
-	if len(rows) != n {
-		t.Fatalf("%s: kij has %d rows for %d components", refdataFile, len(rows), n)
-	}
-	k := make([]float64, 0, n*n)
-	for i, r := range rows {
-		if len(r) != n {
-			t.Fatalf("%s: kij row %d has %d entries for %d components", refdataFile, i, len(r), n)
-		}
-		k = append(k, r...)
-	}
-	return k
-}
-
 // binaryFluid is methane + n-butane with kij = 0.02 (pr-open.md, part B),
 // constants from the pure-component part of the file.
-func binaryFluid(t *testing.T, d *refData) *eos.Fluid {
+func binaryFluid(t *testing.T) *eos.Fluid {
 	t.Helper()
-	byName := map[string]eos.Component{}
-	for _, c := range d.Pure.Components {
-		byName[c.Name] = c.component()
-	}
-	var comps []eos.Component
-	for _, name := range d.Binary.Components {
-		c, ok := byName[name]
-		if !ok {
-			t.Fatalf("%s: binary component %q has no constants in part 'pure'", refdataFile, name)
-		}
-		comps = append(comps, c)
-	}
-	fl, err := eos.NewFluid(comps, flatKij(t, d.Binary.Kij, len(comps)), eos.Options{Equation: eos.PR78})
+	fl, err := refdata.BinaryFluid()
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -202,20 +50,11 @@ func binaryFluid(t *testing.T, d *refData) *eos.Fluid {
 }
 
 // o9Fluid is the 9-component synthetic gas condensate O9 (pr-open.md, part C).
-func o9Fluid(t *testing.T, d *refData) (*eos.Fluid, []float64) {
+func o9Fluid(t *testing.T) (*eos.Fluid, []float64) {
 	t.Helper()
-	comps := make([]eos.Component, len(d.O9.Comps))
-	z := make([]float64, len(d.O9.Comps))
-	for i, c := range d.O9.Comps {
-		comps[i] = c.component()
-		z[i] = c.Z
-	}
-	fl, err := eos.NewFluid(comps, flatKij(t, d.O9.Kij, len(comps)), eos.Options{Equation: eos.PR78})
+	fl, z, err := refdata.O9Fluid()
 	if err != nil {
 		t.Fatal(err)
-	}
-	if err := fl.CheckComposition(z); err != nil {
-		t.Fatalf("%s: O9 feed: %v", refdataFile, err)
 	}
 	return fl, z
 }
@@ -227,7 +66,7 @@ func relErr(got, want float64) float64 { return math.Abs(got-want) / math.Abs(wa
 func checkRel(t *testing.T, what string, got, want float64) {
 	t.Helper()
 	if math.IsNaN(got) || math.IsInf(got, 0) || !(relErr(got, want) <= refTol) {
-		t.Errorf("%s = %.10g, want %.10g (rel. error %.2g > %g; %s)", what, got, want, relErr(got, want), refTol, refdataFile)
+		t.Errorf("%s = %.10g, want %.10g (rel. error %.2g > %g; %s)", what, got, want, relErr(got, want), refTol, refdata.File)
 	}
 }
 
@@ -251,10 +90,10 @@ func componentNames(fl *eos.Fluid) []string {
 }
 
 // checkTwoPhase compares a flash result with a two-phase reference row.
-func checkTwoPhase(t *testing.T, fl *eos.Fluid, res *eos.FlashResult, want refFlash) {
+func checkTwoPhase(t *testing.T, fl *eos.Fluid, res *eos.FlashResult, want refdata.Flash) {
 	t.Helper()
 	if res.Phases != 2 {
-		t.Fatalf("Phases = %d, want 2 (%s)", res.Phases, refdataFile)
+		t.Fatalf("Phases = %d, want 2 (%s)", res.Phases, refdata.File)
 	}
 	names := componentNames(fl)
 	checkRel(t, "vapour fraction", res.Beta, want.VapourFraction)
@@ -276,10 +115,10 @@ func checkTwoPhase(t *testing.T, fl *eos.Fluid, res *eos.FlashResult, want refFl
 // TestRefPureSaturationPressure: PR78 vapour pressures of C1, C2, C3, nC4 and
 // nC10 at Tr = 0.5 … 0.95 (pr-open.md, part A; thermo PR78.Psat).
 func TestRefPureSaturationPressure(t *testing.T) {
-	d := refdata(t)
+	d := loadRef(t)
 	n := 0
 	for _, pc := range d.Pure.Components {
-		c := pc.component()
+		c := pc.EOS()
 		for _, cs := range pc.Cases {
 			n++
 			t.Run(fmt.Sprintf("%s/Tr=%g", c.Name, cs.Tr), func(t *testing.T) {
@@ -292,7 +131,7 @@ func TestRefPureSaturationPressure(t *testing.T) {
 		}
 	}
 	if n != 30 { // 5 components × 6 reduced temperatures in pr-open.md, part A
-		t.Errorf("%s: %d pure-component cases, want 30", refdataFile, n)
+		t.Errorf("%s: %d pure-component cases, want 30", refdata.File, n)
 	}
 }
 
@@ -300,16 +139,16 @@ func TestRefPureSaturationPressure(t *testing.T) {
 // Tr = 0.7 tells the PR78 kappa from the PR76 one, 0.76 % apart
 // (pr-open.md, part A, "Sensitivity").
 func TestRefPureSaturationPressureEquation(t *testing.T) {
-	d := refdata(t)
+	d := loadRef(t)
 	s := d.Pure.Sensitivity
 	var c eos.Component
 	for _, pc := range d.Pure.Components {
 		if pc.Name == "nC10" {
-			c = pc.component()
+			c = pc.EOS()
 		}
 	}
 	if c.Name == "" {
-		t.Fatalf("%s: no nC10 in part 'pure'", refdataFile)
+		t.Fatalf("%s: no nC10 in part 'pure'", refdata.File)
 	}
 	for _, tc := range []struct {
 		eq   eos.Equation
@@ -330,8 +169,8 @@ func TestRefPureSaturationPressureEquation(t *testing.T) {
 // TestRefBinaryFlash: methane + n-butane, kij 0.02, z = (0.5, 0.5) at 160 °F,
 // 1000 and 1500 psia (pr-open.md, part B).
 func TestRefBinaryFlash(t *testing.T) {
-	d := refdata(t)
-	fl := binaryFluid(t, d)
+	d := loadRef(t)
+	fl := binaryFluid(t)
 	f := eos.NewFlasher(fl, nil)
 	for _, want := range d.Binary.Flashes {
 		t.Run(fmt.Sprintf("%g psia", want.PPsia), func(t *testing.T) {
@@ -352,7 +191,7 @@ func satType(t *testing.T, s string) eos.SatType {
 	case "bubble":
 		return eos.Bubble
 	}
-	t.Fatalf("%s: saturation type %q", refdataFile, s)
+	t.Fatalf("%s: saturation type %q", refdata.File, s)
 	return 0
 }
 
@@ -361,19 +200,19 @@ func satType(t *testing.T, s string) eos.SatType {
 // 160 °F for z_C1 = 0.1 … 0.7; z_C1 = 0.8 is single phase at every pressure
 // (pr-open.md, part B, "Saturation pressures").
 func TestRefBinarySaturation(t *testing.T) {
-	d := refdata(t)
-	fl := binaryFluid(t, d)
+	d := loadRef(t)
+	fl := binaryFluid(t)
 	names := componentNames(fl)
 	T := d.Binary.TK
 	for _, row := range d.Binary.Saturation {
 		z := row.Z
 		if len(row.Points) == 0 {
-			t.Fatalf("%s: z = %v has no saturation rows", refdataFile, z)
+			t.Fatalf("%s: z = %v has no saturation rows", refdata.File, z)
 		}
 		t.Run(fmt.Sprintf("zC1=%.1f", z[0]), func(t *testing.T) {
 			up := row.Points[0]
 			if up.Branch != "upper" {
-				t.Fatalf("%s: first point for z = %v is %q, want upper", refdataFile, z, up.Branch)
+				t.Fatalf("%s: first point for z = %v is %q, want upper", refdata.File, z, up.Branch)
 			}
 			got, err := eos.UpperSaturation(fl, T, z, nil)
 			if up.Type == "none" {
@@ -392,7 +231,7 @@ func TestRefBinarySaturation(t *testing.T) {
 			checkRelVec(t, "upper incipient", names, got.Incipient, up.Incipient)
 			for _, lo := range row.Points[1:] {
 				if lo.Branch != "lower" {
-					t.Fatalf("%s: z = %v: unexpected branch %q", refdataFile, z, lo.Branch)
+					t.Fatalf("%s: z = %v: unexpected branch %q", refdata.File, z, lo.Branch)
 				}
 				// Start from the reference upper pressure, so that this
 				// check does not depend on the one above.
@@ -413,8 +252,8 @@ func TestRefBinarySaturation(t *testing.T) {
 // TestRefO9DewPoint: the upper dew point of the synthetic gas condensate O9 at
 // 220 °F, 3797.796273 psia, and its incipient liquid (pr-open.md, part C).
 func TestRefO9DewPoint(t *testing.T) {
-	d := refdata(t)
-	fl, z := o9Fluid(t, d)
+	d := loadRef(t)
+	fl, z := o9Fluid(t)
 	want := d.O9.DewPoint
 	got, err := eos.UpperSaturation(fl, d.O9.TK, z, nil)
 	if err != nil {
@@ -436,8 +275,8 @@ func TestRefO9DewPoint(t *testing.T) {
 // TestRefO9Flash: PT flashes of O9 at 0.8, 0.6, 0.4 and 0.2 of P_dew, 220 °F
 // (pr-open.md, part C, "PT flashes at fractions of P_dew").
 func TestRefO9Flash(t *testing.T) {
-	d := refdata(t)
-	fl, _ := o9Fluid(t, d)
+	d := loadRef(t)
+	fl, _ := o9Fluid(t)
 	f := eos.NewFlasher(fl, nil)
 	res := new(eos.FlashResult) // reused on purpose: X and Y are overwritten by each flash
 	for _, want := range d.O9.Flashes {
@@ -454,8 +293,8 @@ func TestRefO9Flash(t *testing.T) {
 // the single-phase values of the constant-composition expansion rows at 1.05
 // to 1.3 P_dew (pr-open.md, part C, "Constant-composition expansion").
 func TestRefO9SinglePhase(t *testing.T) {
-	d := refdata(t)
-	fl, z := o9Fluid(t, d)
+	d := loadRef(t)
+	fl, z := o9Fluid(t)
 	f := eos.NewFlasher(fl, nil)
 	n := 0
 	for _, row := range d.O9.CCE.Rows {
@@ -472,11 +311,11 @@ func TestRefO9SinglePhase(t *testing.T) {
 				t.Errorf("Phases = %d above the dew point, want 1", res.Phases)
 			}
 			props, _ := fl.Props(d.O9.TK, row.PPa, z)
-			checkRel(t, "Z", props.Z, row.Z)
-			checkRel(t, "density (kg/m³)", props.Rho, row.Rho)
+			checkRel(t, "Z", props.Z, refdata.Value(row.Z))
+			checkRel(t, "density (kg/m³)", props.Rho, refdata.Value(row.Rho))
 		})
 	}
 	if n == 0 {
-		t.Fatalf("%s: no single-phase CCE rows", refdataFile)
+		t.Fatalf("%s: no single-phase CCE rows", refdata.File)
 	}
 }

@@ -17,65 +17,19 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"dewcell/internal/refdata"
 )
 
-const prOpenFile = "../../testdata/pr-open.json"
-
-// prOpenO9 is the part of pr-open.json on fluid O9 that these tests read.
-type prOpenO9 struct {
-	Components []struct {
-		Name string `json:"name"`
-	} `json:"components"`
-	DewPoint struct {
-		PPsia float64 `json:"P_psia"`
-	} `json:"dew_point"`
-	Flashes []struct {
-		PPsia          float64 `json:"P_psia"`
-		VapourFraction float64 `json:"vapour_fraction"`
-		MWV            float64 `json:"MW_V"` // g/mol
-	} `json:"flashes"`
-	CVD struct {
-		Rows []struct {
-			PPsia     float64   `json:"P_psia"`
-			Dropout   float64   `json:"liquid_dropout_pct_of_Vdew"`
-			Produced  float64   `json:"cum_produced_mol_pct"`
-			ZV        float64   `json:"Z_V"`
-			ZTwoPhase float64   `json:"Z_two_phase"`
-			ProducedY []float64 `json:"produced_y"`
-			LiquidX   []float64 `json:"liquid_x"`
-			RhoVKgM3  *float64  `json:"rho_V_kg_m3"` // absent at the dew point
-			RhoLKgM3  float64   `json:"rho_L_kg_m3"`
-		} `json:"rows"`
-	} `json:"cvd"`
-	CCE struct {
-		Rows []struct {
-			PPsia          float64  `json:"P_psia"`
-			Region         string   `json:"region"`
-			RelativeVolume float64  `json:"relative_volume"`
-			LiquidPct      float64  `json:"liquid_volume_pct_of_Vdew"`
-			Z              *float64 `json:"Z"`
-			ZTwoPhase      *float64 `json:"Z_two_phase"`
-			VapourFraction *float64 `json:"vapour_fraction"`
-		} `json:"rows"`
-	} `json:"cce"`
-}
-
-func loadPROpenO9(t *testing.T) *prOpenO9 {
+// refO9 returns the part of pr-open.json on fluid O9, as internal/refdata
+// decodes it.
+func refO9(t *testing.T) *refdata.O9 {
 	t.Helper()
-	data, err := os.ReadFile(prOpenFile)
+	d, err := refdata.Load()
 	if err != nil {
 		t.Fatal(err)
 	}
-	var doc struct {
-		O9 prOpenO9 `json:"o9"`
-	}
-	if err := json.Unmarshal(data, &doc); err != nil {
-		t.Fatalf("%s: %v", prOpenFile, err)
-	}
-	if len(doc.O9.CVD.Rows) == 0 || len(doc.O9.CCE.Rows) == 0 || len(doc.O9.Components) == 0 {
-		t.Fatalf("%s: no O9 CVD or CCE rows", prOpenFile)
-	}
-	return &doc.O9
+	return &d.O9
 }
 
 // o9Variant writes a copy of the O9 study with each old string replaced by
@@ -141,7 +95,7 @@ const (
 )
 
 func TestDepleteO9(t *testing.T) {
-	ref := loadPROpenO9(t)
+	ref := refO9(t)
 	doc := runJSON(t, "deplete", o9Study)
 	src := "pr-open.json o9.cvd, table \"Constant-volume depletion at 220 degF\" of pr-open.md"
 
@@ -161,13 +115,13 @@ func TestDepleteO9(t *testing.T) {
 		at := fmt.Sprintf("step %d (%.6g psia)", i+1, want.PPsia)
 		p := num(t, s, "pressure_psia")
 		checkRel(t, at+" pressure_psia", p, want.PPsia, 1e-6, src)
-		checkAbs(t, at+" liquid_dropout_pct", num(t, s, "liquid_dropout_pct"), want.Dropout, cvdPctTol, src)
-		checkAbs(t, at+" produced_pct", num(t, s, "produced_pct"), want.Produced, cvdPctTol, src)
+		checkAbs(t, at+" liquid_dropout_pct", num(t, s, "liquid_dropout_pct"), want.DropoutPct, cvdPctTol, src)
+		checkAbs(t, at+" produced_pct", num(t, s, "produced_pct"), want.ProducedPct, cvdPctTol, src)
 		checkAbs(t, at+" z_two_phase", num(t, s, "z_two_phase"), want.ZTwoPhase, cvdZTol, src)
 		checkAbs(t, at+" z_gas", num(t, s, "z_gas"), want.ZV, cvdZTol, src)
 		// densities in lb/ft3: 1 lb/ft3 = 16.018463373960139 kg/m3 (NIST SP 811, exact definitions)
-		if want.RhoVKgM3 != nil {
-			checkRel(t, at+" gas_density_lb_ft3", num(t, s, "gas_density_lb_ft3")*16.018463373960139, *want.RhoVKgM3, 1e-5, src)
+		if want.RhoV != nil {
+			checkRel(t, at+" gas_density_lb_ft3", num(t, s, "gas_density_lb_ft3")*16.018463373960139, *want.RhoV, 1e-5, src)
 		}
 		y := rowAt(t, gas, "pressure_psia", p)
 		for k, n := range names {
@@ -179,7 +133,7 @@ func TestDepleteO9(t *testing.T) {
 			}
 			continue
 		}
-		checkRel(t, at+" liquid_density_lb_ft3", num(t, s, "liquid_density_lb_ft3")*16.018463373960139, want.RhoLKgM3, 1e-5, src)
+		checkRel(t, at+" liquid_density_lb_ft3", num(t, s, "liquid_density_lb_ft3")*16.018463373960139, want.RhoL, 1e-5, src)
 		x := rowAt(t, liquid, "pressure_psia", p)
 		for k, n := range names {
 			checkAbs(t, at+" liquid "+n, num(t, x, n), want.LiquidX[k], cvdMoleTol, src)
@@ -241,7 +195,7 @@ func TestDepleteMetric(t *testing.T) {
 // starts at the dew point scaled by n_d: the same dropout and two-phase Z,
 // and produced moles 1 − n_d (1 − produced from the dew point).
 func TestDepleteFromInitial(t *testing.T) {
-	ref := loadPROpenO9(t)
+	ref := refO9(t)
 	start, above := ref.CCE.Rows[1], ref.CCE.Rows[2] // 1.2 and 1.1 x P_dew, single phase
 	if start.Z == nil || above.Z == nil {
 		t.Fatal("pr-open.json: CCE rows 2 and 3 have no single-phase Z")
@@ -267,8 +221,8 @@ func TestDepleteFromInitial(t *testing.T) {
 	for i, want := range ref.CVD.Rows[1:3] { // 3500 and 3000 psia
 		s := steps[3+i]
 		at := fmt.Sprintf("%g psia", want.PPsia)
-		checkAbs(t, at+" liquid_dropout_pct", num(t, s, "liquid_dropout_pct"), want.Dropout, cvdPctTol, src)
-		checkAbs(t, at+" produced_pct", num(t, s, "produced_pct"), 100*(1-nd*(1-want.Produced/100)), cvdPctTol, src)
+		checkAbs(t, at+" liquid_dropout_pct", num(t, s, "liquid_dropout_pct"), want.DropoutPct, cvdPctTol, src)
+		checkAbs(t, at+" produced_pct", num(t, s, "produced_pct"), 100*(1-nd*(1-want.ProducedPct/100)), cvdPctTol, src)
 		checkAbs(t, at+" z_two_phase", num(t, s, "z_two_phase"), want.ZTwoPhase, cvdZTol, src)
 	}
 }

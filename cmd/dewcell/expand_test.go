@@ -25,7 +25,7 @@ const (
 )
 
 func TestExpandO9(t *testing.T) {
-	ref := loadPROpenO9(t)
+	ref := refO9(t)
 	var list []string
 	for _, r := range ref.CCE.Rows {
 		list = append(list, strconv.FormatFloat(r.PPsia, 'g', -1, 64)+" psia")
@@ -88,7 +88,7 @@ func TestExpandO9(t *testing.T) {
 // pressure, 600 psia in o9.toml. pr-open.md's table uses the same multiples
 // of P_dew.
 func TestExpandDefaults(t *testing.T) {
-	ref := loadPROpenO9(t)
+	ref := refO9(t)
 	doc := runJSON(t, "expand", o9Study)
 	steps := rows(t, doc, "steps")
 	if len(steps) != 15 {

@@ -24,7 +24,7 @@ var (
 // 0.8 P_dew, a PT flash tabulated in pr-open.md ("PT flashes at fractions
 // of P_dew"): the first stage's gas is the flash's vapour.
 func TestSeparateO9Stage(t *testing.T) {
-	ref := loadPROpenO9(t)
+	ref := refO9(t)
 	f := ref.Flashes[0] // P/P_dew = 0.8
 	stage := fmt.Sprintf("\n[[separator.stage]]\npressure = \"%s psia\"\ntemperature = \"220 degF\"\n", strconv.FormatFloat(f.PPsia, 'g', -1, 64))
 	study := o9Variant(t, stage)
@@ -78,7 +78,7 @@ func TestSeparateO9Stage(t *testing.T) {
 // 3500 psia equals that of separate on a study whose feed is that gas, the
 // produced-gas composition of pr-open.md's depletion table.
 func TestSeparateMatchesDeplete(t *testing.T) {
-	ref := loadPROpenO9(t)
+	ref := refO9(t)
 	row := ref.CVD.Rows[1]
 	if row.PPsia != 3500 {
 		t.Fatalf("pr-open.json CVD row 2 is at %g psia, want 3500", row.PPsia)
