@@ -194,3 +194,50 @@ func TestReservoirChecks(t *testing.T) {
 		t.Errorf("initial pressure below the dew point: err = %v", err)
 	}
 }
+
+// TestHistoryFitRecoversModel: fed the model's own depletion as production
+// history, the two-phase p/Z line gives back the wet gas in place within 1 %
+// (the requirement; for a rigid pore volume p/Z2 = n R T/V is exactly
+// linear in the moles produced, so the fit is in fact exact to round-off),
+// and pressure noise widens the confidence interval and moves the estimate.
+func TestHistoryFitRecoversModel(t *testing.T) {
+	fl, z := rCondensate(t)
+	rec, err := Recover(fl, z, field640, rTrain, RecoverOptions{Steps: 12})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var p, z2, gp []float64
+	for _, s := range rec.Steps[1:] {
+		p = append(p, s.P)
+		z2 = append(z2, s.Z2)
+		gp = append(gp, s.WetGas)
+	}
+	pts, err := HistoryFromSeries(p, z2, gp, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	first := rec.Steps[0]
+	fit, err := FitPZ(pts, first.P, first.Z2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	G := rec.InPlace.WetGas
+	if math.Abs(fit.G/G-1) > 0.01 {
+		t.Errorf("p/Z fit gives G = %.6g, volumetric %.6g: off by %.3g %%", fit.G, G, 100*(fit.G/G-1))
+	}
+	if math.Abs(fit.G/G-1) > 1e-9 {
+		t.Errorf("exact history: G = %.12g, want %.12g", fit.G, G)
+	}
+	// 1 % pressure noise, fixed pattern (alternating signs, growing)
+	noisy := append([]HistoryPoint(nil), pts...)
+	for k := range noisy {
+		noisy[k].P *= 1 + 0.01*float64(1-2*(k%2))*float64(k%3+1)/3
+	}
+	nfit, err := FitPZ(noisy, first.P, first.Z2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(nfit.GHigh-nfit.GLow > 100*(fit.GHigh-fit.GLow)) || math.Abs(nfit.G/G-1) < 1e-4 {
+		t.Errorf("noise does not show: interval %g -> %g, error %g", fit.GHigh-fit.GLow, nfit.GHigh-nfit.GLow, nfit.G/G-1)
+	}
+}
