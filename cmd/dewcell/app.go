@@ -78,6 +78,9 @@ func newApp(stdout, stderr io.Writer) *cli.App {
 			expandCommand(),
 			depleteCommand(),
 			separateCommand(),
+			inplaceCommand(),
+			recoverCommand(),
+			historyCommand(),
 			demoCommand(),
 		},
 	}

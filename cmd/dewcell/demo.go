@@ -1,29 +1,60 @@
 package main
 
 import (
+	"bufio"
+	"bytes"
+	"errors"
 	"fmt"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"strings"
 
 	"github.com/urfave/cli/v2"
 
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/cvd"
 	"dewcell/eos"
 	"dewcell/examples"
+	"dewcell/mbal"
+)
+
+// Flags and names of demo.
+const (
+	flagDir        = "dir"
+	defaultDemoDir = "dewcell-demo"
+	// demoMarker is the file that says a folder holds the output of demo,
+	// and lists the files demo wrote there. demo replaces such a folder,
+	// and no other.
+	demoMarker = "dewcell-demo.txt"
+	// demoSignature is the first line of demoMarker.
+	demoSignature = "dewcell demo output"
 )
 
 func demoCommand() *cli.Command {
 	return &cli.Command{
-		Name:      "demo",
-		Usage:     "run on the bundled example field: the characterized fluid, its dew point and its phase envelope",
+		Name: "demo",
+		Usage: "run the workflow on the bundled example field: fluid, dew point, phase envelope, constant-volume depletion, separator, " +
+			"gas and condensate in place, depletion recovery and the production-history material balance; " +
+			"prints the summaries and writes every table as CSV and JSON to a folder",
 		ArgsUsage: " ",
-		Flags:     sharedFlags(),
+		Flags: append(sharedFlags(), &cli.StringFlag{
+			Name:  flagDir,
+			Value: defaultDemoDir,
+			Usage: "write the tables to the folder `DIR`: a new folder, an empty one, or one an earlier demo wrote, which is replaced; any other folder is refused",
+		}),
 		Action: func(c *cli.Context) error {
 			o, err := commonOptions(c, false)
 			if err != nil {
 				return err
 			}
 			if o.format == formatCSV {
-				return cli.Exit("--format: demo gives several tables, which CSV cannot hold; use table or json", exitUsage)
+				return cli.Exit("--format: demo gives several tables, which CSV cannot hold on standard output; use table or json (the folder gets a CSV file per table)", exitUsage)
+			}
+			dir := c.String(flagDir)
+			if err := checkDemoDir(dir); err != nil {
+				return cli.Exit(fmt.Sprintf("--%s: %v", flagDir, err), exitUsage)
 			}
 			st, err := study.Parse("examples/"+examples.StudyName, examples.Study)
 			if err != nil {
@@ -31,20 +62,279 @@ func demoCommand() *cli.Command {
 			}
 			o.warn(st.Warnings...)
 			fmt.Fprintf(o.stderr, "demo: %s (examples/%s, an invented field)\n", st.Title, examples.StudyName)
-			fluid := fluidReport(st, o.sys)
-			sat, up, err := satpointReport(st, o.sys, st.Reservoir.Temperature)
+			out, files, err := demoReports(o, st)
 			if err != nil {
 				return err
 			}
-			noteMargin(o, st, up)
-			env, warnings, err := envelopeReport(st, o.sys, false)
-			if err != nil {
-				return err
+			if err := writeDemoDir(dir, files); err != nil {
+				return fmt.Errorf("--%s: %w", flagDir, err)
 			}
-			o.warn(warnings...)
-			return o.emit(fluid, sat, env)
+			abs, err := filepath.Abs(dir)
+			if err != nil {
+				abs = dir
+			}
+			fmt.Fprintf(o.stderr, "demo: %d tables written to %s, each as CSV and JSON\n", len(files)/2, abs)
+			return o.emit(out...)
 		},
 	}
+}
+
+// A demoFile is one file of the demo folder.
+type demoFile struct {
+	name string
+	data []byte
+}
+
+// demoReports runs the workflow on the example. It returns the summaries
+// for standard output and the files of the demo folder: every report as CSV
+// (the form one table can hold) and as JSON (in full).
+func demoReports(o *options, st *study.Study) ([]*Report, []demoFile, error) {
+	sys := o.sys
+	var out []*Report
+	var files []demoFile
+	// add keeps r for standard output and writes full as JSON and csv as
+	// CSV; full and csv may be r itself.
+	add := func(r, full, csvForm *Report) error {
+		out = append(out, r)
+		for _, f := range []struct {
+			format string
+			r      *Report
+		}{{formatCSV, csvForm}, {formatJSON, full}} {
+			var b bytes.Buffer
+			if err := render(&b, f.format, f.r); err != nil {
+				return fmt.Errorf("demo: %s as %s: %w", r.Name, f.format, err)
+			}
+			files = append(files, demoFile{name: r.Name + "." + f.format, data: b.Bytes()})
+		}
+		return nil
+	}
+
+	fluid := fluidReport(st, sys)
+	if err := add(fluid, fluid, fluid); err != nil {
+		return nil, nil, err
+	}
+	sat, up, err := satpointReport(st, sys, st.Reservoir.Temperature)
+	if err != nil {
+		return nil, nil, err
+	}
+	if err := add(sat, sat, sat); err != nil {
+		return nil, nil, err
+	}
+	noteMargin(o, st, up)
+	env, warnings, err := envelopeReport(st, sys, true)
+	if err != nil {
+		return nil, nil, err
+	}
+	o.warn(warnings...)
+	envSummary := *env
+	envSummary.Tables = env.Tables[len(env.Tables)-1:] // the critical point and extremes
+	if err := add(&envSummary, env, env); err != nil {
+		return nil, nil, err
+	}
+
+	tr := trainOf(st, sys)
+	d, err := cvd.Deplete(st.Fluid, st.Z, st.Reservoir.Temperature, cvd.DepletionOptions{Pressures: st.Depletion, Train: &tr})
+	if err != nil {
+		return nil, nil, fmt.Errorf("constant-volume depletion at %s: %w", temperatureText(sys, st.Reservoir.Temperature), err)
+	}
+	dep := depletionReport(st, sys, tr, d, false)
+	depSummary := *dep
+	depSummary.Tables = dep.Tables[:1] // the steps, without the compositions
+	if err := add(&depSummary, dep, depletionReport(st, sys, tr, d, true)); err != nil {
+		return nil, nil, err
+	}
+	sep, err := separateReport(st, sys, false)
+	if err != nil {
+		return nil, nil, err
+	}
+	sepCSV, err := separateReport(st, sys, true)
+	if err != nil {
+		return nil, nil, err
+	}
+	if err := add(sepCSV, sep, sepCSV); err != nil {
+		return nil, nil, err
+	}
+
+	ip, err := inplaceReport(o, st)
+	if err != nil {
+		return nil, nil, err
+	}
+	if err := add(ip, ip, ip); err != nil {
+		return nil, nil, err
+	}
+	rec, err := recoverReport(o, st, mbal.RecoverOptions{Steps: defaultRecoverySteps})
+	if err != nil {
+		return nil, nil, err
+	}
+	if err := add(rec, rec, rec); err != nil {
+		return nil, nil, err
+	}
+	h, err := historyRun(o, st, mbal.DefaultConfidence)
+	if err != nil {
+		return nil, nil, err
+	}
+	if h.ho.WaterInfluxSuspected {
+		o.warn("water influx suspected: " + h.ho.Reason)
+	} else {
+		fmt.Fprintln(o.stderr, "demo: history influx test: "+h.ho.Reason)
+	}
+	hist := historyReportOf(st, sys, h, o.format != formatTable)
+	histFull := historyReportOf(st, sys, h, true)
+	if err := add(hist, histFull, histFull); err != nil {
+		return nil, nil, err
+	}
+	return out, files, nil
+}
+
+// checkDemoDir refuses a folder demo must not write into: an existing file,
+// a folder holding anything but an earlier demo's output, or a folder whose
+// parent does not exist.
+func checkDemoDir(dir string) error {
+	if strings.TrimSpace(dir) == "" {
+		return errors.New("empty folder name")
+	}
+	parent := filepath.Dir(filepath.Clean(dir))
+	if fi, err := os.Stat(parent); err != nil || !fi.IsDir() {
+		return fmt.Errorf("the folder %s, in which %s would be made, does not exist", parent, dir)
+	}
+	fi, err := os.Stat(dir)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return nil
+	case err != nil:
+		return err
+	case !fi.IsDir():
+		return fmt.Errorf("%s is a file, not a folder; refusing to replace it", dir)
+	}
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		return err
+	}
+	if len(entries) == 0 {
+		return nil
+	}
+	listed, ok := readDemoMarker(dir)
+	if !ok {
+		return fmt.Errorf("%s is a folder that holds other files (%s); demo writes only to a new or empty folder, or to one an earlier demo wrote; choose another with --%s",
+			dir, entries[0].Name(), flagDir)
+	}
+	for _, e := range entries {
+		if e.Name() != demoMarker && !listed[e.Name()] {
+			return fmt.Errorf("%s was written by an earlier demo, but %s has been added to it since; refusing to replace the folder; move that file, or choose another folder with --%s",
+				dir, e.Name(), flagDir)
+		}
+	}
+	return nil
+}
+
+// readDemoMarker reads the marker of an earlier demo in dir: the files it
+// lists, and whether there is such a marker.
+func readDemoMarker(dir string) (map[string]bool, bool) {
+	data, err := os.ReadFile(filepath.Join(dir, demoMarker))
+	if err != nil {
+		return nil, false
+	}
+	sc := bufio.NewScanner(bytes.NewReader(data))
+	if !sc.Scan() || sc.Text() != demoSignature {
+		return nil, false
+	}
+	listed := map[string]bool{}
+	for sc.Scan() {
+		if name, ok := strings.CutPrefix(sc.Text(), "  "); ok && name != "" {
+			listed[name] = true
+		}
+	}
+	return listed, true
+}
+
+// demoMarkerText is the content of the marker for files.
+func demoMarkerText(files []demoFile) []byte {
+	var b bytes.Buffer
+	fmt.Fprintln(&b, demoSignature)
+	fmt.Fprintf(&b, "\nThese tables were written by `dewcell demo` from the bundled example study, examples/%s\n", examples.StudyName)
+	fmt.Fprintln(&b, "(an invented field). Each table is given as CSV and as JSON, with the unit at the end of")
+	fmt.Fprintln(&b, "every column name. The next `dewcell demo` into this folder replaces it, as long as it")
+	fmt.Fprintln(&b, "holds only these files:")
+	fmt.Fprintln(&b)
+	for _, f := range files {
+		fmt.Fprintf(&b, "  %s\n", f.name)
+	}
+	return b.Bytes()
+}
+
+// writeDemoDir writes files and the marker into a temporary folder beside
+// dir, then puts it in dir's place, so that dir holds either the previous
+// content or the whole new one. checkDemoDir is repeated just before the
+// swap; a previous demo folder is removed only after the new one is in place.
+func writeDemoDir(dir string, files []demoFile) (err error) {
+	dir = filepath.Clean(dir)
+	parent, base := filepath.Split(dir)
+	if parent == "" {
+		parent = "."
+	}
+	tmp, err := os.MkdirTemp(parent, "."+base+".*.tmp")
+	if err != nil {
+		return err
+	}
+	defer func() {
+		if err != nil {
+			os.RemoveAll(tmp)
+		}
+	}()
+	write := func(name string, data []byte) error {
+		f, err := os.OpenFile(filepath.Join(tmp, name), os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
+		if err != nil {
+			return err
+		}
+		if _, err := f.Write(data); err != nil {
+			f.Close()
+			return err
+		}
+		if err := f.Sync(); err != nil {
+			f.Close()
+			return err
+		}
+		return f.Close()
+	}
+	for _, f := range files {
+		if f.name == demoMarker || strings.ContainsAny(f.name, `/\`) {
+			return fmt.Errorf("internal error: demo file name %q", f.name)
+		}
+		if err = write(f.name, f.data); err != nil {
+			return err
+		}
+	}
+	if err = write(demoMarker, demoMarkerText(files)); err != nil {
+		return err
+	}
+	if err = os.Chmod(tmp, 0o755); err != nil {
+		return err
+	}
+
+	if err = checkDemoDir(dir); err != nil { // it may have changed while demo ran
+		return err
+	}
+	fi, statErr := os.Stat(dir)
+	if errors.Is(statErr, fs.ErrNotExist) {
+		return os.Rename(tmp, dir)
+	}
+	if statErr != nil {
+		return statErr
+	}
+	if !fi.IsDir() {
+		return fmt.Errorf("%s is a file, not a folder", dir)
+	}
+	old := tmp + ".old"
+	if err = os.Rename(dir, old); err != nil {
+		return err
+	}
+	if err = os.Rename(tmp, dir); err != nil {
+		if back := os.Rename(old, dir); back != nil {
+			return fmt.Errorf("%w; the previous folder is now %s (%v)", err, old, back)
+		}
+		return err
+	}
+	return os.RemoveAll(old) // an earlier demo's files, or an empty folder
 }
 
 // noteMargin says on standard error how far the initial pressure lies above

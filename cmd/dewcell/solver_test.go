@@ -244,7 +244,7 @@ func TestEnvelopeO9(t *testing.T) {
 }
 
 func TestDemo(t *testing.T) {
-	code, out, stderr := dewcell("demo")
+	code, out, stderr := dewcell("demo", "--dir", filepath.Join(t.TempDir(), "demo"))
 	if code != 0 {
 		t.Fatalf("demo: exit %d: %s", code, stderr)
 	}
@@ -259,7 +259,7 @@ func TestDemo(t *testing.T) {
 	if strings.Contains(stderr, "below the computed") {
 		t.Errorf("the example's initial pressure lies below its computed dew point: %s", stderr)
 	}
-	doc := runJSON(t, "demo", "--units", "metric")
+	doc := runJSON(t, "demo", "--units", "metric", "--dir", filepath.Join(t.TempDir(), "demo-metric"))
 	for _, k := range []string{"fluid", "saturation", "envelope"} {
 		if _, ok := doc[k].(map[string]any); !ok {
 			t.Errorf("demo JSON lacks %q", k)

@@ -35,6 +35,33 @@
 // components of the fluid; naming the plus fraction sets the coefficient of
 // every pseudo-component split from it.
 //
-// The [[separator.stage]] tables are numbered from 1 in messages:
-// separator.stage[2].pressure is the second stage's pressure.
+// Two sections hold field data:
+//
+//	[surface]                      separator data for the quick-look gas and condensate in place
+//	oil_api = 48.5                 stock-tank oil API gravity; or oil_specific_gravity = 0.786 (60/60 degF)
+//	oil_molar_mass = 122.0         g/mol, optional; absent: Cragoe (1929) from the API gravity
+//	correlation = "sutton"         pseudo-critical properties: sutton | standing-natural-gas | standing-condensate
+//	[surface.impurities]           optional, mol % of the well stream
+//	N2 = 0.52
+//	CO2 = 2.16
+//	H2S = 0.0
+//	[[surface.stage]]              one per separator stage, then the stock tank
+//	gor = "6505 scf/STB"           this stage's gas over the stock-tank oil ("1160 sm3/sm3")
+//	gas_gravity = 0.682            air = 1
+//
+//	[[history]]                    one per time, in time order; needs reservoir.initial_pressure
+//	date = 2021-07-01              a TOML date, or "2021-07-01"; or step = 3; or neither in any row
+//	pressure = "3530 psia"         average reservoir pressure
+//	sales_gas = "50.39 Bscf"       cumulative since discovery: "850 MMscf", "1.4e9 sm3", "350 1e6 sm3"
+//	condensate = "5.18 MMSTB"      cumulative stock-tank condensate: "420 MSTB", "1200 bbl", "8.2e5 sm3"
+//	water = "12 MSTB"              cumulative water, optional; once a row gives it, every later row must
+//
+// Surface ratios and volumes are at the study's standard conditions. Dates
+// and steps rise from row to row; cumulative volumes never fall; only the
+// first row may record no production (the initial state); a row with
+// production lies below reservoir.initial_pressure.
+//
+// The [[separator.stage]], [[surface.stage]] and [[history]] tables are
+// numbered from 1 in messages: separator.stage[2].pressure is the second
+// stage's pressure, history[3].date the third row's date.
 package study

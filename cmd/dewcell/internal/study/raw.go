@@ -23,6 +23,8 @@ type fileStudy struct {
 	Depletion *fileDepletion `toml:"depletion"`
 	Lab       *fileLab       `toml:"lab"`
 	Standard  *fileStandard  `toml:"standard_conditions"`
+	Surface   *fileSurface   `toml:"surface"`
+	History   []fileHistory  `toml:"history"`
 }
 
 type fileReservoir struct {

@@ -28,6 +28,11 @@ type Study struct {
 
 	Lab Lab
 
+	// Surface holds the separator data of [surface]; nil when not given.
+	Surface *Surface
+	// History holds the [[history]] rows in file order; nil when not given.
+	History []HistoryRow
+
 	// Atmospheric is the atmospheric pressure, Pa, that converts gauge
 	// pressures (1 atm unless the study sets one).
 	Atmospheric float64
@@ -132,6 +137,8 @@ func Parse(name string, data []byte) (*Study, error) {
 	r.separator(s, f.Separator)
 	r.depletion(s, f.Depletion)
 	r.lab(s, f.Lab, filepath.Dir(name))
+	r.surface(s, f.Surface)
+	r.history(s, f.History)
 	if r.err != nil {
 		return nil, r.err
 	}

@@ -6,9 +6,11 @@ import "fmt"
 type System int
 
 const (
-	// Field: degF, psia, ft, acre, bbl, 1/psi, lb/ft3, g/mol, ft3/lbmol.
+	// Field: degF, psia, ft, acre, bbl, 1/psi, lb/ft3, g/mol, ft3/lbmol;
+	// MMscf, STB, scf/STB, Mscf/acre-ft and STB/acre-ft; bulk rock in acre-ft.
 	Field System = iota
-	// Metric: degC, bara, m, ha, m3, 1/bar, kg/m3, g/mol, m3/kmol.
+	// Metric: degC, bara, m, ha, m3, 1/bar, kg/m3, g/mol, m3/kmol;
+	// 1e6 sm3, sm3, sm3/sm3 and sm3/ha-m; bulk rock in ha-m.
 	Metric
 )
 
@@ -41,6 +43,11 @@ var systems = [2]map[Kind]Unit{
 		Density:         LbPerFt3,
 		MolarMass:       GPerMol,
 		MolarVolume:     Ft3PerLb,
+		GasVolume:       MMscf,
+		LiquidVolume:    STB,
+		GasOilRatio:     ScfPerSTB,
+		GasPerBulk:      MscfPerAcreFt,
+		LiquidPerBulk:   STBPerAcreFt,
 	},
 	Metric: {
 		Temperature:     DegC,
@@ -52,6 +59,11 @@ var systems = [2]map[Kind]Unit{
 		Density:         KgPerM3,
 		MolarMass:       GPerMol,
 		MolarVolume:     M3PerKmol,
+		GasVolume:       MillionSm3,
+		LiquidVolume:    LiquidSm3,
+		GasOilRatio:     Sm3PerSm3,
+		GasPerBulk:      GasSm3PerHaM,
+		LiquidPerBulk:   LiquidSm3PerHaM,
 	},
 }
 
@@ -65,6 +77,15 @@ func (s System) Unit(k Kind) Unit {
 		return u
 	}
 	return Fraction
+}
+
+// Bulk returns the unit of bulk rock volume in s: acre-ft (field) or
+// hectare-metres (metric), the volumes that in-place figures are quoted per.
+func (s System) Bulk() Unit {
+	if s == Metric {
+		return HectareMetre
+	}
+	return AcreFoot
 }
 
 // Conditions are a temperature and a pressure, in K and Pa.

@@ -49,6 +49,11 @@ const (
 	Density              // kg/m³
 	MolarMass            // kg/mol
 	MolarVolume          // m³/mol
+	GasVolume            // standard m³ of gas: ideal-gas volume at the study's standard conditions
+	LiquidVolume         // m³ of stock-tank liquid (condensate, water) at standard conditions
+	GasOilRatio          // standard m³ of gas per m³ of stock-tank liquid
+	GasPerBulk           // standard m³ of gas per m³ of bulk rock (output only)
+	LiquidPerBulk        // m³ of stock-tank liquid per m³ of bulk rock (output only)
 )
 
 var kindNames = [...]string{
@@ -62,6 +67,11 @@ var kindNames = [...]string{
 	Density:         "density",
 	MolarMass:       "molar mass",
 	MolarVolume:     "molar volume",
+	GasVolume:       "standard gas volume",
+	LiquidVolume:    "stock-tank liquid volume",
+	GasOilRatio:     "gas-oil ratio",
+	GasPerBulk:      "standard gas volume per bulk rock volume",
+	LiquidPerBulk:   "stock-tank liquid volume per bulk rock volume",
 }
 
 // kindExamples show a user what to write for each kind.
@@ -76,6 +86,11 @@ var kindExamples = [...]string{
 	Density:         `"45 lb/ft3", "720 kg/m3" or "0.72 g/cm3"`,
 	MolarMass:       `"143 g/mol", "143 kg/kmol", "143 lb/lbmol" or "0.143 kg/mol"`,
 	MolarVolume:     `"0.0986 m3/kmol", "98.6 cm3/mol", "1.58 ft3/lbmol" or "9.86e-5 m3/mol"`,
+	GasVolume:       `"12.4 Bscf", "850 MMscf", "3.2e6 Mscf", "2.6e9 scf", "350 1e6 sm3" or "7.4e7 sm3"`,
+	LiquidVolume:    `"1.85 MMSTB", "420 MSTB", "2.9e5 STB", "1200 bbl", "4.6e4 sm3" or "46 1e3 sm3"`,
+	GasOilRatio:     `"6500 scf/STB", "6.5 Mscf/STB" or "1160 sm3/sm3"`,
+	GasPerBulk:      `"1300 Mscf/acre-ft" (output only)`,
+	LiquidPerBulk:   `"160 STB/acre-ft" (output only)`,
 }
 
 func (k Kind) String() string {
@@ -216,7 +231,6 @@ func init() {
 	def(Volume, "ft3", M3PerFt3, 1/M3PerFt3, 0, "ft3", "ft³")
 	def(Volume, "Mbbl", 1e3*M3PerBbl, 1/(1e3*M3PerBbl), 0, "Mbbl")
 	def(Volume, "MMbbl", 1e6*M3PerBbl, 1/(1e6*M3PerBbl), 0, "MMbbl")
-	def(Volume, "acre_ft", M3PerAcreFt, 1/M3PerAcreFt, 0, "acre-ft")
 	def(Compressibility, "per_Pa", 1, 1, 0, "1/Pa", "Pa-1")
 	def(Compressibility, "per_kPa", 1e-3, 1/1e-3, 0, "1/kPa", "kPa-1")
 	def(Compressibility, "per_MPa", 1e-6, 1/1e-6, 0, "1/MPa", "MPa-1")
@@ -269,7 +283,9 @@ func (e *Error) Error() string { return fmt.Sprintf("%q: %s", e.Input, e.msg) }
 // Unwrap lets errors.Is(err, ErrUnknownUnit) work.
 func (e *Error) Unwrap() error { return e.Err }
 
-var quantity = regexp.MustCompile(`^\s*([+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?)\s*(\S*)\s*$`)
+// quantity splits a number from its unit. A unit is one word, or a power of
+// ten and a word ("1e6 sm3", "1e3 sm3"), as volumes are often written.
+var quantity = regexp.MustCompile(`^\s*([+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?)\s*((?:1e[0-9]+\s+)?\S*)\s*$`)
 
 // Parse reads s, a number followed by a unit ("245 degF", "6200 psia",
 // "4e-6 1/psi"; the space may be left out), as a quantity of kind want and
@@ -331,7 +347,7 @@ func parse(s string, want Kind) (Unit, float64, error) {
 		}
 		return fail(ErrSyntax, "want a number and a unit, such as %s", want.Examples())
 	}
-	num, sym := m[1], m[2]
+	num, sym := m[1], strings.Join(strings.Fields(m[2]), " ")
 	if sym == "" {
 		return fail(ErrNoUnit, "missing unit; want a %s such as %s", want, want.Examples())
 	}
@@ -339,6 +355,9 @@ func parse(s string, want Kind) (Unit, float64, error) {
 		return fail(ErrAmbiguous, "%q does not say whether the pressure is absolute or gauge: %s", sym, hint)
 	}
 	u, ok := table[sym]
+	if alt, isAlt := alias[want][sym]; isAlt {
+		u, ok = alt, true
+	}
 	if !ok {
 		if hint, ok := ambiguous[sym]; ok {
 			return fail(ErrAmbiguous, "%q is ambiguous (%s), and a %s is wanted here, such as %s", sym, hint, want, want.Examples())

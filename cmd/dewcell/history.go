@@ -1,0 +1,290 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/urfave/cli/v2"
+
+	"dewcell/cmd/dewcell/internal/study"
+	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/cvd"
+	"dewcell/mbal"
+)
+
+// Flags of history.
+const flagConfidence = "confidence"
+
+// historyGridSteps is the number of even pressure steps of the simulated
+// depletion from the initial pressure down to the lowest history pressure,
+// in which Z₂ and the condensate's gas equivalent are interpolated at each
+// history pressure. A depletion is a sequence of finite gas removals, so its
+// Z₂ moves a little with the step size: on the bundled example, 200 steps
+// from 4950 to 1790 psia give Z₂ within 1e-4 of a depletion in 10 psi steps,
+// where 10 steps (316 psi each) are 3e-3 off.
+const historyGridSteps = 200
+
+func historyCommand() *cli.Command {
+	return studyCommand("history",
+		"original wet gas in place from the [[history]] table: the two-phase p/z straight line in its Havlena–Odeh form, with its confidence interval and a test for water influx, against the volumetric figure",
+		[]cli.Flag{
+			&cli.Float64Flag{Name: flagConfidence, Value: mbal.DefaultConfidence, Usage: "two-sided confidence `LEVEL` of the interval on the gas in place and of the influx tests, between 0 and 1"},
+		},
+		func(c *cli.Context, o *options, st *study.Study) error {
+			conf := c.Float64(flagConfidence)
+			if !(conf > 0 && conf < 1) {
+				return cli.Exit(fmt.Sprintf("--%s: %g, want a level between 0 and 1, such as 0.95", flagConfidence, conf), exitUsage)
+			}
+			h, err := historyRun(o, st, conf)
+			if err != nil {
+				return err
+			}
+			if h.ho.WaterInfluxSuspected {
+				o.warn("water influx suspected: " + h.ho.Reason)
+			} else {
+				fmt.Fprintln(o.stderr, "history: influx test: "+h.ho.Reason)
+			}
+			return o.emit(historyReportOf(st, o.sys, h, o.format != formatTable))
+		})
+}
+
+// historyResult is the material balance on a study's production history.
+type historyResult struct {
+	res      mbal.Reservoir
+	tr       cvd.Train
+	rec      *mbal.Recovery // the simulated depletion that gives Z₂
+	rows     []study.HistoryRow
+	first    int       // index in rows of the first point fitted (1 when rows[0] is the initial state)
+	ge       float64   // gas equivalent of the initial fluid's condensate, standard m³ per m³
+	geAt     []float64 // that of the condensate produced down to each point
+	zi       float64
+	points   []mbal.HistoryPoint
+	ho       *mbal.HavlenaOdehResult
+	plain    *mbal.PZFit // the p/z line without rock and water expansion
+	vol      mbal.VolumetricComparison
+	dewPoint float64 // Pa
+}
+
+// historyRun puts the study's [[history]] on a wet-gas basis and fits it.
+//
+// The cumulative wet gas of each row is the sales gas plus the condensate's
+// gas equivalent, GE = (ρ_o/M_o) R T_sc/p_sc per m³ of stock-tank oil (the
+// ideal-gas volume of its moles; METHODS 5.3). The condensate grows lighter
+// as the reservoir depletes, so ρ_o/M_o is that of all the stock-tank oil
+// produced down to the row's pressure in a simulated depletion of the
+// reservoir (mbal.Recover, immobile condensate: cumulative oil moles over
+// cumulative oil volume); before any production it is that of the initial
+// fluid's stock-tank oil. Z₂ comes from the same depletion. Both are
+// interpolated linearly in pressure between its steps, historyGridSteps even
+// steps from the initial pressure down to the lowest history pressure; Z_i
+// is Z₂ at the initial pressure.
+func historyRun(o *options, st *study.Study, conf float64) (*historyResult, error) {
+	if len(st.History) == 0 {
+		return nil, cli.Exit(fmt.Sprintf("%s has no [[history]] table: history needs rows of date or step, pressure, sales_gas, condensate and optionally water", st.File), exitUsage)
+	}
+	res, err := reservoirOf(o, st, "history", false)
+	if err != nil {
+		return nil, err
+	}
+	h := &historyResult{res: res, tr: trainOf(st, o.sys), rows: st.History}
+	if !st.History[0].Production() {
+		h.first = 1
+		p0 := st.History[0].Pressure
+		if math.Abs(p0-res.Pi) > 0.005*res.Pi {
+			o.warn(fmt.Sprintf("%s: history[1] records no production at %s, but reservoir.initial_pressure is %s; the material balance starts from reservoir.initial_pressure",
+				st.File, pressureText(o.sys, p0), pressureText(o.sys, res.Pi)))
+		}
+	}
+	fitted := st.History[h.first:]
+	if len(fitted) < mbal.MinHistoryPoints {
+		return nil, cli.Exit(fmt.Sprintf("%s: [[history]] has %d rows with production; the straight-line fit needs at least %d",
+			st.File, len(fitted), mbal.MinHistoryPoints), exitUsage)
+	}
+	pLow := math.Inf(1)
+	for _, row := range fitted {
+		pLow = math.Min(pLow, row.Pressure)
+	}
+	grid := make([]float64, historyGridSteps)
+	for k := range grid {
+		grid[k] = res.Pi - (res.Pi-pLow)*float64(k+1)/historyGridSteps
+	}
+	grid[len(grid)-1] = pLow
+	res.Abandonment = pLow
+	h.res = res
+	h.rec, err = mbal.Recover(st.Fluid, st.Z, res, h.tr, mbal.RecoverOptions{Pressures: grid})
+	if err != nil {
+		return nil, reservoirError(st, o.sys, "the simulated depletion that gives the two-phase Z", err)
+	}
+	h.dewPoint = h.rec.Depletion.Dew.P
+	ip := h.rec.InPlace
+	if !(ip.Surface.OilMoles > 0) || !(ip.Surface.OilVolume > 0) {
+		return nil, cli.Exit(fmt.Sprintf("%s: the separator train makes no stock-tank oil from the fluid, so the condensate of [[history]] has no gas equivalent", st.File), exitUsage)
+	}
+	// ρ_o/M_o is the oil's moles per m³: OilMoles/OilVolume per mole of feed.
+	vsc := standardVolume(h.tr)
+	h.ge = ip.Surface.OilMoles / ip.Surface.OilVolume * vsc
+	geOf := func(s mbal.RecoveryStep) float64 {
+		if !(s.Condensate > 0) {
+			return h.ge
+		}
+		return s.OilMoles / s.Condensate * vsc
+	}
+	h.zi = h.rec.Steps[0].Z2
+
+	for _, row := range fitted {
+		ge := interpolate(h.rec.Steps, row.Pressure, geOf)
+		h.geAt = append(h.geAt, ge)
+		h.points = append(h.points, mbal.HistoryPoint{
+			P:         row.Pressure,
+			Z2:        interpolate(h.rec.Steps, row.Pressure, func(s mbal.RecoveryStep) float64 { return s.Z2 }),
+			CumWetGas: row.SalesGas + row.Condensate*ge,
+			CumWater:  row.Water,
+		})
+	}
+	std := h.tr.Standard
+	par := mbal.HavlenaOdehParams{T: res.T, Sw: res.Sw, Cw: res.Cw, Cf: res.Cf, Std: std}
+	popt := &mbal.PZOptions{Confidence: conf}
+	if h.ho, err = mbal.HavlenaOdeh(h.points, res.Pi, h.zi, par, popt); err != nil {
+		return nil, historyError(st, h.first, err)
+	}
+	if h.plain, err = mbal.FitPZ(h.points, res.Pi, h.zi, popt); err != nil {
+		return nil, historyError(st, h.first, err)
+	}
+	if h.vol, err = h.ho.Line.CompareVolumetric(ip.WetGas); err != nil {
+		return nil, fmt.Errorf("history: %w", err)
+	}
+	return h, nil
+}
+
+// interpolate gives f of the depletion steps (falling in pressure) at p,
+// linearly in pressure; beyond the ends it takes the end value, which cannot
+// happen on the grid historyRun builds.
+func interpolate(steps []mbal.RecoveryStep, p float64, f func(mbal.RecoveryStep) float64) float64 {
+	n := len(steps)
+	// steps[k].P falls with k: find the first step at or below p.
+	k := sort.Search(n, func(i int) bool { return steps[i].P <= p })
+	switch {
+	case k == 0:
+		return f(steps[0])
+	case k == n:
+		return f(steps[n-1])
+	}
+	a, b := steps[k-1], steps[k]
+	if a.P == b.P {
+		return f(b)
+	}
+	return f(b) + (f(a)-f(b))*(p-b.P)/(a.P-b.P)
+}
+
+// historyError names the [[history]] row of a *mbal.HistoryError; a fit
+// whose p/z does not fall is a computation that failed.
+func historyError(st *study.Study, first int, err error) error {
+	var he *mbal.HistoryError
+	if !errors.As(err, &he) {
+		return fmt.Errorf("history: %w", err)
+	}
+	if errors.Is(err, mbal.ErrPZNotFalling) {
+		return fmt.Errorf("%s: [[history]]: %s", st.File, he.Why)
+	}
+	where := "[[history]]"
+	if he.Index >= 0 {
+		key := map[string]string{"P": "pressure", "Z2": "pressure", "CumWetGas": "sales_gas", "CumWater": "water"}[he.Field]
+		if key == "" {
+			key = "pressure"
+		}
+		where = fmt.Sprintf("history[%d].%s", he.Index+first+1, key)
+	}
+	return cli.Exit(fmt.Sprintf("%s: %s: %s", st.File, where, he.Why), exitUsage)
+}
+
+// historyReportOf shows the history material balance in sys.
+// withReason adds the influx test in words, a long line that the table for
+// people leaves to standard error.
+func historyReportOf(st *study.Study, sys units.System, h *historyResult, withReason bool) *Report {
+	u := inPlaceUnitsOf(sys)
+	su := surfaceUnitsOf(sys)
+	pU, cU := u.press, sys.Unit(units.Compressibility)
+	line := h.ho.Line
+	ip := h.rec.InPlace
+	r := &Report{
+		Name:  "history",
+		Title: "production history of " + fluidName(st) + ": two-phase p/z material balance (Havlena–Odeh form)",
+		Fields: []Field{
+			{Column{Name: "points_fitted"}, len(h.points)},
+			{Column{Name: "initial_pressure", Unit: pU}, pU.FromSI(h.res.Pi)},
+			{Column{Name: "z_initial"}, h.zi},
+			{Column{Name: "p_over_z_initial", Unit: pU}, pU.FromSI(h.res.Pi / h.zi)},
+			{Column{Name: "dew_pressure", Unit: pU}, pU.FromSI(h.dewPoint)},
+			{Column{Name: "initial_condensate_gas_equivalent", Unit: su.gor.Unit}, su.gor.of(h.ge)},
+			{Column{Name: "effective_compressibility", Unit: cU}, cU.FromSI(h.ho.Ce)},
+			{Column{Name: "confidence"}, line.Confidence},
+			{Column{Name: "wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(line.G)},
+			{Column{Name: "wet_gas_in_place_low", Unit: u.gas}, u.gas.FromSI(line.GLow)},
+			{Column{Name: "wet_gas_in_place_high", Unit: u.gas}, u.gas.FromSI(line.GHigh)},
+			{Column{Name: "wet_gas_in_place_standard_error", Unit: u.gas}, u.gas.FromSI(line.GSE)},
+			{Column{Name: "r_squared"}, line.R2},
+			{Column{Name: "p_over_z_residual_standard_error", Unit: pU}, pU.FromSI(line.ResidualSE)},
+			{Column{Name: "uncorrected_p_over_z_wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(h.plain.G)},
+			{Column{Name: "volumetric_wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(ip.WetGas)},
+			{Column{Name: "difference_from_volumetric", Unit: u.gas}, u.gas.FromSI(h.vol.Difference)},
+			{Column{Name: "difference_from_volumetric", Unit: units.Percent}, 100 * (h.vol.Ratio - 1)},
+			{Column{Name: "volumetric_inside_interval"}, h.vol.Inside},
+			{Column{Name: "f_over_expansion_trend"}, h.ho.TrendSlope},
+			{Column{Name: "f_over_expansion_trend_p_value"}, h.ho.TrendP},
+			{Column{Name: "curvature_p_value"}, line.CurvatureP},
+			{Column{Name: "water_influx_suspected"}, h.ho.WaterInfluxSuspected},
+		},
+	}
+	if withReason {
+		r.Fields = append(r.Fields, Field{Column{Name: "influx_test"}, h.ho.Reason})
+	}
+	labelName := "row"
+	if len(h.rows) > 0 {
+		switch {
+		case !h.rows[0].Date.IsZero():
+			labelName = "date"
+		case h.rows[0].Step != 0 || h.rows[len(h.rows)-1].Step != 0:
+			labelName = "step"
+		}
+	}
+	pts := Table{
+		Name:  "points",
+		Title: "history points: wet gas = sales gas + condensate × gas equivalent; F/(Eg+Efw) is the gas in place each point implies without influx",
+		Columns: []Column{
+			{Name: labelName},
+			{Name: "pressure", Unit: pU},
+			{Name: "cum_sales_gas", Unit: u.gas},
+			{Name: "cum_condensate", Unit: u.liquid},
+			{Name: "cum_water", Unit: u.liquid},
+			{Name: "condensate_gas_equivalent", Unit: su.gor.Unit},
+			{Name: "cum_wet_gas", Unit: u.gas},
+			{Name: "z_two_phase"},
+			{Name: "p_over_z", Unit: pU},
+			{Name: "corrected_p_over_z", Unit: pU},
+			{Name: "fitted_p_over_z", Unit: pU},
+			{Name: "f_over_expansion", Unit: u.gas},
+		},
+	}
+	for i, pt := range h.points {
+		row := h.rows[i+h.first]
+		hp := h.ho.Points[i]
+		corrected := pt.P / pt.Z2 * (1 - h.ho.Ce*(h.res.Pi-pt.P))
+		x := pt.CumWetGas + pt.CumWater/hp.Bg // W_p B_w/B_g with B_w = 1
+		pts.Rows = append(pts.Rows, []any{
+			row.Label,
+			pU.FromSI(pt.P),
+			u.gas.FromSI(row.SalesGas), u.liquid.FromSI(row.Condensate), u.liquid.FromSI(row.Water),
+			su.gor.of(h.geAt[i]),
+			u.gas.FromSI(pt.CumWetGas),
+			pt.Z2,
+			pU.FromSI(pt.P / pt.Z2),
+			pU.FromSI(corrected),
+			pU.FromSI(line.PZAt(x)),
+			u.gas.FromSI(hp.FOverE),
+		})
+	}
+	r.Tables = []Table{pts}
+	return r
+}

@@ -1,0 +1,301 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+
+	"github.com/urfave/cli/v2"
+
+	"dewcell/cmd/dewcell/internal/study"
+	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/cvd"
+	"dewcell/eos"
+	"dewcell/mbal"
+)
+
+func inplaceCommand() *cli.Command {
+	return studyCommand("inplace",
+		"initial wet gas, sales gas and condensate in place: by the equation of state and, with a [surface] section, by the quick look from separator data, side by side",
+		nil,
+		func(_ *cli.Context, o *options, st *study.Study) error {
+			r, err := inplaceReport(o, st)
+			if err != nil {
+				return err
+			}
+			return o.emit(r)
+		})
+}
+
+// reservoirOf is the study's reservoir for package mbal, or a usage error
+// naming the key that is missing. what says what the reservoir is needed
+// for; needAbandonment asks for reservoir.abandonment_pressure too.
+func reservoirOf(o *options, st *study.Study, what string, needAbandonment bool) (mbal.Reservoir, error) {
+	rs := st.Reservoir
+	bad := func(format string, args ...any) (mbal.Reservoir, error) {
+		return mbal.Reservoir{}, cli.Exit(fmt.Sprintf("%s: ", st.File)+fmt.Sprintf(format, args...), exitUsage)
+	}
+	switch {
+	case rs.InitialPressure == 0:
+		return bad("reservoir.initial_pressure: missing; %s needs the initial pressure", what)
+	case rs.PoreVolume == 0 && rs.Area == 0:
+		return bad(`reservoir.area: missing; %s needs the rock: area with net_thickness (such as "3150 acre" and "62 ft") or pore_volume`, what)
+	case rs.PoreVolume == 0 && rs.Porosity == 0:
+		return bad("reservoir.porosity: missing; %s needs the porosity to go with the area and net thickness", what)
+	case needAbandonment && rs.AbandonmentPressure == 0:
+		return bad("reservoir.abandonment_pressure: missing; %s runs down to the abandonment pressure", what)
+	}
+	if rs.WaterSaturation == 0 {
+		o.warn(fmt.Sprintf("%s: reservoir.water_saturation is 0 or not given: the whole pore volume is taken to hold hydrocarbons", st.File))
+	}
+	r := mbal.Reservoir{
+		T:          rs.Temperature,
+		Pi:         rs.InitialPressure,
+		PoreVolume: rs.PoreVolume,
+		BulkVolume: rs.Area * rs.NetThickness,
+		Porosity:   rs.Porosity,
+		Sw:         rs.WaterSaturation,
+		Sc:         rs.CriticalCondensateSaturation,
+		Cf:         rs.RockCompressibility,
+		Cw:         rs.WaterCompressibility,
+	}
+	if needAbandonment {
+		r.Abandonment = rs.AbandonmentPressure
+	}
+	if err := r.Check(); err != nil {
+		return r, cli.Exit(fmt.Sprintf("%s: [reservoir]: %v", st.File, err), exitUsage)
+	}
+	return r, nil
+}
+
+// reservoirError gives a failure of package mbal the exit code it deserves:
+// a reservoir that is two-phase at the initial pressure or an invalid
+// description is the study's fault (exit 2), anything else a computation
+// that failed (exit 1).
+func reservoirError(st *study.Study, sys units.System, what string, err error) error {
+	switch {
+	case errors.Is(err, mbal.ErrInitiallyTwoPhase):
+		return cli.Exit(fmt.Sprintf("%s: reservoir.initial_pressure (%s): %s: %v; the reservoir must be one phase at discovery (compare dewcell satpoint)",
+			st.File, pressureText(sys, st.Reservoir.InitialPressure), what, err), exitUsage)
+	case errors.Is(err, mbal.ErrBadReservoir), errors.Is(err, cvd.ErrBadTrain), errors.Is(err, cvd.ErrBadOptions):
+		return cli.Exit(fmt.Sprintf("%s: %s: %v", st.File, what, err), exitUsage)
+	}
+	return fmt.Errorf("%s: %w", what, err)
+}
+
+// surfaceData is the study's [surface] section for mbal.Recombine, its
+// standard conditions those of the output system.
+func surfaceData(st *study.Study, sys units.System) mbal.SurfaceData {
+	sf := st.Surface
+	std := st.StandardConditions(sys)
+	d := mbal.SurfaceData{
+		OilSG: sf.OilSG, OilAPI: sf.OilAPI, OilM: sf.OilM,
+		Impurities: mbal.Impurities{N2: sf.N2, CO2: sf.CO2, H2S: sf.H2S},
+		Standard:   cvd.Conditions{T: std.T, P: std.P},
+	}
+	switch sf.Correlation {
+	case "standing-natural-gas":
+		d.Correlation = mbal.StandingNaturalGas
+	case "standing-condensate":
+		d.Correlation = mbal.StandingCondensate
+	default:
+		d.Correlation = mbal.Sutton
+	}
+	for _, s := range sf.Stages {
+		d.Gas = append(d.Gas, mbal.SurfaceGas{GOR: s.GOR, Gravity: s.Gravity})
+	}
+	return d
+}
+
+// quickLook runs the quick-look route on the study's [surface] data at the
+// initial state. Data outside a correlation's range, or inconsistent, are
+// the study's fault (exit 2).
+func quickLook(st *study.Study, sys units.System, r mbal.Reservoir) (*mbal.WellStream, *mbal.QuickLook, error) {
+	inputErr := func(err error) error {
+		if errors.Is(err, mbal.ErrBadSurfaceData) || errors.Is(err, mbal.ErrCorrelationRange) {
+			return cli.Exit(fmt.Sprintf("%s: [surface]: quick look: %v", st.File, err), exitUsage)
+		}
+		return fmt.Errorf("quick look from the [surface] data: %w", err)
+	}
+	w, err := mbal.Recombine(surfaceData(st, sys))
+	if err != nil {
+		return nil, nil, inputErr(err)
+	}
+	q, err := mbal.InPlaceQuickLook(w, r.HCPV(), r.T, r.Pi)
+	if err != nil {
+		return nil, nil, inputErr(err)
+	}
+	return w, q, nil
+}
+
+// inPlaceUnits are the output units of volumes in place.
+type inPlaceUnits struct {
+	gas, liquid       units.Unit // standard volumes
+	gasBulk, liqBulk  units.Unit // per bulk rock volume
+	bulk, pore, press units.Unit
+}
+
+func inPlaceUnitsOf(sys units.System) inPlaceUnits {
+	return inPlaceUnits{
+		gas: sys.Unit(units.GasVolume), liquid: sys.Unit(units.LiquidVolume),
+		gasBulk: sys.Unit(units.GasPerBulk), liqBulk: sys.Unit(units.LiquidPerBulk),
+		bulk: sys.Bulk(), pore: sys.Unit(units.Volume), press: sys.Unit(units.Pressure),
+	}
+}
+
+// perBulk is v per m³ of bulk rock in u, or missing without a bulk volume.
+func perBulk(u units.Unit, v, bulk float64) any {
+	if !(bulk > 0) {
+		return nil
+	}
+	return u.FromSI(v / bulk)
+}
+
+// relDiffPct is 100 (a − b)/b.
+func relDiffPct(a, b float64) any {
+	if b == 0 {
+		return nil
+	}
+	return 100 * (a - b) / b
+}
+
+// inplaceReport computes the initial gas and condensate in place by the
+// equation of state (the fluid's moles filling the hydrocarbon pore volume
+// at the initial state, through the separator train) and, when the study
+// has a [surface] section, by the quick look from separator data.
+func inplaceReport(o *options, st *study.Study) (*Report, error) {
+	sys := o.sys
+	res, err := reservoirOf(o, st, "inplace", false)
+	if err != nil {
+		return nil, err
+	}
+	if len(st.Separator) == 0 {
+		o.warn(fmt.Sprintf("%s gives no [[separator.stage]]: the reservoir fluid goes straight to the stock tank", st.File))
+	}
+	tr := trainOf(st, sys)
+	ip, err := mbal.InPlaceEOS(st.Fluid, st.Z, res, tr, nil)
+	if err != nil {
+		return nil, reservoirError(st, sys, "fluid in place", err)
+	}
+	var w *mbal.WellStream
+	var q *mbal.QuickLook
+	if st.Surface != nil {
+		if w, q, err = quickLook(st, sys, res); err != nil {
+			return nil, err
+		}
+	} else {
+		fmt.Fprintf(o.stderr, "inplace: %s has no [surface] section: the quick look from separator data is left out\n", st.File)
+	}
+	return inPlaceReportOf(st, sys, tr, res, ip, w, q), nil
+}
+
+// inPlaceReportOf shows the in-place results in sys: the equation-of-state
+// figures as the headline, the quick look beside them when there is one.
+func inPlaceReportOf(st *study.Study, sys units.System, tr cvd.Train, res mbal.Reservoir, ip *mbal.InPlace, w *mbal.WellStream, q *mbal.QuickLook) *Report {
+	u := inPlaceUnitsOf(sys)
+	su := surfaceUnitsOf(sys)
+	tU, dU := sys.Unit(units.Temperature), sys.Unit(units.Density)
+	bulk := ip.Bulk
+	var bulkV any
+	if bulk > 0 {
+		bulkV = u.bulk.FromSI(bulk)
+	}
+	r := &Report{
+		Name:  "in_place",
+		Title: "initial gas and condensate in place: " + fluidName(st),
+		Fields: []Field{
+			{Column{Name: "temperature", Unit: tU}, tU.FromSI(res.T)},
+			{Column{Name: "initial_pressure", Unit: u.press}, u.press.FromSI(res.Pi)},
+			{Column{Name: "bulk_volume", Unit: u.bulk}, bulkV},
+			{Column{Name: "pore_volume", Unit: u.pore}, u.pore.FromSI(res.PV())},
+			{Column{Name: "hydrocarbon_pore_volume", Unit: u.pore}, u.pore.FromSI(ip.HCPV)},
+			{Column{Name: "water_saturation"}, res.Sw},
+		},
+	}
+	r.Fields = append(r.Fields, standardFields(tr, sys)...)
+	r.Fields = append(r.Fields,
+		Field{Column{Name: "z_initial"}, ip.Z},
+		Field{Column{Name: "wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(ip.WetGas)},
+		Field{Column{Name: "sales_gas_in_place", Unit: u.gas}, u.gas.FromSI(ip.SalesGas)},
+		Field{Column{Name: "condensate_in_place", Unit: u.liquid}, u.liquid.FromSI(ip.Condensate)},
+		Field{Column{Name: "wet_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, ip.WetGas, bulk)},
+		Field{Column{Name: "sales_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, ip.SalesGas, bulk)},
+		Field{Column{Name: "condensate_in_place", Unit: u.liqBulk}, perBulk(u.liqBulk, ip.Condensate, bulk)},
+		Field{Column{Name: "gor", Unit: su.gor.Unit}, su.gor.of(ip.Surface.GOR)},
+		Field{Column{Name: "cgr", Unit: su.cgr.Unit}, su.cgr.of(ip.Surface.CGR)},
+		Field{Column{Name: "stock_tank_oil_density", Unit: dU}, finite(dU.FromSI(ip.Surface.OilDensity))},
+		Field{Column{Name: "api_gravity"}, finite(ip.Surface.API)},
+	)
+	routes := Table{
+		Name:  "routes",
+		Title: "the two routes side by side (difference: quick look minus equation of state)",
+		Columns: []Column{
+			{Name: "route"},
+			{Name: "z"},
+			{Name: "wet_gas", Unit: u.gas},
+			{Name: "sales_gas", Unit: u.gas},
+			{Name: "condensate", Unit: u.liquid},
+			{Name: "wet_gas", Unit: u.gasBulk},
+			{Name: "sales_gas", Unit: u.gasBulk},
+			{Name: "condensate", Unit: u.liqBulk},
+			{Name: "dry_gas_fraction"},
+		},
+	}
+	row := func(name string, z, wet, sales, cond, frac float64) []any {
+		return []any{name, z, u.gas.FromSI(wet), u.gas.FromSI(sales), u.liquid.FromSI(cond),
+			perBulk(u.gasBulk, wet, bulk), perBulk(u.gasBulk, sales, bulk), perBulk(u.liqBulk, cond, bulk), frac}
+	}
+	routes.Rows = append(routes.Rows, row("equation of state", ip.Z, ip.WetGas, ip.SalesGas, ip.Condensate, ip.Surface.GasMoles))
+	if q == nil {
+		r.Tables = []Table{routes}
+		return r
+	}
+	routes.Rows = append(routes.Rows,
+		row("quick look", q.Z, q.WetGas, q.SalesGas, q.Condensate, w.GasFraction),
+		row("difference", q.Z-ip.Z, q.WetGas-ip.WetGas, q.SalesGas-ip.SalesGas, q.Condensate-ip.Condensate, w.GasFraction-ip.Surface.GasMoles))
+	r.Tables = []Table{routes}
+
+	pU, pcTU := u.press, units.DegR // pseudo-critical temperatures are quoted absolute
+	if sys == units.Metric {
+		pcTU = units.Kelvin
+	}
+	oilM := "measured"
+	if w.Cragoe {
+		oilM = "Cragoe (1929) from the API gravity"
+	}
+	r.Fields = append(r.Fields,
+		Field{Column{Name: "quick_look_z"}, q.Z},
+		Field{Column{Name: "quick_look_wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(q.WetGas)},
+		Field{Column{Name: "quick_look_sales_gas_in_place", Unit: u.gas}, u.gas.FromSI(q.SalesGas)},
+		Field{Column{Name: "quick_look_condensate_in_place", Unit: u.liquid}, u.liquid.FromSI(q.Condensate)},
+		Field{Column{Name: "quick_look_wet_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, q.WetGas, bulk)},
+		Field{Column{Name: "quick_look_sales_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, q.SalesGas, bulk)},
+		Field{Column{Name: "quick_look_condensate_in_place", Unit: u.liqBulk}, perBulk(u.liqBulk, q.Condensate, bulk)},
+		Field{Column{Name: "quick_look_dry_gas_fraction"}, w.GasFraction},
+		Field{Column{Name: "quick_look_gor", Unit: su.gor.Unit}, su.gor.of(w.GOR)},
+		Field{Column{Name: "quick_look_surface_gas_gravity"}, w.GasGravity},
+		Field{Column{Name: "quick_look_oil_api_gravity"}, w.OilAPI},
+		Field{Column{Name: "quick_look_oil_molar_mass", Unit: units.GPerMol}, units.GPerMol.FromSI(w.OilM)},
+		Field{Column{Name: "quick_look_oil_molar_mass_source"}, oilM},
+		Field{Column{Name: "well_stream_gravity"}, w.Gravity},
+		Field{Column{Name: "pseudo_critical_correlation"}, w.Correlation.String()},
+		Field{Column{Name: "pseudo_critical_temperature", Unit: pcTU}, pcTU.FromSI(w.Critical.Tpc)},
+		Field{Column{Name: "pseudo_critical_pressure", Unit: pU}, pU.FromSI(w.Critical.Ppc)},
+		Field{Column{Name: "pseudo_reduced_temperature"}, q.Tpr},
+		Field{Column{Name: "pseudo_reduced_pressure"}, q.Ppr},
+		Field{Column{Name: "quick_look_difference_z", Unit: units.Percent}, relDiffPct(q.Z, ip.Z)},
+		Field{Column{Name: "quick_look_difference_wet_gas", Unit: units.Percent}, relDiffPct(q.WetGas, ip.WetGas)},
+		Field{Column{Name: "quick_look_difference_sales_gas", Unit: units.Percent}, relDiffPct(q.SalesGas, ip.SalesGas)},
+		Field{Column{Name: "quick_look_difference_condensate", Unit: units.Percent}, relDiffPct(q.Condensate, ip.Condensate)},
+	)
+	return r
+}
+
+// standardVolume is the ideal-gas molar volume at the train's standard
+// conditions, m³/mol.
+func standardVolume(tr cvd.Train) float64 {
+	std := tr.Standard
+	if std == (cvd.Conditions{}) {
+		std = cvd.StandardField
+	}
+	return eos.R * std.T / std.P
+}
