@@ -6,45 +6,18 @@ import (
 	"testing"
 
 	"dewcell/eos"
+	"dewcell/internal/testfluid"
 )
 
 const psi = 6894.757293168361 // Pa per psi (lb, g_n and inch definitions)
 
 func degF(f float64) float64 { return (f + 459.67) / 1.8 }
 
-// condensate is an invented 12-component gas condensate (eight library
-// components, a C7+ split into four pseudo-components), used where the test
-// checks identities rather than published values.
+// condensate is the invented 12-component condensate of internal/testfluid,
+// used where the test checks identities rather than published values.
 func condensate(tb testing.TB, shift bool) (*eos.Fluid, []float64) {
 	tb.Helper()
-	defined := []struct {
-		name string
-		pct  float64
-	}{{"N2", 0.3}, {"CO2", 2.4}, {"C1", 72}, {"C2", 8.5}, {"C3", 4.8}, {"nC4", 2.6}, {"nC5", 1.4}, {"nC6", 1.0}}
-	var comps []eos.Component
-	var z []float64
-	for _, d := range defined {
-		c, ok := eos.LibraryComponent(d.name)
-		if !ok {
-			tb.Fatalf("no %s in the library", d.name)
-		}
-		comps = append(comps, c)
-		z = append(z, d.pct/100)
-	}
-	pcs, pz, err := eos.SplitPlus(eos.PlusFraction{Name: "C7+", FirstCarbon: 7, Z: 0.07, M: 0.150, SG: 0.80}, eos.Characterization{Alpha: 2})
-	if err != nil {
-		tb.Fatal(err)
-	}
-	comps = append(comps, pcs...)
-	z = append(z, pz...)
-	s := 0.0
-	for _, v := range z {
-		s += v
-	}
-	for i := range z {
-		z[i] /= s
-	}
-	fl, err := eos.NewFluid(comps, eos.DefaultKij(comps, eos.ChuehPrausnitz{}), eos.Options{VolumeShift: shift})
+	fl, z, err := testfluid.Condensate(shift)
 	if err != nil {
 		tb.Fatal(err)
 	}

@@ -7,6 +7,7 @@ import (
 
 	"dewcell/cvd"
 	"dewcell/eos"
+	"dewcell/internal/testfluid"
 )
 
 // Trade constants (METHODS 5.1, C9): the conversions of the field units.
@@ -19,34 +20,11 @@ const (
 
 func rDegF(f float64) float64 { return (f + 459.67) / 1.8 }
 
-// rCondensate is an invented 12-component gas condensate for identity checks.
+// rCondensate is the invented 12-component condensate of internal/testfluid
+// (with volume shift), for identity checks.
 func rCondensate(tb testing.TB) (*eos.Fluid, []float64) {
 	tb.Helper()
-	defined := []struct {
-		name string
-		pct  float64
-	}{{"N2", 0.3}, {"CO2", 2.4}, {"C1", 72}, {"C2", 8.5}, {"C3", 4.8}, {"nC4", 2.6}, {"nC5", 1.4}, {"nC6", 1.0}}
-	var comps []eos.Component
-	var z []float64
-	for _, d := range defined {
-		c, _ := eos.LibraryComponent(d.name)
-		comps = append(comps, c)
-		z = append(z, d.pct/100)
-	}
-	pcs, pz, err := eos.SplitPlus(eos.PlusFraction{Name: "C7+", FirstCarbon: 7, Z: 0.07, M: 0.150, SG: 0.80}, eos.Characterization{Alpha: 2})
-	if err != nil {
-		tb.Fatal(err)
-	}
-	comps = append(comps, pcs...)
-	z = append(z, pz...)
-	s := 0.0
-	for _, v := range z {
-		s += v
-	}
-	for i := range z {
-		z[i] /= s
-	}
-	fl, err := eos.NewFluid(comps, eos.DefaultKij(comps, eos.ChuehPrausnitz{}), eos.Options{VolumeShift: true})
+	fl, z, err := testfluid.Condensate(true)
 	if err != nil {
 		tb.Fatal(err)
 	}

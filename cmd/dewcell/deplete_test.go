@@ -272,10 +272,7 @@ func TestDepleteBadInput(t *testing.T) {
 	highAbandon := o9Variant(t, "", "[depletion]", "", `pressures = ["3500 psia", "3000 psia", "2500 psia", "2000 psia", "1500 psia", "1000 psia", "600 psia"]`, "",
 		`abandonment_pressure = "600 psia"`, `abandonment_pressure = "4000 psia"`,
 		`initial_pressure = "3797.796273 psia"`, `initial_pressure = "5000 psia"`)
-	cases := []struct {
-		args []string
-		msg  []string // all in standard error
-	}{
+	cases := []badInputCase{
 		{[]string{"--pressures", "3000", o9Study}, []string{"--pressures: item 1", "missing unit"}},
 		{[]string{"--pressures", "3000 psia; 2000 psia", o9Study}, []string{"--pressures: item 1"}},
 		{[]string{"--pressures", "3000 psia,, 2000 psia", o9Study}, []string{"--pressures: item 2 is empty"}},
@@ -297,18 +294,7 @@ func TestDepleteBadInput(t *testing.T) {
 		{[]string{highAbandon}, []string{highAbandon, "reservoir.abandonment_pressure", "not below the dew point"}},
 		{[]string{"--temperature", "200 degF", o9Study}, []string{"temperature"}},
 	}
-	for _, c := range cases {
-		args := append([]string{"deplete"}, c.args...)
-		code, stdout, stderr := dewcell(args...)
-		if code != 2 || stdout != "" {
-			t.Errorf("dewcell %q: exit %d, stdout %q; want 2 and nothing\nstderr: %s", args, code, stdout, stderr)
-		}
-		for _, m := range c.msg {
-			if !strings.Contains(stderr, m) {
-				t.Errorf("dewcell %q: standard error %q does not mention %q", args, stderr, m)
-			}
-		}
-	}
+	checkBadInput(t, "deplete", cases)
 	// Above the cricondentherm there is no dew point: a failed computation.
 	hot := o9Variant(t, "", `temperature = "220 degF"`, `temperature = "1500 degF"`)
 	if code, _, stderr := dewcell("deplete", hot); code != 1 || !strings.Contains(stderr, "no saturation point") {

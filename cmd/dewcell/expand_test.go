@@ -107,10 +107,7 @@ func TestExpandDefaults(t *testing.T) {
 
 func TestExpandBadInput(t *testing.T) {
 	noAbandon := o9Variant(t, "", `abandonment_pressure = "600 psia"`, "")
-	cases := []struct {
-		args []string
-		msg  []string
-	}{
+	cases := []badInputCase{
 		{[]string{"--pressures", "3000 psia, abc", o9Study}, []string{"--pressures: item 2"}},
 		{[]string{"--pressures", "3000 psia, 20 degF", o9Study}, []string{"--pressures: item 2", "temperature"}},
 		{[]string{"--pressures", " , ", o9Study}, []string{"--pressures: item 1 is empty"}},
@@ -119,18 +116,7 @@ func TestExpandBadInput(t *testing.T) {
 		{[]string{noAbandon}, []string{"--pressures", "reservoir.abandonment_pressure", noAbandon}},
 		{[]string{"--steps", "3", o9Study}, []string{"steps"}},
 	}
-	for _, c := range cases {
-		args := append([]string{"expand"}, c.args...)
-		code, stdout, stderr := dewcell(args...)
-		if code != 2 || stdout != "" {
-			t.Errorf("dewcell %q: exit %d, stdout %q; want 2 and nothing\nstderr: %s", args, code, stdout, stderr)
-		}
-		for _, m := range c.msg {
-			if !strings.Contains(stderr, m) {
-				t.Errorf("dewcell %q: standard error %q does not mention %q", args, stderr, m)
-			}
-		}
-	}
+	checkBadInput(t, "expand", cases)
 	// With the pressures given, no abandonment pressure is needed.
 	if code, _, stderr := dewcell("expand", "--pressures", "3000 psia", noAbandon); code != 0 {
 		t.Errorf("expand --pressures without abandonment_pressure: exit %d: %s", code, stderr)

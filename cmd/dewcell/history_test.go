@@ -204,26 +204,12 @@ func TestHistoryBadInput(t *testing.T) {
 	base := exampleWithout(t, "# Production history")
 	none := writeStudy(t, base)
 	short := writeStudy(t, base+"\n[[history]]\ndate = 2020-07-01\npressure = \"4400 psia\"\nsales_gas = \"15.42 Bscf\"\ncondensate = \"2.092 MMSTB\"\n")
-	cases := []struct {
-		args []string
-		msg  []string
-	}{
+	cases := []badInputCase{
 		{[]string{outOfOrder}, []string{outOfOrder, "history[3].date", "time order"}},
 		{[]string{noUnit}, []string{noUnit, "history[2].sales_gas", "no unit"}},
 		{[]string{none}, []string{none, "no [[history]]"}},
 		{[]string{short}, []string{short, "[[history]]", "at least 3"}},
 		{[]string{"--confidence", "1.5", exampleStudy}, []string{"--confidence", "between 0 and 1"}},
 	}
-	for _, c := range cases {
-		args := append([]string{"history"}, c.args...)
-		code, stdout, stderr := dewcell(args...)
-		if code != 2 || stdout != "" {
-			t.Errorf("dewcell %q: exit %d, stdout %q; want 2 and nothing\nstderr: %s", args, code, stdout, stderr)
-		}
-		for _, m := range c.msg {
-			if !strings.Contains(stderr, m) {
-				t.Errorf("dewcell %q: standard error %q does not mention %q", args, stderr, m)
-			}
-		}
-	}
+	checkBadInput(t, "history", cases)
 }

@@ -239,3 +239,27 @@ func TestGolden(t *testing.T) {
 		}
 	}
 }
+
+// badInputCase is an invocation that must fail as bad input: exit code 2,
+// nothing on standard output, and every msg in standard error.
+type badInputCase struct {
+	args []string
+	msg  []string
+}
+
+// checkBadInput runs command with each case's arguments.
+func checkBadInput(t *testing.T, command string, cases []badInputCase) {
+	t.Helper()
+	for _, c := range cases {
+		args := append([]string{command}, c.args...)
+		code, stdout, stderr := dewcell(args...)
+		if code != 2 || stdout != "" {
+			t.Errorf("dewcell %q: exit %d, stdout %q; want 2 and nothing\nstderr: %s", args, code, stdout, stderr)
+		}
+		for _, m := range c.msg {
+			if !strings.Contains(stderr, m) {
+				t.Errorf("dewcell %q: standard error %q does not mention %q", args, stderr, m)
+			}
+		}
+	}
+}

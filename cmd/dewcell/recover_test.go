@@ -171,10 +171,7 @@ func TestRecoverFormats(t *testing.T) {
 
 func TestRecoverBadInput(t *testing.T) {
 	noAbandon := exampleVariant(t, "", "abandonment_pressure = \"800 psia\"\n", "")
-	cases := []struct {
-		args []string
-		msg  []string
-	}{
+	cases := []badInputCase{
 		{[]string{"--pressures", "3000 psia, 3500 psia", exampleStudy}, []string{"--pressures: item 2", "not below the pressure before it"}},
 		{[]string{"--pressures", "5000 psia", exampleStudy}, []string{"--pressures: item 1", "reservoir.initial_pressure", exampleStudy}},
 		{[]string{"--pressures", "3000 psia, 500 psia", exampleStudy}, []string{"--pressures: item 2", "reservoir.abandonment_pressure"}},
@@ -183,18 +180,7 @@ func TestRecoverBadInput(t *testing.T) {
 		{[]string{"--steps", "3", "--pressures", "3000 psia", exampleStudy}, []string{"--pressures and --steps"}},
 		{[]string{noAbandon}, []string{noAbandon, "reservoir.abandonment_pressure", "missing"}},
 	}
-	for _, c := range cases {
-		args := append([]string{"recover"}, c.args...)
-		code, stdout, stderr := dewcell(args...)
-		if code != 2 || stdout != "" {
-			t.Errorf("dewcell %q: exit %d, stdout %q; want 2 and nothing\nstderr: %s", args, code, stdout, stderr)
-		}
-		for _, m := range c.msg {
-			if !strings.Contains(stderr, m) {
-				t.Errorf("dewcell %q: standard error %q does not mention %q", args, stderr, m)
-			}
-		}
-	}
+	checkBadInput(t, "recover", cases)
 }
 
 // decodeJSON decodes a JSON report, failing on a key given twice at its top
