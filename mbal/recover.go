@@ -75,6 +75,11 @@ func Recover(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, o RecoverOpt
 	if !(r.Abandonment > 0) {
 		return nil, fmt.Errorf("%w: abandonment pressure %g Pa, want above zero for a recovery", ErrBadReservoir, r.Abandonment)
 	}
+	for k, p := range o.Pressures {
+		if p < r.Abandonment {
+			return nil, fmt.Errorf("%w: recovery pressure %d (%.6g Pa) is below the abandonment pressure %.6g Pa", ErrBadReservoir, k+1, p, r.Abandonment)
+		}
+	}
 	steps := o.Steps
 	if steps == 0 {
 		steps = 10

@@ -166,6 +166,9 @@ func TestReservoirChecks(t *testing.T) {
 			t.Errorf("%+v: err = %v, want ErrBadReservoir", r, err)
 		}
 	}
+	if _, err := Recover(fl, z, field640, rTrain, RecoverOptions{Pressures: []float64{3000 * rPsi, 500 * rPsi}}); !errors.Is(err, ErrBadReservoir) {
+		t.Errorf("a recovery pressure below abandonment: err = %v, want ErrBadReservoir", err)
+	}
 	r := field640
 	r.Pi = 2000 * rPsi // below the dew point
 	if _, err := InPlaceEOS(fl, z, r, rTrain, nil); !errors.Is(err, ErrInitiallyTwoPhase) {
