@@ -32,10 +32,15 @@ type Reservoir struct {
 const DefaultSc = 0.15
 
 // ErrBadReservoir reports an invalid Reservoir; ErrInitiallyTwoPhase a
-// reservoir whose initial pressure lies below the fluid's saturation pressure.
+// reservoir whose initial pressure lies below the fluid's saturation
+// pressure.
 var (
 	ErrBadReservoir      = errors.New("mbal: invalid reservoir description")
 	ErrInitiallyTwoPhase = errors.New("mbal: the initial pressure is below the saturation pressure")
+	// ErrNotCondensate: the fluid has a bubble point at reservoir
+	// temperature. It is an oil, whose liquid is the mobile phase; the
+	// depletion model of a gas-condensate reservoir does not apply.
+	ErrNotCondensate = errors.New("mbal: the fluid is an oil (bubble point at reservoir temperature), not a gas condensate")
 )
 
 func (r Reservoir) sc() float64 {

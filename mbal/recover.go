@@ -66,7 +66,8 @@ type Recovery struct {
 // (1 − Sw); with o.MobileLiquid the liquid above the critical saturation is
 // produced with the gas.
 //
-// Special cases: as InPlaceEOS and cvd.Deplete.
+// Special cases: as InPlaceEOS and cvd.Deplete; a fluid with a bubble point
+// at the reservoir temperature: ErrNotCondensate.
 func Recover(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, o RecoverOptions) (*Recovery, error) {
 	ip, err := InPlaceEOS(fl, z, r, tr, o.Settings)
 	if err != nil {
@@ -98,6 +99,9 @@ func Recover(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, o RecoverOpt
 	d, err := cvd.Deplete(fl, z, r.T, dopt)
 	if err != nil {
 		return nil, err
+	}
+	if d.Dew.Type == eos.Bubble {
+		return nil, fmt.Errorf("%w: bubble point %.6g Pa at %.6g K", ErrNotCondensate, d.Dew.P, r.T)
 	}
 	rec := &Recovery{InPlace: ip, Depletion: d}
 	n := ip.Moles

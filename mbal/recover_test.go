@@ -222,3 +222,26 @@ func TestHistoryFitRecoversModel(t *testing.T) {
 		t.Errorf("noise does not show: interval %g -> %g, error %g", fit.GHigh-fit.GLow, nfit.GHigh-nfit.GLow, nfit.G/G-1)
 	}
 }
+
+// TestRecoverRefusesOil: a fluid with a bubble point is an oil; the
+// condensate model, which leaves the liquid in the rock, does not apply.
+func TestRecoverRefusesOil(t *testing.T) {
+	var comps []eos.Component
+	for _, nm := range []string{"C1", "C3", "nC6"} {
+		c, _ := eos.LibraryComponent(nm)
+		comps = append(comps, c)
+	}
+	dec, _ := eos.LibraryComponent("nC6")
+	dec.Name, dec.M, dec.Tc, dec.Pc, dec.Omega = "P1", 0.240, 780, 1.6e6, 0.7 // an invented heavy pseudo-component
+	comps = append(comps, dec)
+	fl, err := eos.NewFluid(comps, nil, eos.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	z := []float64{0.35, 0.10, 0.15, 0.40}
+	r := field640
+	r.Pi, r.Abandonment = 5000*rPsi, 500*rPsi
+	if _, err := Recover(fl, z, r, rTrain, RecoverOptions{Steps: 4}); !errors.Is(err, ErrNotCondensate) {
+		t.Errorf("oil: err = %v, want ErrNotCondensate", err)
+	}
+}
