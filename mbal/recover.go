@@ -101,7 +101,7 @@ func Recover(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, o RecoverOpt
 		return nil, err
 	}
 	if d.Dew.Type == eos.Bubble {
-		return nil, fmt.Errorf("%w: bubble point %.6g Pa at %.6g K", ErrNotCondensate, d.Dew.P, r.T)
+		return nil, fmt.Errorf("%w; its saturation point is where it starts to release gas (see the satpoint command)", ErrNotCondensate)
 	}
 	rec := &Recovery{InPlace: ip, Depletion: d}
 	n := ip.Moles
