@@ -145,7 +145,12 @@ func missing(v any) bool {
 	return v == nil || isFloat && math.IsNaN(f)
 }
 
-// cellText formats a cell for CSV: numbers in full precision.
+// machineDigits is the precision of numbers in CSV and JSON: 15 significant
+// digits, every digit a float64 carries reliably, which drops the round-off
+// of unit conversions (248.00000000000006 °F prints as 248).
+const machineDigits = 15
+
+// cellText formats a cell for CSV: numbers to machineDigits.
 func cellText(v any) string {
 	switch x := v.(type) {
 	case nil:
@@ -160,7 +165,7 @@ func cellText(v any) string {
 		if math.IsNaN(x) {
 			return ""
 		}
-		return strconv.FormatFloat(x, 'g', -1, 64)
+		return strconv.FormatFloat(x, 'g', machineDigits, 64)
 	}
 	panic(fmt.Sprintf("render: cell of type %T", v)) // a command built a bad Report
 }
@@ -200,7 +205,7 @@ func appendValue(b *bytes.Buffer, v any) {
 			b.WriteString("null")
 			return
 		}
-		b.WriteString(strconv.FormatFloat(x, 'g', -1, 64))
+		b.WriteString(strconv.FormatFloat(x, 'g', machineDigits, 64))
 	case nil:
 		b.WriteString("null")
 	default:
