@@ -340,3 +340,24 @@ func TestDepleteFormats(t *testing.T) {
 		}
 	}
 }
+
+// TestDepleteExampleRevaporizes: the bundled example condensate shows what
+// every gas-condensate CVD report shows (common practice, no published
+// source): no liquid at the dew point, a dropout maximum inside the pressure
+// range, and revaporization below it.
+func TestDepleteExampleRevaporizes(t *testing.T) {
+	doc := runJSON(t, "deplete", exampleStudy)
+	steps := rows(t, doc, "steps")
+	first, last := steps[0], steps[len(steps)-1]
+	maxP := doc["max_dropout_pressure_psia"].(float64)
+	maxD := doc["max_liquid_dropout_pct"].(float64)
+	if first["liquid_dropout_pct"].(float64) != 0 {
+		t.Errorf("dropout at the dew point = %v, want 0", first["liquid_dropout_pct"])
+	}
+	if !(maxP < first["pressure_psia"].(float64) && maxP > last["pressure_psia"].(float64)) {
+		t.Errorf("maximum dropout at %g psia, outside the depletion's range", maxP)
+	}
+	if d := last["liquid_dropout_pct"].(float64); !(d < maxD) {
+		t.Errorf("dropout at abandonment %g %% not below the maximum %g %%: no revaporization", d, maxD)
+	}
+}
