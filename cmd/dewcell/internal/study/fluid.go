@@ -278,8 +278,11 @@ func (r *reader) plus(f *fileFluid, specs []spec) plusSpec {
 	ps.p.FirstCarbon = first
 	eta := float64(14*first - 6) // g/mol, the default minimum molar mass (Whitson, 1983)
 
-	split := r.choice("fluid.plus.split", fp.Split, "gamma", "gamma", "exponential", "none")
+	split := r.choice("fluid.plus.split", fp.Split, "gamma", "gamma", "gamma-quadrature", "exponential", "none")
+	gamma := split == "gamma" || split == "gamma-quadrature"
 	switch split {
+	case "gamma-quadrature":
+		ps.c.Split = eos.SplitGammaQuadrature
 	case "exponential":
 		ps.c.Split = eos.SplitExponential
 	case "none":
@@ -288,14 +291,14 @@ func (r *reader) plus(f *fileFluid, specs []spec) plusSpec {
 		ps.c.Split = eos.SplitGamma
 	}
 	if a, ok := r.between("fluid.plus.gamma_shape", fp.GammaShape, "the gamma shape alpha", false, 0, maxGamma, true, false); ok {
-		if split != "gamma" {
-			r.failf("fluid.plus.gamma_shape", "applies only with split = \"gamma\", not %q", split)
+		if !gamma {
+			r.failf("fluid.plus.gamma_shape", "applies only with split = \"gamma\" or \"gamma-quadrature\", not %q", split)
 		}
 		ps.c.Alpha = a
 	}
 	if e, ok := r.between("fluid.plus.minimum_molar_mass", fp.MinimumMolarMass, "the minimum molar mass in g/mol", false, 0, maxPlusMass, true, false); ok {
-		if split != "gamma" {
-			r.failf("fluid.plus.minimum_molar_mass", "applies only with split = \"gamma\", not %q", split)
+		if !gamma {
+			r.failf("fluid.plus.minimum_molar_mass", "applies only with split = \"gamma\" or \"gamma-quadrature\", not %q", split)
 		}
 		ps.c.Eta = e / 1000
 		eta = e
@@ -306,9 +309,11 @@ func (r *reader) plus(f *fileFluid, specs []spec) plusSpec {
 		}
 		ps.c.Pseudo = n
 	}
-	switch r.choice("fluid.plus.correlation", fp.Correlation, "kesler-lee", "kesler-lee", "riazi-daubert", "twu") {
+	switch r.choice("fluid.plus.correlation", fp.Correlation, "kesler-lee", "kesler-lee", "riazi-daubert", "riazi-daubert-1987", "twu") {
 	case "riazi-daubert":
 		ps.c.Correlation = eos.RiaziDaubert
+	case "riazi-daubert-1987":
+		ps.c.Correlation = eos.RiaziDaubert1987
 	case "twu":
 		ps.c.Correlation = eos.Twu
 	default:

@@ -501,3 +501,31 @@ func TestExampleReads(t *testing.T) {
 		t.Errorf("example lacks initial pressure, two separator stages or depletion pressures: %+v", st)
 	}
 }
+
+// TestQuadratureSplitAndRD87: split = "gamma-quadrature" gives the number of
+// pseudo-components asked for, still holding the plus fraction's mole
+// fraction and molar mass (the properties the split must preserve, issue
+// "thermodynamic core"), and correlation = "riazi-daubert-1987" is accepted.
+func TestQuadratureSplitAndRD87(t *testing.T) {
+	data := edit(t, "specific_gravity = 0.795", "specific_gravity = 0.795\nsplit = \"gamma-quadrature\"\npseudo_components = 3\ncorrelation = \"riazi-daubert-1987\"")
+	st, err := Parse("quad.toml", []byte(data))
+	if err != nil {
+		t.Fatal(err)
+	}
+	fl := st.Fluid
+	if fl.N() != 6+3 {
+		t.Fatalf("%d components, want 6 defined + 3 quadrature pseudo-components", fl.N())
+	}
+	zPlus, mass := 0.0, 0.0
+	for i := 6; i < fl.N(); i++ {
+		zPlus += st.Z[i]
+		mass += st.Z[i] * fl.Component(i).M
+	}
+	if math.Abs(zPlus-0.08) > 1e-14 || math.Abs(mass/zPlus-0.143) > 1e-12 {
+		t.Errorf("quadrature pseudo-components hold %.15g at %.12g kg/mol, want 0.08 at 0.143", zPlus, mass/zPlus)
+	}
+	data = edit(t, "specific_gravity = 0.795", "specific_gravity = 0.795\nsplit = \"exponential\"\ngamma_shape = 2")
+	if _, err := Parse("bad.toml", []byte(data)); err == nil || !strings.Contains(err.Error(), "fluid.plus.gamma_shape") {
+		t.Errorf("gamma_shape with an exponential split: err = %v", err)
+	}
+}
