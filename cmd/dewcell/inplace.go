@@ -212,14 +212,23 @@ func inPlaceReportOf(st *study.Study, sys units.System, tr cvd.Train, res mbal.R
 		},
 	}
 	r.Fields = append(r.Fields, standardFields(tr, sys)...)
+	// inPlace gives the three volumes in place, in total and per bulk volume,
+	// under keys that start with prefix.
+	inPlace := func(prefix string, wet, sales, cond float64) []Field {
+		return []Field{
+			{Column{Name: prefix + "wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(wet)},
+			{Column{Name: prefix + "sales_gas_in_place", Unit: u.gas}, u.gas.FromSI(sales)},
+			{Column{Name: prefix + "condensate_in_place", Unit: u.liquid}, u.liquid.FromSI(cond)},
+			{Column{Name: prefix + "wet_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, wet, bulk)},
+			{Column{Name: prefix + "sales_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, sales, bulk)},
+			{Column{Name: prefix + "condensate_in_place", Unit: u.liqBulk}, perBulk(u.liqBulk, cond, bulk)},
+		}
+	}
 	r.Fields = append(r.Fields,
 		Field{Column{Name: "z_initial"}, ip.Z},
-		Field{Column{Name: "wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(ip.WetGas)},
-		Field{Column{Name: "sales_gas_in_place", Unit: u.gas}, u.gas.FromSI(ip.SalesGas)},
-		Field{Column{Name: "condensate_in_place", Unit: u.liquid}, u.liquid.FromSI(ip.Condensate)},
-		Field{Column{Name: "wet_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, ip.WetGas, bulk)},
-		Field{Column{Name: "sales_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, ip.SalesGas, bulk)},
-		Field{Column{Name: "condensate_in_place", Unit: u.liqBulk}, perBulk(u.liqBulk, ip.Condensate, bulk)},
+	)
+	r.Fields = append(r.Fields, inPlace("", ip.WetGas, ip.SalesGas, ip.Condensate)...)
+	r.Fields = append(r.Fields,
 		Field{Column{Name: "gor", Unit: su.gor.Unit}, su.gor.of(ip.Surface.GOR)},
 		Field{Column{Name: "cgr", Unit: su.cgr.Unit}, su.cgr.of(ip.Surface.CGR)},
 		Field{Column{Name: "stock_tank_oil_density", Unit: dU}, finite(dU.FromSI(ip.Surface.OilDensity))},
@@ -264,12 +273,9 @@ func inPlaceReportOf(st *study.Study, sys units.System, tr cvd.Train, res mbal.R
 	}
 	r.Fields = append(r.Fields,
 		Field{Column{Name: "quick_look_z"}, q.Z},
-		Field{Column{Name: "quick_look_wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(q.WetGas)},
-		Field{Column{Name: "quick_look_sales_gas_in_place", Unit: u.gas}, u.gas.FromSI(q.SalesGas)},
-		Field{Column{Name: "quick_look_condensate_in_place", Unit: u.liquid}, u.liquid.FromSI(q.Condensate)},
-		Field{Column{Name: "quick_look_wet_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, q.WetGas, bulk)},
-		Field{Column{Name: "quick_look_sales_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, q.SalesGas, bulk)},
-		Field{Column{Name: "quick_look_condensate_in_place", Unit: u.liqBulk}, perBulk(u.liqBulk, q.Condensate, bulk)},
+	)
+	r.Fields = append(r.Fields, inPlace("quick_look_", q.WetGas, q.SalesGas, q.Condensate)...)
+	r.Fields = append(r.Fields,
 		Field{Column{Name: "quick_look_dry_gas_fraction"}, w.GasFraction},
 		Field{Column{Name: "quick_look_gor", Unit: su.gor.Unit}, su.gor.of(w.GOR)},
 		Field{Column{Name: "quick_look_surface_gas_gravity"}, w.GasGravity},
