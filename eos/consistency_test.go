@@ -379,3 +379,63 @@ func TestPhaseCompressibility(t *testing.T) {
 		t.Errorf("compressibility at 1 kPa times p = %g, want 1", comp*p)
 	}
 }
+
+// TestFlashFeedWithOnlyALiquidRoot: the well stream of a rich condensate with
+// a heavy tail, at stock-tank conditions (60 degF, 1 atm, the trade's standard
+// conditions). Its own cubic has a single, liquid, root, so the liquid-like
+// and the vapour-like stability trials both end on the same (vapour) stationary
+// point; the split must start from that point against the feed, not from the
+// ratio of the two trials (which is K = 1). The composition is the produced
+// gas of a CVD step of an invented condensate (C7+ of 210 g/mol, SG 0.8196,
+// three Gauss–Laguerre pseudo-components, Riazi–Daubert 1987) after a first
+// separator stage, the case that first showed the fault.
+func TestFlashFeedWithOnlyALiquidRoot(t *testing.T) {
+	var comps []Component
+	for _, nm := range []string{"N2", "CO2", "C1", "C2", "C3", "iC4", "nC4", "iC5", "nC5", "nC6"} {
+		c, ok := LibraryComponent(nm)
+		if !ok {
+			t.Fatal(nm)
+		}
+		comps = append(comps, c)
+	}
+	pcs, _, err := SplitPlus(PlusFraction{Name: "C7+", FirstCarbon: 7, Z: 0.070743, M: 0.21001, SG: 0.8196},
+		Characterization{Split: SplitGammaQuadrature, Alpha: 1, Pseudo: 3, Correlation: RiaziDaubert1987})
+	if err != nil {
+		t.Fatal(err)
+	}
+	comps = append(comps, pcs...)
+	fl, err := NewFluid(comps, DefaultKij(comps, ChuehPrausnitz{}), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	z := []float64{0.000296535, 0.0749836, 0.236550, 0.0684842, 0.121746, 0.0317982, 0.0329773,
+		0.0399805, 0.0213897, 0.0936183, 0.246628, 0.0305334, 0.00101447}
+	normalise(z)
+	T, P := degF(60), 101325.0
+	// the premise: the feed alone has one cubic root, a liquid
+	ts := newTState(fl.N())
+	fl.setT(&ts, T)
+	feed := newPhase(fl.N())
+	fl.evalPhase(&feed, &ts, P, z, rootMinG, 0)
+	if feed.label != Liquid {
+		t.Fatalf("premise: the feed's lone root is labelled %v, want liquid", feed.label)
+	}
+	var r FlashResult
+	if err := NewFlasher(fl, nil).Flash(&r, T, P, z); err != nil {
+		t.Fatal(err)
+	}
+	if r.Phases != 2 || !(r.Beta > 0.3 && r.Beta < 0.9) {
+		t.Fatalf("phases %d, vapour fraction %g; want two phases, mostly methane and CO2 in the gas", r.Phases, r.Beta)
+	}
+	pl, pv := newPhase(fl.N()), newPhase(fl.N())
+	fl.evalPhase(&pl, &ts, P, r.X, rootMinG, 0)
+	fl.evalPhase(&pv, &ts, P, r.Y, rootMinG, 0)
+	for i := range z {
+		if d := math.Abs(math.Log(r.X[i]) + pl.lnphi[i] - math.Log(r.Y[i]) - pv.lnphi[i]); d > 1e-10 {
+			t.Errorf("|ln fL - ln fV| of %s = %g", fl.Component(i).Name, d)
+		}
+	}
+	if tm := minTPD(fl, T, P, r.X); tm < tmUnstable {
+		t.Errorf("the liquid is not stable: tm = %g", tm)
+	}
+}

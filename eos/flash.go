@@ -52,7 +52,7 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 		w.single(dst, t, p, z, iter)
 		return nil
 	}
-	w.trialK(z, liq.unstable, vap.unstable)
+	w.trialK(z, liq, vap)
 	beta, it, res, ok := w.split(t, p, z, true)
 	iter += it
 	if !ok || !(beta > 0 && beta < 1) {
@@ -68,7 +68,7 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 			if !liq.unstable && !vap.unstable {
 				break
 			}
-			w.trialK(z, liq.unstable, vap.unstable)
+			w.trialK(z, liq, vap)
 			beta, it, res, ok = w.split(t, p, z, accel)
 			iter += it
 			if ok && beta > 0 && beta < 1 {
@@ -86,19 +86,49 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 
 // trialK sets w.lnK from the trial phase(s) of the last stability test that
 // showed instability: K = z/W_liquid, W_vapour/z, or W_vapour/W_liquid.
-func (w *work) trialK(z []float64, liq, vap bool) {
+//
+// Both trials can end on the same stationary point (deep inside the two-phase
+// region a feed can have a single, liquid, root, and the liquid-like trial
+// then also finds the vapour). W_vapour/W_liquid would then be the trivial
+// K = 1, so the point of lower tm is taken against the feed instead.
+func (w *work) trialK(z []float64, liq, vap trialResult) {
+	both := liq.unstable && vap.unstable
+	if both && sameTrial(z, w.wLiq, w.wVap) {
+		both = false
+		if liq.tm < vap.tm {
+			vap.unstable = false
+		} else {
+			liq.unstable = false
+		}
+	}
 	for i, zi := range z {
 		switch {
 		case zi == 0:
 			w.lnK[i] = 0
-		case liq && vap:
+		case both:
 			w.lnK[i] = math.Log(w.wVap[i] / w.wLiq[i])
-		case liq:
+		case liq.unstable:
 			w.lnK[i] = math.Log(zi / w.wLiq[i])
 		default:
 			w.lnK[i] = math.Log(w.wVap[i] / zi)
 		}
 	}
+}
+
+// sameTrial reports whether two trial phases (mole numbers, not normalised)
+// have the same composition to 1e-6 in every ln x_i.
+func sameTrial(z, a, b []float64) bool {
+	sa, sb := 0.0, 0.0
+	for i := range z {
+		sa += a[i]
+		sb += b[i]
+	}
+	for i, zi := range z {
+		if zi > 0 && math.Abs(math.Log(a[i]/sa)-math.Log(b[i]/sb)) > 1e-6 {
+			return false
+		}
+	}
+	return true
 }
 
 // split converges the two-phase split from w.lnK. It returns β, the

@@ -319,6 +319,18 @@ func TestCompositionOrderAndNormalisation(t *testing.T) {
 	}
 }
 
+// A sum off 100 only in the fourth decimal (a lab report rounded to 0.0001
+// mol %) is named with its digits, not rounded to "100".
+func TestCompositionSumWarningShowsDigits(t *testing.T) {
+	st, err := Parse("sum.toml", []byte(edit(t, "C1 = 74.0", "C1 = 74.0003")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(st.Warnings) != 1 || !strings.Contains(st.Warnings[0], "sums to 100.0003 mol%") {
+		t.Errorf("warnings %q, want one naming the 100.0003 mol%% sum", st.Warnings)
+	}
+}
+
 // Whitson (1983) splits conserve the plus fraction's moles and mass
 // (METHODS.md 3.1, "Constraints to test").
 func TestPlusSplit(t *testing.T) {
