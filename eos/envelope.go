@@ -184,6 +184,22 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 		if !accepted {
 			copy(e.x, prev)
 			e.past = passedCrit
+			kmax := 0.0
+			for i := 0; i < n; i++ {
+				if e.z[i] > 0 {
+					kmax = math.Max(kmax, math.Abs(e.x[i]))
+				}
+			}
+			if !passedCrit && kmax < envCritK {
+				// Every K within 10 % of 1 and no step across: where the
+				// trace meets the critical region almost tangentially (a
+				// very flat top with the critical point near the
+				// cricondenbar) the corrector can neither cross nor follow
+				// it. The points so far are converged; the critical point
+				// stays unknown.
+				env.Truncated, env.NearCritical = true, true
+				return e.finish(env, pts), nil
+			}
 			if passedCrit || e.x[n+1] < math.Log(0.9)+maxLnP {
 				// Past the critical point, or past the pressure maximum on the
 				// way down to a critical point at low temperature, the

@@ -117,3 +117,20 @@ func TestNoDewPointAboveCricondentherm(t *testing.T) {
 		t.Errorf("700 degF: err = %v, want ErrNoSaturation", err)
 	}
 }
+
+// SolveError names only what the solver measured.
+func TestSolveErrorMessage(t *testing.T) {
+	for _, c := range []struct {
+		e    SolveError
+		want string
+	}{
+		{SolveError{Op: "Flash", Iter: 36, Residual: 2.13e-5, Err: ErrNoConvergence}, "eos.Flash: iteration did not converge after 36 iterations (residual 2.13e-05)"},
+		{SolveError{Op: "Flash", Err: ErrBadState}, "eos.Flash: temperature or pressure not finite and positive"},
+		{SolveError{Op: "UpperSaturation", Iter: 712, Err: ErrNoSaturation}, "eos.UpperSaturation: no saturation point at this temperature after 712 iterations"},
+		{SolveError{Op: "Flash", Iter: 3, Residual: math.NaN(), Err: ErrNoConvergence}, "eos.Flash: iteration did not converge after 3 iterations"},
+	} {
+		if got := c.e.Error(); got != c.want {
+			t.Errorf("got %q, want %q", got, c.want)
+		}
+	}
+}

@@ -3,6 +3,7 @@ package eos
 import (
 	"math"
 	"math/rand"
+	"os"
 	"testing"
 )
 
@@ -46,6 +47,9 @@ func randomCondensate(tb testing.TB, rng *rand.Rand) (*Fluid, []float64) {
 func TestRandomCondensates(t *testing.T) {
 	rng := rand.New(rand.NewSource(7))
 	cases := 40
+	if os.Getenv("DEWCELL_LONG") != "" {
+		cases = 1000
+	}
 	if testing.Short() {
 		cases = 10
 	}
@@ -97,5 +101,64 @@ func TestRandomCondensates(t *testing.T) {
 		if math.IsNaN(env.Critical[0]) {
 			t.Errorf("case %d: NaN critical point", k)
 		}
+	}
+}
+
+// TestEnvelopeStopsShortOfAnUncrossableCriticalRegion: for this invented rich
+// condensate (heavy C7+ of 180 g/mol in five SCN groups up to C35+) the
+// dew branch climbs to a nearly flat top where every K is within 1 % of 1 but
+// the continuation can neither cross a critical point nor follow the curve.
+// The trace must end there as Truncated with its converged points, not fail,
+// and the points must still bound the saturation pressure found on its own.
+func TestEnvelopeStopsShortOfAnUncrossableCriticalRegion(t *testing.T) {
+	names := []string{"N2", "CO2", "C1", "C2", "C3", "iC4", "nC4", "iC5", "nC5", "nC6"}
+	pct := []float64{1.5314, 4.8369, 70.0333, 5.0497, 5.3579, 0.4391, 2.0659, 0.6103, 0.3529, 0.5161}
+	plus := 10.7947
+	total := plus
+	for _, v := range pct {
+		total += v
+	}
+	var comps []Component
+	var z []float64
+	for i, nm := range names {
+		c, _ := LibraryComponent(nm)
+		comps = append(comps, c)
+		z = append(z, pct[i]/total)
+	}
+	pcs, pz, err := SplitPlus(PlusFraction{Name: "C7+", FirstCarbon: 7, Z: plus / total, M: 0.18012, SG: 0.8063}, Characterization{Pseudo: 5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	comps = append(comps, pcs...)
+	z = append(z, pz...)
+	normalise(z)
+	fl, err := NewFluid(comps, DefaultKij(comps, ChuehPrausnitz{}), Options{VolumeShift: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	env, err := TraceEnvelope(fl, z, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("truncated %v, critical %v, %d points, cricondenbar %.1f psia at %.1f K", env.Truncated, env.HasCritical, len(env.Points), env.Cricondenbar[1]/psi, env.Cricondenbar[0])
+	if !env.Truncated || !env.NearCritical || env.HasCritical {
+		t.Fatalf("want the trace to stop short of the critical region (the case this test was written for); truncated %v, critical %v", env.Truncated, env.HasCritical)
+	}
+	last := env.Points[len(env.Points)-1]
+	for i, k := range last.K {
+		if math.Abs(math.Log(k)) > envCritK {
+			t.Errorf("last point: ln K of %s = %g, want within %g of 0 (close to the critical point)", fl.Component(i).Name, math.Log(k), envCritK)
+		}
+	}
+	T := degF(221.43)
+	up, err := UpperSaturation(fl, T, z, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if up.P > env.Cricondenbar[1]*(1+1e-3) {
+		t.Errorf("saturation pressure %g psia above the traced cricondenbar %g psia", up.P/psi, env.Cricondenbar[1]/psi)
+	}
+	if env.Cricondentherm[0] < T {
+		t.Errorf("cricondentherm %g K below a temperature with a saturation point, %g K", env.Cricondentherm[0], T)
 	}
 }

@@ -3,6 +3,7 @@ package eos
 import (
 	"errors"
 	"fmt"
+	"math"
 )
 
 // Sentinel errors of the iterative solvers. Solvers wrap them in *SolveError.
@@ -20,8 +21,18 @@ type SolveError struct {
 	Err      error   // ErrNoConvergence, ErrNoSaturation, ...
 }
 
+// Error names the iterations when some were made and the residual when one
+// was measured (finite and not zero): "eos.Flash: iteration did not converge
+// after 36 iterations (residual 2.13e-05)".
 func (e *SolveError) Error() string {
-	return fmt.Sprintf("eos.%s: %v after %d iterations (residual %.3g)", e.Op, e.Err, e.Iter, e.Residual)
+	msg := fmt.Sprintf("eos.%s: %v", e.Op, e.Err)
+	if e.Iter > 0 {
+		msg += fmt.Sprintf(" after %d iterations", e.Iter)
+	}
+	if e.Residual != 0 && !math.IsNaN(e.Residual) && !math.IsInf(e.Residual, 0) {
+		msg += fmt.Sprintf(" (residual %.3g)", e.Residual)
+	}
+	return msg
 }
 
 // Unwrap lets errors.Is(err, ErrNoConvergence) work.
@@ -129,10 +140,17 @@ type Envelope struct {
 	Critical       [2]float64 // T (K), P (Pa) of the critical point, when HasCritical
 	Cricondenbar   [2]float64 // T, P at the maximum pressure
 	Cricondentherm [2]float64 // T, P at the maximum temperature
-	// Truncated is set when the bubble branch ended before returning to low
-	// pressure because the continuation could not go on (at low temperature,
-	// typically where a liquid–liquid split takes over).
+	// Truncated is set when the trace ended before returning to low pressure
+	// because the continuation could not go on: on the bubble branch at low
+	// temperature, typically where a liquid–liquid split takes over; or on
+	// the dew branch within a few per cent of a critical point it could not
+	// cross (NearCritical; HasCritical is then false). Points holds the converged points up
+	// to there, and the cricondenbar and cricondentherm are the extremes of
+	// those points.
 	Truncated bool
+	// NearCritical is set with Truncated when the trace stopped on the dew
+	// branch with every K within 10 % of 1, short of a critical point.
+	NearCritical bool
 }
 
 // IncipientPhase is the phase that appears at the saturation point: liquid at

@@ -33,13 +33,18 @@ func envelopeReport(st *study.Study, sys units.System, withPoints bool) (*Report
 		return nil, nil, fmt.Errorf("phase envelope: %w", err)
 	}
 	var warnings []string
-	if !env.HasCritical {
+	tU, pU := sys.Unit(units.Temperature), sys.Unit(units.Pressure)
+	switch {
+	case env.NearCritical:
+		last := env.Points[len(env.Points)-1]
+		warnings = append(warnings, fmt.Sprintf("phase envelope: the trace stopped at %.6g %s and %.6g %s, within a few per cent of a critical point it could not cross; no critical point and no bubble branch are given, and the cricondenbar and cricondentherm are the extremes of the dew branch traced (the true cricondenbar can lie a little higher)",
+			tU.FromSI(last.T), tU.Symbol, pU.FromSI(last.P), pU.Symbol))
+	case !env.HasCritical:
 		warnings = append(warnings, "phase envelope: the trace reached no critical point; with a heavy tail the equation of state can turn the saturation curve up to high pressure at low temperature (a liquid-liquid region) instead")
 	}
-	if env.Truncated {
+	if env.Truncated && !env.NearCritical {
 		warnings = append(warnings, "phase envelope: the trace ended before returning to low pressure; the points given are converged saturation points")
 	}
-	tU, pU := sys.Unit(units.Temperature), sys.Unit(units.Pressure)
 	cols := []Column{{Name: "type"}, {Name: "temperature", Unit: tU}, {Name: "pressure", Unit: pU}}
 	row := func(kind string, t, p float64) []any { return []any{kind, tU.FromSI(t), pU.FromSI(p)} }
 	summary := Table{Name: "summary", Title: "critical point and extremes", Columns: cols}

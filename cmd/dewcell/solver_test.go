@@ -243,6 +243,49 @@ func TestEnvelopeO9(t *testing.T) {
 	}
 }
 
+// An envelope whose trace stops close to a critical point it cannot cross
+// (testdata/flat-top.toml, an invented rich condensate) is still a result:
+// exit 0, the converged dew branch, no critical row, and a warning that says
+// where the trace stopped and what is missing.
+func TestEnvelopeStopsNearCritical(t *testing.T) {
+	study := filepath.Join("testdata", "flat-top.toml")
+	code, out, stderr := dewcell("envelope", "--format", "json", study)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	if !strings.Contains(stderr, "within a few per cent of a critical point it could not cross") {
+		t.Errorf("stderr lacks the near-critical warning:\n%s", stderr)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	summary, _ := doc["summary"].([]any)
+	for _, r := range summary {
+		if r.(map[string]any)["type"] == "critical" {
+			t.Errorf("a critical point is reported: %v", r)
+		}
+	}
+	points, _ := doc["points"].([]any)
+	for _, r := range points {
+		if typ := r.(map[string]any)["type"]; typ != "dew" {
+			t.Errorf("a %v point on a trace that never crossed the critical point", typ)
+		}
+	}
+	// the saturation point at the reservoir temperature lies under the
+	// traced cricondenbar
+	sat := runJSON(t, "satpoint", study)
+	var bar float64
+	for _, r := range summary {
+		if row := r.(map[string]any); row["type"] == "cricondenbar" {
+			bar, _ = row["pressure_psia"].(float64)
+		}
+	}
+	if dew := num(t, sat, "upper_dew_pressure_psia"); !(dew < bar) {
+		t.Errorf("dew point %g psia not below the traced cricondenbar %g psia", dew, bar)
+	}
+}
+
 func TestDemo(t *testing.T) {
 	code, out, stderr := dewcell("demo", "--dir", filepath.Join(t.TempDir(), "demo"))
 	if code != 0 {
