@@ -37,6 +37,32 @@ func TestRachfordRice(t *testing.T) {
 	}
 }
 
+// A loose Rachford–Rice tolerance must still resolve the amount of a phase
+// of 1e-7 mol/mol: a heavy component's K (here 1e-9) can be smaller than that
+// amount, and its liquid mole fraction z/((1 − β) + βK) is then set by 1 − β.
+// The split is constructed, so the answer is known: x = (0.2, 0.3, 0.5),
+// K = (4.25 − 2.5e-9, 0.5, 1e-9) so that Σ K x = 1, and 1 − β = 1e-7.
+func TestRachfordRiceTinyPhase(t *testing.T) {
+	x := []float64{0.2, 0.3, 0.5}
+	K := []float64{(0.85 - 5e-10) / 0.2, 0.5, 1e-9}
+	const L = 1e-7
+	z := make([]float64, 3)
+	for i := range z {
+		z[i] = L*x[i] + (1-L)*K[i]*x[i]
+	}
+	for _, rtol := range []float64{1e-14, 1e-6} {
+		beta := rachfordRiceTol(z, K, 0.5, rtol)
+		if got := 1 - beta; math.Abs(got-L) > 1e-6*L {
+			t.Errorf("rtol %g: 1 - beta = %.10g, want %.10g within 1e-6 relative", rtol, got, L)
+		}
+		xs, ys := make([]float64, 3), make([]float64, 3)
+		rrPhases(z, K, beta, xs, ys)
+		if math.Abs(xs[2]-x[2]) > 1e-5 {
+			t.Errorf("rtol %g: heavy liquid fraction %.10g, want %.10g", rtol, xs[2], x[2])
+		}
+	}
+}
+
 // TestWilson against the `chemicals` Wilson_K_value doc-test (METHODS C2):
 // ethane at 270 K and 76 bar, K = 0.2963932297 with the 5.37 coefficient.
 // dewcell uses 5.373; the test recomputes the published case with 5.37 by

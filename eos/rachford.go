@@ -20,8 +20,10 @@ func rachfordRice(z, K []float64, guess float64) float64 {
 }
 
 // rachfordRiceTol is rachfordRice stopping when the Newton step is below
-// rtol relative to β: the successive substitution of a flash far from its
-// solution does not need β to the last digit.
+// rtol relative to the smaller of |β| and |1 − β|: the successive
+// substitution of a flash far from its solution does not need β to the last
+// digit, but close to a saturation point the amount of the incipient phase
+// must be resolved, since a heavy component's K can be as small as that amount.
 func rachfordRiceTol(z, K []float64, guess, rtol float64) float64 {
 	kmin, kmax := math.Inf(1), math.Inf(-1)
 	for i, zi := range z {
@@ -55,7 +57,7 @@ func rachfordRiceTol(z, K []float64, guess, rtol float64) float64 {
 			hi = beta
 		}
 		step := g / dg
-		if math.Abs(step) <= rtol*math.Abs(beta)+1e-16 {
+		if math.Abs(step) <= rtol*math.Min(math.Abs(beta), math.Abs(1-beta))+1e-16 {
 			return beta - step
 		}
 		next := beta - step

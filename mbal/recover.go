@@ -36,7 +36,8 @@ type RecoveryStep struct {
 	Z2 float64 // two-phase Z of the reservoir contents
 	PZ float64 // p/Z2, Pa
 	// So is the condensate saturation, liquid dropout × (1 − Sw), a fraction
-	// of the pore volume; Mobile says it exceeds the critical saturation.
+	// of the pore volume; Mobile says it exceeds the critical saturation (or,
+	// with mobile liquid, that liquid above it flowed at this step).
 	So     float64
 	Mobile bool
 
@@ -128,7 +129,9 @@ func Recover(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, o RecoverOpt
 		if ip.Condensate > 0 {
 			rs.CondensateRF = rs.Condensate / ip.Condensate
 		}
-		rs.Mobile = rs.So > r.sc()
+		// with mobile liquid the saturation sits on the critical one, to
+		// round-off, where liquid flows
+		rs.Mobile = rs.So > r.sc() || s.LiquidOut > 0
 		if rs.Mobile && rec.CriticalP == 0 {
 			rec.CriticalP = s.P
 		}

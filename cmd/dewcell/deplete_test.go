@@ -361,3 +361,36 @@ func TestDepleteExampleRevaporizes(t *testing.T) {
 		t.Errorf("dropout at abandonment %g %% not below the maximum %g %%: no revaporization", d, maxD)
 	}
 }
+
+// TestDepleteCrossesLowerDewPoint: an invented lean condensate 2 degF below
+// its cricondentherm (testdata/lean-near-cricondentherm.toml). Its depletion
+// condenses a trace of liquid and then crosses the lower dew point, below
+// which the liquid revaporizes completely (single-phase gas again, as the
+// phase envelope requires below the lower dew point); near there the cell's
+// flashes split off liquid fractions of 1e-8 to 1e-7, which must converge.
+func TestDepleteCrossesLowerDewPoint(t *testing.T) {
+	doc := runJSON(t, "deplete", filepath.Join("testdata", "lean-near-cricondentherm.toml"))
+	steps := rows(t, doc, "steps")
+	wet := 0
+	prev := -1.0
+	for _, s := range steps {
+		d := s["liquid_dropout_pct"].(float64)
+		if d > 0 {
+			wet++
+		}
+		if pp := s["produced_pct"].(float64); !(pp >= prev) {
+			t.Errorf("cumulative produced moles fall to %g %% at %v psia", pp, s["pressure_psia"])
+		} else {
+			prev = pp
+		}
+	}
+	if wet == 0 {
+		t.Fatal("no step holds liquid: the case no longer crosses the two-phase region")
+	}
+	if d := steps[len(steps)-1]["liquid_dropout_pct"].(float64); d != 0 {
+		t.Errorf("dropout at abandonment %g %%, want 0 below the lower dew point", d)
+	}
+	if steps[len(steps)-2]["liquid_dropout_pct"].(float64) != 0 {
+		t.Errorf("the last two steps should both lie below the lower dew point")
+	}
+}

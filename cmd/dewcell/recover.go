@@ -131,10 +131,17 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 	pU, cU := u.press, sys.Unit(units.Compressibility)
 	ip := rec.InPlace
 	last := rec.Steps[len(rec.Steps)-1]
+	// The maximum and the highest pressure where it is reached: with mobile
+	// liquid the saturation stays on the critical one for many steps, equal
+	// to the last bits, and the plateau is reported where it begins.
 	maxSo, maxSoP := 0.0, 0.0
 	for _, s := range rec.Steps {
-		if s.So > maxSo {
-			maxSo, maxSoP = s.So, s.P
+		maxSo = math.Max(maxSo, s.So)
+	}
+	for _, s := range rec.Steps {
+		if maxSo > 0 && s.So >= maxSo*(1-1e-9) {
+			maxSoP = s.P
+			break
 		}
 	}
 	model := "immobile condensate: the retrograde liquid stays in the rock (lower bound of condensate recovery)"
