@@ -1,6 +1,7 @@
 package eos
 
 import (
+	"errors"
 	"math"
 	"testing"
 )
@@ -336,23 +337,70 @@ func TestFlashAllocs(t *testing.T) {
 // is a few percent of the pressure wide, narrower than one step of the
 // pressure scan; the upper and lower dew points must still be found on either
 // side of the cricondentherm pressure.
+//
+// From 0.1 K down to 0.0001 K below it: the last ones are hotter than every
+// traced point, where the window of two phases is a fraction of a per cent
+// wide. 0.001 K above it there is no saturation point: the cricondentherm is
+// solved on the envelope, not interpolated along the trace.
 func TestNearCricondentherm(t *testing.T) {
+	fluids := []struct {
+		name string
+		fl   *Fluid
+		z    []float64
+	}{}
 	fl, z := o9Fluid(false)
-	env, err := TraceEnvelope(fl, z, nil)
-	if err != nil {
-		t.Fatal(err)
+	fluids = append(fluids, struct {
+		name string
+		fl   *Fluid
+		z    []float64
+	}{"O9", fl, z})
+	for _, bc := range benchCases(t) {
+		fluids = append(fluids, struct {
+			name string
+			fl   *Fluid
+			z    []float64
+		}{bc.name, bc.fl, bc.z})
 	}
-	T, pct := env.Cricondentherm[0]-0.1, env.Cricondentherm[1]
-	up, err := UpperSaturation(fl, T, z, nil)
-	if err != nil {
-		t.Fatalf("upper dew point 0.1 K below the cricondentherm: %v", err)
-	}
-	lo, err := LowerDewPoint(fl, T, z, up.P, nil)
-	if err != nil {
-		t.Fatalf("lower dew point 0.1 K below the cricondentherm: %v", err)
-	}
-	if !(up.P > pct && lo.P < pct && up.P < 1.2*pct && lo.P > 0.8*pct) {
-		t.Errorf("dew points %g and %g psia do not straddle the cricondentherm pressure %g psia", up.P/psi, lo.P/psi, pct/psi)
+	for _, c := range fluids {
+		env, err := TraceEnvelope(c.fl, c.z, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		hottest := 0.0
+		for _, pt := range env.Points {
+			hottest = math.Max(hottest, pt.T)
+		}
+		pct := env.Cricondentherm[1]
+		f := NewFlasher(c.fl, nil)
+		var r FlashResult
+		if _, err := UpperSaturation(c.fl, env.Cricondentherm[0]+0.001, c.z, nil); !errors.Is(err, ErrNoSaturation) {
+			t.Errorf("%s: 0.001 K above the cricondentherm: %v, want no saturation point", c.name, err)
+		}
+		for _, dT := range []float64{0.1, 0.01, 0.001, 0.0001} {
+			T := env.Cricondentherm[0] - dT
+			up, err := UpperSaturation(c.fl, T, c.z, nil)
+			if err != nil {
+				t.Errorf("%s: upper dew point %g K below the cricondentherm (hottest traced point %g K below): %v", c.name, dT, env.Cricondentherm[0]-hottest, err)
+				continue
+			}
+			lo, err := LowerDewPoint(c.fl, T, c.z, up.P, nil)
+			if err != nil {
+				t.Errorf("%s: lower dew point %g K below the cricondentherm: %v", c.name, dT, err)
+				continue
+			}
+			if !(up.P > pct && lo.P < pct && up.P < 1.2*pct && lo.P > 0.8*pct) {
+				t.Errorf("%s, %g K below: dew points %g and %g psia do not straddle the cricondentherm pressure %g psia", c.name, dT, up.P/psi, lo.P/psi, pct/psi)
+			}
+			// between them two phases, outside one
+			if err := f.Flash(&r, T, math.Sqrt(up.P*lo.P), c.z); err != nil || r.Phases != 2 {
+				t.Errorf("%s, %g K below: between the dew points %d phases (%v)", c.name, dT, r.Phases, err)
+			}
+			for _, p := range []float64{up.P * 1.001, lo.P * 0.999} {
+				if err := f.Flash(&r, T, p, c.z); err != nil || r.Phases != 1 {
+					t.Errorf("%s, %g K below: %d phases at %g psia, outside the dew points (%v)", c.name, dT, r.Phases, p/psi, err)
+				}
+			}
+		}
 	}
 }
 
@@ -437,5 +485,48 @@ func TestFlashFeedWithOnlyALiquidRoot(t *testing.T) {
 	}
 	if tm := minTPD(fl, T, P, r.X); tm < tmUnstable {
 		t.Errorf("the liquid is not stable: tm = %g", tm)
+	}
+}
+
+// TestCricondenbarIsTheHighestSaturationPressure: the saturation pressure at
+// the cricondenbar's temperature is the cricondenbar pressure, and 1 K to
+// either side it is lower (the definition of the cricondenbar). Solved on the
+// envelope, it agrees with the saturation solver to its tolerance.
+func TestCricondenbarIsTheHighestSaturationPressure(t *testing.T) {
+	fl, z := o9Fluid(false)
+	cases := []struct {
+		name string
+		fl   *Fluid
+		z    []float64
+	}{{"O9", fl, z}}
+	for _, bc := range benchCases(t) {
+		cases = append(cases, struct {
+			name string
+			fl   *Fluid
+			z    []float64
+		}{bc.name, bc.fl, bc.z})
+	}
+	for _, c := range cases {
+		env, err := TraceEnvelope(c.fl, c.z, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		tb, pb := env.Cricondenbar[0], env.Cricondenbar[1]
+		at, err := UpperSaturation(c.fl, tb, c.z, nil)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		if math.Abs(at.P-pb) > 1e-7*pb {
+			t.Errorf("%s: saturation pressure %.10g psia at the cricondenbar temperature, cricondenbar %.10g psia", c.name, at.P/psi, pb/psi)
+		}
+		for _, dT := range []float64{-1, 1} {
+			s, err := UpperSaturation(c.fl, tb+dT, c.z, nil)
+			if err != nil {
+				t.Fatalf("%s: %v", c.name, err)
+			}
+			if !(s.P < pb) {
+				t.Errorf("%s: saturation pressure %.10g psia at %+g K from the cricondenbar, above it (%.10g psia)", c.name, s.P/psi, dT, pb/psi)
+			}
+		}
 	}
 }

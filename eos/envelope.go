@@ -83,7 +83,7 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 	maxLnP := math.Inf(-1) // highest ln P before the critical point
 	var pts []envPoint
 	add := func() {
-		pts = append(pts, envPoint{x: append([]float64(nil), e.x...), dx: append([]float64(nil), e.dx...), spec: spec})
+		pts = append(pts, envPoint{x: append([]float64(nil), e.x...), dx: append([]float64(nil), e.dx...), spec: spec, past: e.past})
 		env.Points = append(env.Points, e.point())
 	}
 	// tangent at the first point, specification ln P increasing
@@ -250,6 +250,7 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 type envPoint struct {
 	x, dx []float64
 	spec  int
+	past  bool // beyond the critical point (see envTracer.past)
 }
 
 func scale(v []float64, c float64) {
@@ -509,9 +510,10 @@ func (e *envTracer) finish(env *Envelope, pts []envPoint) *Envelope {
 		return env
 	}
 	// The cricondentherm is the highest temperature traced; the cricondenbar
-	// the first pressure maximum, which the pressure falls well below
-	// afterwards (a bubble branch turning up at low temperature is not part
-	// of the vapour–liquid envelope's top).
+	// the first pressure maximum, which the pressure falls below by 2 %
+	// afterwards (where the saturation curve turns up again at low
+	// temperature, into a liquid–liquid region, that part is not the top of
+	// the vapour–liquid envelope).
 	iT, iP := 0, 0
 	for i, p := range pts {
 		if p.x[n] > pts[iT].x[n] {
@@ -521,7 +523,7 @@ func (e *envTracer) finish(env *Envelope, pts []envPoint) *Envelope {
 	for i, p := range pts {
 		if p.x[n+1] > pts[iP].x[n+1] {
 			iP = i
-		} else if p.x[n+1] < pts[iP].x[n+1]+math.Log(0.8) {
+		} else if p.x[n+1] < pts[iP].x[n+1]+math.Log(0.98) {
 			break
 		}
 	}
@@ -552,5 +554,69 @@ func (e *envTracer) finish(env *Envelope, pts []envPoint) *Envelope {
 	}
 	refine(iT, n, n+1, &env.Cricondentherm)
 	refine(iP, n+1, n, &env.Cricondenbar)
+	// then solve for each extreme on the envelope itself
+	if x, ok := e.extreme(pts, iT, n, n+1); ok {
+		env.Cricondentherm = [2]float64{math.Exp(x[n]), math.Exp(x[n+1])}
+	}
+	if x, ok := e.extreme(pts, iP, n+1, n); ok {
+		env.Cricondenbar = [2]float64{math.Exp(x[n]), math.Exp(x[n+1])}
+	}
 	return env
+}
+
+// extreme solves for the maximum of X_yv along the envelope near traced
+// point i, as the zero of the slope dX_yv/dX_sv, by the Illinois variant of
+// false position between the two neighbouring traced points whose slopes
+// bracket it; each trial point is an envelope point converged at fixed X_sv.
+// The interpolated extreme of the trace is off by up to about 0.01 K (or
+// the like in pressure), enough to put a temperature just below it outside
+// the two-phase region. It reports false, leaving the caller's estimate,
+// when no bracket is found or a corrector fails.
+func (e *envTracer) extreme(pts []envPoint, i, yv, sv int) ([]float64, bool) {
+	slope := func(p envPoint) float64 { return p.dx[yv] / p.dx[sv] }
+	for _, j := range []int{i - 1, i} {
+		if j < 0 || j+1 >= len(pts) {
+			continue
+		}
+		a, b := pts[j], pts[j+1]
+		if a.past != b.past || a.dx[sv] == 0 || b.dx[sv] == 0 || a.x[sv] == b.x[sv] {
+			continue
+		}
+		ga, gb := slope(a), slope(b)
+		if !(ga*gb < 0) {
+			continue
+		}
+		sa, sb := a.x[sv], b.x[sv]
+		side := 0
+		for it := 0; it < 60; it++ {
+			s := (sa*gb - sb*ga) / (gb - ga)
+			u := (s - a.x[sv]) / (b.x[sv] - a.x[sv])
+			for k := range e.x {
+				e.x[k] = a.x[k] + u*(b.x[k]-a.x[k])
+			}
+			e.past = a.past
+			if _, ok := e.correct(sv, s); !ok || !e.tangent(sv) {
+				return nil, false
+			}
+			g := e.dx[yv] / e.dx[sv]
+			if math.Abs(sb-sa) < 1e-13*math.Max(1, math.Abs(s)) || g == 0 {
+				return append([]float64(nil), e.x...), true
+			}
+			if g*ga > 0 {
+				sa, ga = s, g
+				if side == -1 {
+					gb /= 2
+				}
+				side = -1
+			} else {
+				sb, gb = s, g
+				if side == 1 {
+					ga /= 2
+				}
+				side = 1
+			}
+		}
+		return append([]float64(nil), e.x...), true
+	}
+	return nil, false
 }

@@ -103,26 +103,64 @@ func (s *Saturator) fromEnvelope(t float64, z []float64, iter int) (Saturation, 
 			cross = append(cross, math.Exp(math.Log(a.P)+u*(math.Log(b.P)-math.Log(a.P))))
 		}
 	}
+	var inside, top float64
 	if len(cross) == 0 {
-		return Saturation{}, none
-	}
-	top, next := 0.0, 0.0
-	for _, p := range cross {
-		if p > top {
-			top, next = p, top
-		} else if p > next {
-			next = p
+		// t lies between the hottest traced point and the interpolated
+		// cricondentherm: the two-phase window at t surrounds the
+		// cricondentherm's pressure, within a fraction of a per cent.
+		inside = w.unstableNear(env.Cricondentherm[1], z, &iter)
+		top = inside
+	} else {
+		next := 0.0
+		for _, p := range cross {
+			if p > top {
+				top, next = p, top
+			} else if p > next {
+				next = p
+			}
+		}
+		inside = top * 0.99
+		if next > 0 {
+			inside = math.Sqrt(top * next)
+		}
+		if w.stableAt(inside, z, &iter) {
+			inside = w.unstableNear(inside, z, &iter)
 		}
 	}
-	inside := top * 0.99
-	if next > 0 {
-		inside = math.Sqrt(top * next)
-	}
-	above := top * 1.01
-	if w.stableAt(inside, z, &iter) || !w.stableAt(above, z, &iter) {
+	if inside == 0 {
 		return Saturation{}, none
 	}
+	// the first stable pressure above the window, in steps of 1 % from
+	// the highest crossing
+	above := top
+	for k := 0; ; k++ {
+		if k == 60 {
+			return Saturation{}, none
+		}
+		above *= 1.01
+		if w.stableAt(above, z, &iter) {
+			break
+		}
+	}
 	return w.refine(t, z, inside, above, iter, "UpperSaturation")
+}
+
+// unstableNear returns a pressure within 10 % of p0 at which the feed is
+// unstable, trying p0 and then pressures ever further from it in steps of
+// 0.2 %; 0 when there is none.
+func (w *work) unstableNear(p0 float64, z []float64, iter *int) float64 {
+	for j := 0; j <= 50; j++ {
+		for _, sgn := range []float64{1, -1} {
+			p := p0 * math.Exp(sgn*0.002*float64(j))
+			if !w.stableAt(p, z, iter) {
+				return p
+			}
+			if j == 0 {
+				break
+			}
+		}
+	}
+	return 0
 }
 
 // Lower finds the lower dew point of z at t (K): the pressure below pUpper (an
@@ -136,9 +174,17 @@ func (s *Saturator) Lower(t float64, z []float64, pUpper float64) (Saturation, e
 	}
 	w.fl.setT(&w.ts, t)
 	iter := 0
-	// Start just inside the two-phase region below the upper point.
-	hi := pUpper * 0.995
-	if w.stableAt(hi, z, &iter) {
+	// Start just inside the two-phase region below the upper point; close
+	// to the cricondentherm the region is narrow, so come closer to the
+	// upper point until the feed is unstable.
+	hi := 0.0
+	for _, f := range []float64{0.995, 0.999, 0.9999, 0.99999, 0.999999} {
+		if !w.stableAt(pUpper*f, z, &iter) {
+			hi = pUpper * f
+			break
+		}
+	}
+	if hi == 0 {
 		return Saturation{}, &SolveError{Op: "LowerDewPoint", Iter: iter, Err: ErrNoSaturation}
 	}
 	lo := hi
