@@ -43,7 +43,9 @@ func envelopeReport(st *study.Study, sys units.System, withPoints bool) (*Report
 		warnings = append(warnings, "phase envelope: the trace reached no critical point; with a heavy tail the equation of state can turn the saturation curve up to high pressure at low temperature (a liquid-liquid region) instead")
 	}
 	if env.Truncated && !env.NearCritical {
-		warnings = append(warnings, "phase envelope: the trace ended before returning to low pressure; the points given are converged saturation points")
+		last := env.Points[len(env.Points)-1]
+		warnings = append(warnings, fmt.Sprintf("phase envelope: the trace ended at %.6g %s and %.6g %s before returning to low pressure; the points given are converged saturation points",
+			tU.FromSI(last.T), tU.Symbol, pU.FromSI(last.P), pU.Symbol))
 	}
 	cols := []Column{{Name: "type"}, {Name: "temperature", Unit: tU}, {Name: "pressure", Unit: pU}}
 	row := func(kind string, t, p float64) []any { return []any{kind, tU.FromSI(t), pU.FromSI(p)} }

@@ -286,6 +286,29 @@ func TestEnvelopeStopsNearCritical(t *testing.T) {
 	}
 }
 
+// The example's bubble branch turns up to high pressure at low temperature
+// (the trace stops there): the warning names the last point, which is the
+// last row of the points table.
+func TestEnvelopeTruncatedWarningNamesTheEnd(t *testing.T) {
+	code, out, stderr := dewcell("envelope", "--format", "json", exampleStudy)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	points, _ := doc["points"].([]any)
+	if len(points) == 0 {
+		t.Fatal("no points")
+	}
+	last := points[len(points)-1].(map[string]any)
+	want := fmt.Sprintf("the trace ended at %.6g degF and %.6g psia", last["temperature_degF"], last["pressure_psia"])
+	if !strings.Contains(stderr, want) {
+		t.Errorf("stderr lacks %q:\n%s", want, stderr)
+	}
+}
+
 func TestDemo(t *testing.T) {
 	code, out, stderr := dewcell("demo", "--dir", filepath.Join(t.TempDir(), "demo"))
 	if code != 0 {
