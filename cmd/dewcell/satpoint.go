@@ -36,12 +36,9 @@ func satpointCommand() *cli.Command {
 func satpointReport(st *study.Study, sys units.System, t float64) (*Report, eos.Saturation, error) {
 	tU, pU, dU := sys.Unit(units.Temperature), sys.Unit(units.Pressure), sys.Unit(units.Density)
 	at := fmt.Sprintf("%.6g %s", tU.FromSI(t), tU.Symbol)
-	up, err := eos.UpperSaturation(st.Fluid, t, st.Z, nil)
-	if errors.Is(err, eos.ErrNoSaturation) {
-		return nil, up, fmt.Errorf("no saturation point at %s: the fluid is one phase at every pressure there (is the temperature above the cricondentherm?): %w", at, err)
-	}
+	up, err := upperSaturation(st, sys, t)
 	if err != nil {
-		return nil, up, fmt.Errorf("saturation pressure at %s: %w", at, err)
+		return nil, up, err
 	}
 	low, err := eos.LowerDewPoint(st.Fluid, t, st.Z, up.P, nil)
 	hasLow := err == nil

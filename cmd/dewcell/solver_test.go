@@ -128,6 +128,22 @@ acentric_factor = 0.2002
 	return path
 }
 
+// When the saturation solver fails half a degree from the critical point
+// (testdata/near-critical.toml), the error says where the critical point is
+// and why; it exits 1 (a solver failure, not bad input) and writes nothing
+// to standard output.
+func TestSatpointNearCriticalError(t *testing.T) {
+	code, out, stderr := dewcell("satpoint", filepath.Join("testdata", "near-critical.toml"))
+	if code != 1 || out != "" {
+		t.Fatalf("exit %d, output %q; want exit 1 and no output", code, out)
+	}
+	for _, want := range []string{"0.5 degF from the critical point (51.3698 degF, 3917.7 psia)", "did not converge"} {
+		if !strings.Contains(stderr, want) {
+			t.Errorf("stderr lacks %q:\n%s", want, stderr)
+		}
+	}
+}
+
 func TestSatpointBinary(t *testing.T) {
 	// pr-open.md part B, "Saturation pressures" (psia, 10 digits).
 	cases := []struct {
