@@ -530,3 +530,71 @@ func TestCricondenbarIsTheHighestSaturationPressure(t *testing.T) {
 		}
 	}
 }
+
+// TestFlashJustBelowANearCriticalDewPoint: an invented rich condensate with
+// H2S (C7+ of 137 g/mol as one Riazi–Daubert 1987 pseudo-component, PR76)
+// 3 degF above its critical temperature. There the liquid dropout climbs
+// from nothing to about 30 % of the moles within 0.03 % below the dew
+// point, the Gibbs energy surface is nearly flat, and the Newton stage of
+// the flash drifted along it for 30 steps and then took a full step onto the
+// trivial solution (accepted because the residual had been small). Flashes
+// from 1e-4 to 3e-4 below the dew point must converge, split in two, and
+// lose vapour as the pressure falls.
+func TestFlashJustBelowANearCriticalDewPoint(t *testing.T) {
+	names := []string{"N2", "CO2", "H2S", "C1", "C2", "C3", "iC4", "nC4", "iC5", "nC5", "nC6"}
+	pct := []float64{0.2834, 1.9498, 3.1911, 67.6063, 7.8175, 3.0152, 0.4982, 2.2773, 0.9647, 1.1981, 0.4800}
+	const plus = 10.7182
+	var comps []Component
+	var z []float64
+	for i, nm := range names {
+		c, ok := LibraryComponent(nm)
+		if !ok {
+			t.Fatal(nm)
+		}
+		comps = append(comps, c)
+		z = append(z, pct[i])
+	}
+	pcs, pz, err := SplitPlus(PlusFraction{Name: "C7+", FirstCarbon: 7, Z: 1, M: 0.13722, SG: 0.7366},
+		Characterization{Split: SplitGammaQuadrature, Pseudo: 1, Correlation: RiaziDaubert1987})
+	if err != nil {
+		t.Fatal(err)
+	}
+	comps = append(comps, pcs...)
+	for _, v := range pz {
+		z = append(z, v*plus)
+	}
+	normalise(z)
+	fl, err := NewFluid(comps, DefaultKij(comps, ChuehPrausnitz{}), Options{Equation: PR76})
+	if err != nil {
+		t.Fatal(err)
+	}
+	T := degF(252.5651)
+	up, err := UpperSaturation(fl, T, z, nil)
+	if err != nil || up.Type != Dew {
+		t.Fatalf("dew point: %v, %v", up.Type, err)
+	}
+	f := NewFlasher(fl, nil)
+	var r FlashResult
+	prev := 1.0
+	for _, d := range []float64{1e-4, 1.5e-4, 2e-4, 3e-4} {
+		P := up.P * (1 - d)
+		if err := f.Flash(&r, T, P, z); err != nil {
+			t.Errorf("%g below the dew point: %v", d, err)
+			continue
+		}
+		if r.Phases != 2 || !(r.Beta < prev) {
+			t.Errorf("%g below the dew point: %d phases, vapour fraction %g (previous %g)", d, r.Phases, r.Beta, prev)
+		}
+		prev = r.Beta
+		pl, pv := newPhase(fl.N()), newPhase(fl.N())
+		ts := newTState(fl.N())
+		fl.setT(&ts, T)
+		fl.evalPhase(&pl, &ts, P, r.X, rootMinG, 0)
+		fl.evalPhase(&pv, &ts, P, r.Y, rootMinG, 0)
+		for i := range z {
+			if dd := math.Abs(math.Log(r.X[i]) + pl.lnphi[i] - math.Log(r.Y[i]) - pv.lnphi[i]); dd > 1e-10 {
+				t.Errorf("%g below: |ln fL - ln fV| of %s = %g", d, fl.Component(i).Name, dd)
+			}
+		}
+	}
+}

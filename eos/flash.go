@@ -351,7 +351,7 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 			Gn, resn, Vn, Ln := w.splitState(p, z)
 			// Close to the solution the change in G is below its round-off:
 			// there the full Newton step is taken.
-			if Gn <= G+1e-4*step*slope || res < 1e-6 {
+			if Gn <= G+1e-4*step*slope || res < 1e-6 && Gn <= G+1e-13*(1+math.Abs(G)) {
 				G, res, V, L = Gn, resn, Vn, Ln
 				accepted = true
 				break
