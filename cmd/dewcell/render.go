@@ -145,10 +145,12 @@ func missing(v any) bool {
 	return v == nil || isFloat && math.IsNaN(f)
 }
 
-// machineDigits is the precision of numbers in CSV and JSON: 15 significant
-// digits, every digit a float64 carries reliably, which drops the round-off
-// of unit conversions (248.00000000000006 °F prints as 248).
-const machineDigits = 15
+// machineDigits is the precision of numbers in CSV and JSON: 14 significant
+// digits, which drops the round-off of unit conversions (a temperature
+// converted to kelvin and back comes out 60.00000000000006 °F, which 15
+// digits would print as 60.0000000000001) and keeps far more digits than
+// any input or model supports.
+const machineDigits = 14
 
 // cellText formats a cell for CSV: numbers to machineDigits.
 func cellText(v any) string {
