@@ -105,8 +105,8 @@ func (s *Saturator) fromEnvelope(t float64, z []float64, iter int) (Saturation, 
 	}
 	var inside, top float64
 	if len(cross) == 0 {
-		// t lies between the hottest traced point and the interpolated
-		// cricondentherm: the two-phase window at t surrounds the
+		// t lies between the hottest traced point and the cricondentherm
+		// (solved on the envelope): the two-phase window at t surrounds the
 		// cricondentherm's pressure, within a fraction of a per cent.
 		inside = w.unstableNear(env.Cricondentherm[1], z, &iter)
 		top = inside

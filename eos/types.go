@@ -144,9 +144,9 @@ type Envelope struct {
 	// because the continuation could not go on: on the bubble branch at low
 	// temperature, typically where a liquid–liquid split takes over; or on
 	// the dew branch within a few per cent of a critical point it could not
-	// cross (NearCritical; HasCritical is then false). Points holds the converged points up
-	// to there, and the cricondenbar and cricondentherm are the extremes of
-	// those points.
+	// cross (NearCritical; HasCritical is then false). Points holds the
+	// converged points up to there, and the cricondenbar and cricondentherm
+	// are the extremes of those points.
 	Truncated bool
 	// NearCritical is set with Truncated when the trace stopped on the dew
 	// branch with every K within 10 % of 1, short of a critical point.
