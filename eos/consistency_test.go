@@ -343,25 +343,7 @@ func TestFlashAllocs(t *testing.T) {
 // wide. 0.001 K above it there is no saturation point: the cricondentherm is
 // solved on the envelope, not interpolated along the trace.
 func TestNearCricondentherm(t *testing.T) {
-	fluids := []struct {
-		name string
-		fl   *Fluid
-		z    []float64
-	}{}
-	fl, z := o9Fluid(false)
-	fluids = append(fluids, struct {
-		name string
-		fl   *Fluid
-		z    []float64
-	}{"O9", fl, z})
-	for _, bc := range benchCases(t) {
-		fluids = append(fluids, struct {
-			name string
-			fl   *Fluid
-			z    []float64
-		}{bc.name, bc.fl, bc.z})
-	}
-	for _, c := range fluids {
+	for _, c := range namedFluids(t) {
 		env, err := TraceEnvelope(c.fl, c.z, nil)
 		if err != nil {
 			t.Fatal(err)
@@ -438,24 +420,10 @@ func TestPhaseCompressibility(t *testing.T) {
 // three Gauss–Laguerre pseudo-components, Riazi–Daubert 1987) after a first
 // separator stage, the case that first showed the fault.
 func TestFlashFeedWithOnlyALiquidRoot(t *testing.T) {
-	var comps []Component
-	for _, nm := range []string{"N2", "CO2", "C1", "C2", "C3", "iC4", "nC4", "iC5", "nC5", "nC6"} {
-		c, ok := LibraryComponent(nm)
-		if !ok {
-			t.Fatal(nm)
-		}
-		comps = append(comps, c)
-	}
-	pcs, _, err := SplitPlus(PlusFraction{Name: "C7+", FirstCarbon: 7, Z: 0.070743, M: 0.21001, SG: 0.8196},
-		Characterization{Split: SplitGammaQuadrature, Alpha: 1, Pseudo: 3, Correlation: RiaziDaubert1987})
-	if err != nil {
-		t.Fatal(err)
-	}
-	comps = append(comps, pcs...)
-	fl, err := NewFluid(comps, DefaultKij(comps, ChuehPrausnitz{}), Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	// the fluid; its feed is replaced by the separator stream below
+	fl, _ := characterized(t, []string{"N2", "CO2", "C1", "C2", "C3", "iC4", "nC4", "iC5", "nC5", "nC6"}, make([]float64, 10), 1,
+		PlusFraction{Name: "C7+", FirstCarbon: 7, M: 0.21001, SG: 0.8196},
+		Characterization{Split: SplitGammaQuadrature, Alpha: 1, Pseudo: 3, Correlation: RiaziDaubert1987}, Options{})
 	z := []float64{0.000296535, 0.0749836, 0.236550, 0.0684842, 0.121746, 0.0317982, 0.0329773,
 		0.0399805, 0.0213897, 0.0936183, 0.246628, 0.0305334, 0.00101447}
 	normalise(z)
@@ -493,20 +461,7 @@ func TestFlashFeedWithOnlyALiquidRoot(t *testing.T) {
 // either side it is lower (the definition of the cricondenbar). Solved on the
 // envelope, it agrees with the saturation solver to its tolerance.
 func TestCricondenbarIsTheHighestSaturationPressure(t *testing.T) {
-	fl, z := o9Fluid(false)
-	cases := []struct {
-		name string
-		fl   *Fluid
-		z    []float64
-	}{{"O9", fl, z}}
-	for _, bc := range benchCases(t) {
-		cases = append(cases, struct {
-			name string
-			fl   *Fluid
-			z    []float64
-		}{bc.name, bc.fl, bc.z})
-	}
-	for _, c := range cases {
+	for _, c := range namedFluids(t) {
 		env, err := TraceEnvelope(c.fl, c.z, nil)
 		if err != nil {
 			t.Fatal(err)
@@ -543,31 +498,8 @@ func TestCricondenbarIsTheHighestSaturationPressure(t *testing.T) {
 func TestFlashJustBelowANearCriticalDewPoint(t *testing.T) {
 	names := []string{"N2", "CO2", "H2S", "C1", "C2", "C3", "iC4", "nC4", "iC5", "nC5", "nC6"}
 	pct := []float64{0.2834, 1.9498, 3.1911, 67.6063, 7.8175, 3.0152, 0.4982, 2.2773, 0.9647, 1.1981, 0.4800}
-	const plus = 10.7182
-	var comps []Component
-	var z []float64
-	for i, nm := range names {
-		c, ok := LibraryComponent(nm)
-		if !ok {
-			t.Fatal(nm)
-		}
-		comps = append(comps, c)
-		z = append(z, pct[i])
-	}
-	pcs, pz, err := SplitPlus(PlusFraction{Name: "C7+", FirstCarbon: 7, Z: 1, M: 0.13722, SG: 0.7366},
-		Characterization{Split: SplitGammaQuadrature, Pseudo: 1, Correlation: RiaziDaubert1987})
-	if err != nil {
-		t.Fatal(err)
-	}
-	comps = append(comps, pcs...)
-	for _, v := range pz {
-		z = append(z, v*plus)
-	}
-	normalise(z)
-	fl, err := NewFluid(comps, DefaultKij(comps, ChuehPrausnitz{}), Options{Equation: PR76})
-	if err != nil {
-		t.Fatal(err)
-	}
+	fl, z := characterized(t, names, pct, 10.7182, PlusFraction{Name: "C7+", FirstCarbon: 7, M: 0.13722, SG: 0.7366},
+		Characterization{Split: SplitGammaQuadrature, Pseudo: 1, Correlation: RiaziDaubert1987}, Options{Equation: PR76})
 	T := degF(252.5651)
 	up, err := UpperSaturation(fl, T, z, nil)
 	if err != nil || up.Type != Dew {
@@ -597,4 +529,22 @@ func TestFlashJustBelowANearCriticalDewPoint(t *testing.T) {
 			}
 		}
 	}
+}
+
+// namedFluid is a test fluid with its feed.
+type namedFluid struct {
+	name string
+	fl   *Fluid
+	z    []float64
+}
+
+// namedFluids returns O9 (no volume shift) and the two characterized
+// 12-component condensates of the benchmarks.
+func namedFluids(tb testing.TB) []namedFluid {
+	fl, z := o9Fluid(false)
+	out := []namedFluid{{"O9", fl, z}}
+	for _, bc := range benchCases(tb) {
+		out = append(out, namedFluid{bc.name, bc.fl, bc.z})
+	}
+	return out
 }

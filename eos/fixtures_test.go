@@ -1,5 +1,7 @@
 package eos
 
+import "testing"
+
 // Test fluids. o9Fluid is the open reference condensate O9 of
 // testdata/pr-open.md (constants and kij as printed there); its numbers come
 // from an independent general-purpose Peng–Robinson library.
@@ -35,6 +37,38 @@ func o9Fluid(vshift bool) (*Fluid, []float64) {
 	fl, err := NewFluid(cs, k, Options{Equation: PR78, VolumeShift: vshift})
 	if err != nil {
 		panic(err)
+	}
+	return fl, z
+}
+
+// characterized builds a condensate from library components in amounts
+// (any scale) and a plus fraction of amount plusAmount split by ch, with the
+// default interaction coefficients; the feed is normalised to sum to 1.
+func characterized(tb testing.TB, names []string, amounts []float64, plusAmount float64, plus PlusFraction, ch Characterization, opt Options) (*Fluid, []float64) {
+	tb.Helper()
+	var comps []Component
+	var z []float64
+	for i, nm := range names {
+		c, ok := LibraryComponent(nm)
+		if !ok {
+			tb.Fatalf("library has no %s", nm)
+		}
+		comps = append(comps, c)
+		z = append(z, amounts[i])
+	}
+	plus.Z = 1
+	pcs, pz, err := SplitPlus(plus, ch)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	comps = append(comps, pcs...)
+	for _, v := range pz {
+		z = append(z, v*plusAmount)
+	}
+	normalise(z)
+	fl, err := NewFluid(comps, DefaultKij(comps, ChuehPrausnitz{}), opt)
+	if err != nil {
+		tb.Fatal(err)
 	}
 	return fl, z
 }

@@ -15,31 +15,10 @@ func randomCondensate(tb testing.TB, rng *rand.Rand) (*Fluid, []float64) {
 	names := []string{"N2", "CO2", "C1", "C2", "C3", "iC4", "nC4", "iC5", "nC5", "nC6"}
 	frac := []float64{u(0, 2), u(0, 6), u(60, 85), u(4, 10), u(2, 6), u(0.3, 1), u(0.5, 2.5), u(0.3, 1), u(0.3, 1.2), u(0.3, 1.2)}
 	plusZ := u(1, 12)
-	total := plusZ
-	for _, v := range frac {
-		total += v
-	}
 	mPlus := u(110, 200)
 	sg := 0.70 + 0.12*(mPlus-110)/90 + u(-0.01, 0.02)
-	var comps []Component
-	var z []float64
-	for i, nm := range names {
-		c, _ := LibraryComponent(nm)
-		comps = append(comps, c)
-		z = append(z, frac[i]/total)
-	}
-	pcs, pz, err := SplitPlus(PlusFraction{Name: "C7+", FirstCarbon: 7, Z: plusZ / total, M: mPlus / 1000, SG: sg}, Characterization{Pseudo: 1 + rng.Intn(5)})
-	if err != nil {
-		tb.Fatal(err)
-	}
-	comps = append(comps, pcs...)
-	z = append(z, pz...)
-	normalise(z)
-	fl, err := NewFluid(comps, DefaultKij(comps, ChuehPrausnitz{}), Options{VolumeShift: true})
-	if err != nil {
-		tb.Fatal(err)
-	}
-	return fl, z
+	return characterized(tb, names, frac, plusZ, PlusFraction{Name: "C7+", FirstCarbon: 7, M: mPlus / 1000, SG: sg},
+		Characterization{Pseudo: 1 + rng.Intn(5)}, Options{VolumeShift: true})
 }
 
 // TestRandomCondensates runs the saturation, flash and envelope solvers on
@@ -113,29 +92,8 @@ func TestRandomCondensates(t *testing.T) {
 func TestEnvelopeStopsShortOfAnUncrossableCriticalRegion(t *testing.T) {
 	names := []string{"N2", "CO2", "C1", "C2", "C3", "iC4", "nC4", "iC5", "nC5", "nC6"}
 	pct := []float64{1.5314, 4.8369, 70.0333, 5.0497, 5.3579, 0.4391, 2.0659, 0.6103, 0.3529, 0.5161}
-	plus := 10.7947
-	total := plus
-	for _, v := range pct {
-		total += v
-	}
-	var comps []Component
-	var z []float64
-	for i, nm := range names {
-		c, _ := LibraryComponent(nm)
-		comps = append(comps, c)
-		z = append(z, pct[i]/total)
-	}
-	pcs, pz, err := SplitPlus(PlusFraction{Name: "C7+", FirstCarbon: 7, Z: plus / total, M: 0.18012, SG: 0.8063}, Characterization{Pseudo: 5})
-	if err != nil {
-		t.Fatal(err)
-	}
-	comps = append(comps, pcs...)
-	z = append(z, pz...)
-	normalise(z)
-	fl, err := NewFluid(comps, DefaultKij(comps, ChuehPrausnitz{}), Options{VolumeShift: true})
-	if err != nil {
-		t.Fatal(err)
-	}
+	fl, z := characterized(t, names, pct, 10.7947, PlusFraction{Name: "C7+", FirstCarbon: 7, M: 0.18012, SG: 0.8063},
+		Characterization{Pseudo: 5}, Options{VolumeShift: true})
 	env, err := TraceEnvelope(fl, z, nil)
 	if err != nil {
 		t.Fatal(err)

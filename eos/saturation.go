@@ -216,8 +216,10 @@ func (w *work) stableAt(p float64, z []float64, iter *int) bool {
 // Newton solve that leaves the bracket or collapses onto the trivial solution
 // narrows the bracket further and tries again.
 func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op string) (Saturation, error) {
-	// the trial phase at pUn: re-run it so w.wLiq/w.wVap belong to pUn
-	inc := w.wn
+	// the trial phase at pUn: re-run it so w.wLiq/w.wVap belong to pUn. It
+	// is kept in its own buffer: the stability tests of the bisection and
+	// Newton's iterations both overwrite w.wn.
+	inc := w.inc
 	w.prepareFeed(pUn, z)
 	pickTrial := func() {
 		liq, vap := w.stability(pUn, z, false)
@@ -240,7 +242,13 @@ func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op str
 			}
 		}
 		if math.Abs(pUn-pSt) <= 1e-12*pSt {
-			break
+			// Newton's method failed at every bracket (close to a critical
+			// point the equations are nearly singular and it slides towards
+			// the trivial solution), but the bisection has located the edge of
+			// stability to 1e-12: that is the saturation point, the
+			// incipient phase the trial phase found just inside it. Resid
+			// reports how nearly it satisfies the saturation equations.
+			return w.fromBracket(t, z, math.Sqrt(pUn*pSt), inc, iter), nil
 		}
 		mid := math.Sqrt(pUn * pSt)
 		w.prepareFeed(mid, z)
@@ -258,6 +266,37 @@ func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op str
 		}
 	}
 	return Saturation{}, &SolveError{Op: op, Iter: iter, Err: ErrNoConvergence}
+}
+
+// fromBracket returns the saturation point at p (Pa) with incipient phase
+// w0 (mole numbers, not normalised), as located by bisection on stability.
+func (w *work) fromBracket(t float64, z []float64, p float64, w0 []float64, iter int) Saturation {
+	n := w.n
+	fl := w.fl
+	sumW := 0.0
+	for i := 0; i < n; i++ {
+		sumW += w0[i]
+	}
+	for i := 0; i < n; i++ {
+		w.wn[i] = w0[i] / sumW
+	}
+	fl.evalPhase(&w.feed, &w.ts, p, z, rootMinG, 0)
+	fl.evalPhase(&w.pa, &w.ts, p, w.wn, rootMinG, 0)
+	res := 0.0
+	for i := 0; i < n; i++ {
+		if z[i] > 0 {
+			res = math.Max(res, math.Abs(math.Log(w.wn[i]/z[i])+w.pa.lnphi[i]-w.feed.lnphi[i]))
+		}
+	}
+	sat := Saturation{T: t, P: p, Incipient: append([]float64(nil), w.wn...), Iter: iter, Resid: res}
+	sat.Feed = fl.props(&w.feed, t, p, z)
+	sat.Inc = fl.props(&w.pa, t, p, w.wn)
+	if sat.Inc.Rho > sat.Feed.Rho {
+		sat.Type = Dew
+	} else {
+		sat.Type = Bubble
+	}
+	return sat
 }
 
 // satNewton solves the saturation equations at fixed t from pressure p0 and

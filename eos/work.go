@@ -16,6 +16,7 @@ type work struct {
 
 	d, lnW, W, wn    []float64 // stability: ln z + ln φ(z), trial ln W, W, W normalised
 	wLiq, wVap       []float64 // trial mole numbers W where the trials stopped
+	inc              []float64 // saturation: the incipient phase Newton starts from
 	lnK, lnK1, lnK2  []float64 // current and two previous ln K (GDEM)
 	lnKss            []float64 // the plain substitution step before a GDEM jump
 	K, x, y, r, g, s []float64
@@ -32,7 +33,7 @@ func newWork(fl *Fluid, s *Settings) *work {
 		fl: fl, n: n, tol: s.tol(), max: s.maxIter(),
 		ts:   newTState(n),
 		feed: newPhase(n), pa: newPhase(n), pb: newPhase(n),
-		d: vec(), lnW: vec(), W: vec(), wn: vec(), wLiq: vec(), wVap: vec(),
+		d: vec(), lnW: vec(), W: vec(), wn: vec(), wLiq: vec(), wVap: vec(), inc: vec(),
 		lnK: vec(), lnK1: vec(), lnK2: vec(), lnKss: vec(),
 		K: vec(), x: vec(), y: vec(), r: vec(), g: vec(), s: vec(),
 		v: vec(), l: vec(), sgn: vec(),

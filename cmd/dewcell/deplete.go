@@ -3,7 +3,6 @@ package main
 import (
 	"errors"
 	"fmt"
-	"math"
 	"strings"
 
 	"github.com/urfave/cli/v2"
@@ -82,15 +81,6 @@ func upperSaturation(st *study.Study, sys units.System, t float64) (eos.Saturati
 	sat, err := eos.UpperSaturation(st.Fluid, t, st.Z, nil)
 	if errors.Is(err, eos.ErrNoSaturation) {
 		return sat, fmt.Errorf("no saturation point at %s: the fluid is one phase at every pressure there (is the temperature above the cricondentherm?): %w", at, err)
-	}
-	if errors.Is(err, eos.ErrNoConvergence) {
-		// Say so when t is close to the critical point, where the dew and
-		// bubble points merge and the equations are nearly singular.
-		if env, eerr := eos.TraceEnvelope(st.Fluid, st.Z, nil); eerr == nil && env.HasCritical && math.Abs(t-env.Critical[0]) < 3 {
-			pU := sys.Unit(units.Pressure)
-			return sat, fmt.Errorf("saturation pressure at %s, %.3g %s from the critical point (%.6g %s, %.6g %s), where dew and bubble points merge and the solution is numerically ill-conditioned; a temperature further from it may solve: %w",
-				at, math.Abs(tU.FromSI(t)-tU.FromSI(env.Critical[0])), tU.Symbol, tU.FromSI(env.Critical[0]), tU.Symbol, pU.FromSI(env.Critical[1]), pU.Symbol, err)
-		}
 	}
 	if err != nil {
 		return sat, fmt.Errorf("saturation pressure at %s: %w", at, err)
