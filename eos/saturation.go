@@ -51,8 +51,12 @@ func LowerDewPoint(fl *Fluid, t float64, z []float64, pUpper float64, s *Setting
 //
 // Special cases:
 //   - the feed is stable at every scanned pressure: ErrNoSaturation;
-//   - unstable even at 400 MPa, or Newton fails inside a bracket narrower than
-//     1e-12 relative: ErrNoConvergence.
+//   - unstable even at 400 MPa: ErrNoConvergence;
+//   - Newton fails at every bracket (within a fraction of a degree of a
+//     critical point): the edge of stability, bisected to 1e-12 relative, with
+//     the trial phase there as the incipient phase; Resid is then the
+//     residual of the saturation equations at that point (about 1e-9), not
+//     below the solver tolerance.
 func (s *Saturator) Upper(t float64, z []float64) (Saturation, error) {
 	w := s.w
 	w.fl.checkLen(z)
