@@ -16,27 +16,11 @@ type benchCase struct {
 func benchCases(tb testing.TB) []benchCase {
 	mk := func(name string, defined map[string]float64, plus PlusFraction, tf, ppsia float64) benchCase {
 		order := []string{"N2", "CO2", "C1", "C2", "C3", "nC4", "nC5", "nC6"}
-		var comps []Component
-		var z []float64
-		for _, nm := range order {
-			c, ok := LibraryComponent(nm)
-			if !ok {
-				tb.Fatalf("library has no %s", nm)
-			}
-			comps = append(comps, c)
-			z = append(z, defined[nm]/100)
+		amounts := make([]float64, len(order))
+		for i, nm := range order {
+			amounts[i] = defined[nm] / 100
 		}
-		pcs, pz, err := SplitPlus(plus, Characterization{})
-		if err != nil {
-			tb.Fatal(err)
-		}
-		comps = append(comps, pcs...)
-		z = append(z, pz...)
-		normalise(z)
-		fl, err := NewFluid(comps, DefaultKij(comps, ChuehPrausnitz{}), Options{Equation: PR78, VolumeShift: true})
-		if err != nil {
-			tb.Fatal(err)
-		}
+		fl, z := characterized(tb, order, amounts, plus.Z, plus, Characterization{}, Options{Equation: PR78, VolumeShift: true})
 		return benchCase{name: name, fl: fl, z: z, t: degF(tf), p: ppsia * psi}
 	}
 	return []benchCase{

@@ -292,9 +292,16 @@ func (w *work) fromBracket(t float64, z []float64, p float64, w0 []float64, iter
 			res = math.Max(res, math.Abs(math.Log(w.wn[i]/z[i])+w.pa.lnphi[i]-w.feed.lnphi[i]))
 		}
 	}
+	return w.saturation(t, p, z, iter, res)
+}
+
+// saturation returns the saturation point at t and p of feed z, evaluated in
+// w.feed, with incipient phase w.wn, evaluated in w.pa. It is a dew point
+// when the incipient phase is the denser, a bubble point otherwise.
+func (w *work) saturation(t, p float64, z []float64, iter int, res float64) Saturation {
 	sat := Saturation{T: t, P: p, Incipient: append([]float64(nil), w.wn...), Iter: iter, Resid: res}
-	sat.Feed = fl.props(&w.feed, t, p, z)
-	sat.Inc = fl.props(&w.pa, t, p, w.wn)
+	sat.Feed = w.fl.props(&w.feed, t, p, z)
+	sat.Inc = w.fl.props(&w.pa, t, p, w.wn)
 	if sat.Inc.Rho > sat.Feed.Rho {
 		sat.Type = Dew
 	} else {
@@ -364,15 +371,7 @@ func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64) (Satu
 			return Saturation{}, it, false
 		}
 		if res < w.tol {
-			sat := Saturation{T: t, P: p, Incipient: append([]float64(nil), w.wn...), Iter: it, Resid: res}
-			sat.Feed = fl.props(&w.feed, t, p, z)
-			sat.Inc = fl.props(&w.pa, t, p, w.wn)
-			if sat.Inc.Rho > sat.Feed.Rho {
-				sat.Type = Dew
-			} else {
-				sat.Type = Bubble
-			}
-			return sat, it, true
+			return w.saturation(t, p, z, it, res), it, true
 		}
 		if !luSolve(H, m, w.rhs) {
 			return Saturation{}, it, false
