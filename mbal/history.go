@@ -290,12 +290,28 @@ type HavlenaOdehResult struct {
 	// TrendSlope is the weighted least-squares slope of F/(E_g+E_fw) against
 	// G_p (dimensionless), with its standard error and two-sided p-value.
 	TrendSlope, TrendSE, TrendP float64
+	// TrendChange is the change of F/(E_g+E_fw) along that slope over the
+	// span of G_p in the history, as a fraction of Line.G.
+	TrendChange float64
+	// CurvatureChange is how far the quadratic of Line departs from a
+	// straight line at the middle of the span of production, as a fraction
+	// of the intercept p_i/Z_i.
+	CurvatureChange float64
 	// WaterInfluxSuspected is set when the trend or the curvature of Line
-	// is significant; Reason says which, in which direction, and what it
-	// suggests.
+	// is both significant and material (TrendChange or CurvatureChange of
+	// at least InfluxMateriality); Reason says which, in which direction,
+	// and what it suggests.
 	WaterInfluxSuspected bool
 	Reason               string
 }
+
+// InfluxMateriality is the smallest departure from a volumetric balance,
+// as a fraction of the gas in place (or of p_i/Z_i), that the influx tests
+// report: 1 % (common practice, no published source). Precise, smooth data
+// can make a departure far smaller statistically significant, for instance
+// the slight dependence of a simulated Z₂ on its pressure steps; that is not
+// evidence of an aquifer.
+const InfluxMateriality = 0.01
 
 // HavlenaOdeh writes the gas material balance as Havlena and Odeh (1963) do
 // (METHODS 9.2),
@@ -320,10 +336,12 @@ type HavlenaOdehResult struct {
 // growing with time (an active aquifer). A falling one, or a line that
 // steepens, is support that fades as pressure falls: a small (pot) aquifer,
 // W_e = (c_w + c_f) W_i (p_i − p) (METHODS 9.3), or more rock and water
-// expansion than c_w and c_f say. Either sets WaterInfluxSuspected. Each test
-// is made at level (1 − Confidence)/2 (Bonferroni), so that a volumetric
-// reservoir with independent normal errors is flagged with probability at
-// most 1 − Confidence. A scatter below 1e-9 of the data's magnitude is taken
+// expansion than c_w and c_f say. Either sets WaterInfluxSuspected when it
+// is also material: F/(E_g+E_fw) changing by at least InfluxMateriality of G
+// over the history, or the line departing from straight by that fraction of
+// p_i/Z_i at mid-history. Each test is made at level (1 − Confidence)/2
+// (Bonferroni), so that a volumetric reservoir with independent normal
+// errors is flagged with probability at most 1 − Confidence. A scatter below 1e-9 of the data's magnitude is taken
 // as rounding: exact volumetric data are not flagged.
 //
 // Special cases: as FitPZ, and ErrHistoryValue (in a *HistoryError) for a
@@ -412,10 +430,22 @@ func HavlenaOdeh(points []HistoryPoint, pi, zi float64, par HavlenaOdehParams, o
 	res.TrendSE = math.Sqrt(tr.cov[1][1])
 	res.TrendP = tr.pValue(1)
 
+	span := func(v []float64) float64 {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for _, x := range v {
+			lo, hi = math.Min(lo, x), math.Max(hi, x)
+		}
+		return math.Max(hi, 0) - math.Min(lo, 0) // the initial state has no production
+	}
+	res.TrendChange = res.TrendSlope * span(gp) / line.G
+	half := span(xl) / 2
+	res.CurvatureChange = line.Curvature * half * half / line.Intercept
+
 	alpha := (1 - conf) / 2
 	trendSig := res.TrendP < alpha
 	curveSig := line.CurvatureP < alpha
-	res.WaterInfluxSuspected = trendSig || curveSig
+	res.WaterInfluxSuspected = trendSig && math.Abs(res.TrendChange) >= InfluxMateriality ||
+		curveSig && math.Abs(res.CurvatureChange) >= InfluxMateriality
 	res.Reason = influxReason(res, trendSig, curveSig, alpha)
 	return res, nil
 }
@@ -429,15 +459,25 @@ func influxReason(r *HavlenaOdehResult, trendSig, curveSig bool, alpha float64) 
 		}
 		return down
 	}
+	pct := func(f float64) string { return fmt.Sprintf("%.2g %%", 100*math.Abs(f)) }
+	material := fmt.Sprintf("%.2g %%", 100*InfluxMateriality)
 	if trendSig {
-		fmt.Fprintf(&b, "F/(Eg+Efw) %s with production (slope %.3g, p = %.2g < %.2g)",
-			dir(r.TrendSlope > 0, "rises", "falls"), r.TrendSlope, r.TrendP, alpha)
+		fmt.Fprintf(&b, "F/(Eg+Efw) %s with production (slope %.3g, p = %.2g < %.2g) by %s of the gas in place over the history",
+			dir(r.TrendSlope > 0, "rises", "falls"), r.TrendSlope, r.TrendP, alpha, pct(r.TrendChange))
+		if math.Abs(r.TrendChange) < InfluxMateriality {
+			fmt.Fprintf(&b, ", below the %s taken as material", material)
+			trendSig = false
+		}
 	} else {
 		fmt.Fprintf(&b, "F/(Eg+Efw) shows no significant trend (p = %.2g)", r.TrendP)
 	}
 	if curveSig {
-		fmt.Fprintf(&b, "; the corrected p/Z line %s (curvature p = %.2g < %.2g)",
-			dir(r.Line.Curvature > 0, "flattens", "steepens"), r.Line.CurvatureP, alpha)
+		fmt.Fprintf(&b, "; the corrected p/Z line %s (curvature p = %.2g < %.2g) by %s of p/Z at mid-history",
+			dir(r.Line.Curvature > 0, "flattens", "steepens"), r.Line.CurvatureP, alpha, pct(r.CurvatureChange))
+		if math.Abs(r.CurvatureChange) < InfluxMateriality {
+			fmt.Fprintf(&b, ", below the %s taken as material", material)
+			curveSig = false
+		}
 	} else {
 		fmt.Fprintf(&b, "; the corrected p/Z line is straight (curvature p = %.2g)", r.Line.CurvatureP)
 	}

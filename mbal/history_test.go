@@ -350,6 +350,38 @@ func hSteady(t *testing.T) ([]HistoryPoint, HavlenaOdehParams, []float64) {
 	return pts, par, wes
 }
 
+// A pot aquifer a thousand times smaller than hPot's moves F/(E_g+E_fw) by
+// about 0.02 % of G over the history: with exact data the trend is
+// significant, but it is far below InfluxMateriality, so the history is
+// not flagged, and the reason says why. hPot itself (F/(E_g+E_fw) from
+// 1.29 G to 1.07 G, worked above) is flagged, with TrendChange near −0.2.
+func TestHavlenaOdehMateriality(t *testing.T) {
+	t.Parallel()
+	zi := hZ(hRes.pi)
+	pts, par := hBalance(func(i int) float64 { return hPot(i) / 1000 })
+	res, err := HavlenaOdeh(pts, hRes.pi, zi, par, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(res.TrendP < (1-DefaultConfidence)/2) {
+		t.Fatalf("premise: the small aquifer's trend should be significant with exact data (p = %g)", res.TrendP)
+	}
+	if c := math.Abs(res.TrendChange); !(c > 0 && c < InfluxMateriality) {
+		t.Errorf("trend change %g of G, want a small non-zero fraction below %g", res.TrendChange, InfluxMateriality)
+	}
+	if res.WaterInfluxSuspected || !strings.Contains(res.Reason, "below the 1 % taken as material") {
+		t.Errorf("flagged %v, reason %q: want not flagged, as immaterial", res.WaterInfluxSuspected, res.Reason)
+	}
+	pts, par = hBalance(hPot)
+	res, err = HavlenaOdeh(pts, hRes.pi, zi, par, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !res.WaterInfluxSuspected || !(res.TrendChange < -0.1 && res.TrendChange > -0.35) {
+		t.Errorf("pot aquifer: flagged %v, trend change %g of G; want flagged, about -0.2", res.WaterInfluxSuspected, res.TrendChange)
+	}
+}
+
 func TestHavlenaOdehVolumetric(t *testing.T) {
 	t.Parallel()
 	pts, par := hBalance(func(int) float64 { return 0 })

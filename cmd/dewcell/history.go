@@ -233,7 +233,9 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult, withRe
 			{Column{Name: "volumetric_inside_interval"}, h.vol.Inside},
 			{Column{Name: "f_over_expansion_trend"}, h.ho.TrendSlope},
 			{Column{Name: "f_over_expansion_trend_p_value"}, h.ho.TrendP},
+			{Column{Name: "f_over_expansion_change", Unit: units.Percent}, 100 * h.ho.TrendChange},
 			{Column{Name: "curvature_p_value"}, line.CurvatureP},
+			{Column{Name: "curvature_departure", Unit: units.Percent}, 100 * h.ho.CurvatureChange},
 			{Column{Name: "water_influx_suspected"}, h.ho.WaterInfluxSuspected},
 		},
 	}
