@@ -45,14 +45,35 @@ type envTracer struct {
 	past bool
 }
 
-// TraceEnvelope traces the phase envelope of feed z. It returns the points in
-// the order traced, the critical point when the trace crosses one, and the
-// cricondenbar and cricondentherm refined by cubic Hermite interpolation along
-// the trace.
+// TraceEnvelope traces the phase envelope of feed z: the dew branch from low
+// pressure, through the cricondentherm, the critical point and the
+// cricondenbar, and the bubble branch back to low pressure. It returns the
+// points in the order traced, with the cricondenbar and cricondentherm
+// solved on the envelope (extreme).
+//
+// The critical point is the feed's vapour–liquid critical point
+// (VLCritical), reported when the trace crosses it: where every ln K
+// changes sign within a step that brackets it. A change of sign elsewhere
+// is the corrector jumping to another solution branch, and ends the trace.
+// When the trace stalls within a few per cent of the critical point (a
+// very flat top), it is restarted on the far side of the critical point.
+//
+// The trace stops at the limits of the vapour–liquid envelope, which End
+// names (see EnvelopeEnd): where the bubble branch is back at 50 kPa; at a
+// second critical point on the bubble branch; where the curve turns into the
+// boundary of a region of two dense phases (EndDensePhases), which shows in
+// one of two ways: on either branch the pressure, having passed its maximum
+// on that branch (the cricondenbar on one of them) and fallen by 2 %, rises
+// again by more than 2 % above its lowest value since; or on the dew branch
+// the incipient liquid, which
+// grows lighter as the trace climbs towards the critical point, grows
+// heavier again by more than 2 % in molar mass. The points beyond the lowest
+// pressure, or the lightest incipient liquid, are dropped. The trace also
+// stops at 400 MPa and below 30 K.
 //
 // Special cases: no dew point at 50 kPa between 20 K and 2000 K, or a corrector
-// that fails even after its step is cut 12 times: *SolveError wrapping
-// ErrNoConvergence (with the points traced so far still returned).
+// that fails on the dew branch before any of those limits: *SolveError
+// wrapping ErrNoConvergence (with the points traced so far still returned).
 func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 	fl.checkLen(z)
 	if err := fl.CheckComposition(z); err != nil {
@@ -66,6 +87,10 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 		jac: make([]float64, m*m), f: make([]float64, m),
 	}
 	env := &Envelope{}
+	cp, hasCP, err := VLCritical(fl, z)
+	if err != nil {
+		return env, err
+	}
 	if !e.start() {
 		return env, &SolveError{Op: "TraceEnvelope", Err: ErrNoConvergence}
 	}
@@ -80,11 +105,21 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 	xs := make([]float64, m)
 	step := 0.05 // in ln P at the start
 	passedCrit := false
-	maxLnP := math.Inf(-1) // highest ln P before the critical point
+	jumped := false                  // the trace was restarted across the critical point
+	maxLnP := math.Inf(-1)           // highest ln P so far
+	minLnP, iMin := math.Inf(1), -1  // lowest ln P since the pressure fell 2 % below maxLnP
+	minMi, iMinMi := math.Inf(1), -1 // lightest incipient liquid on the dew branch
 	var pts []envPoint
 	add := func() {
 		pts = append(pts, envPoint{x: append([]float64(nil), e.x...), dx: append([]float64(nil), e.dx...), spec: spec, past: e.past})
 		env.Points = append(env.Points, e.point())
+	}
+	finish := func(end EnvelopeEnd) (*Envelope, error) {
+		env.End = end
+		env.Truncated = end != EndClosed
+		env.NearCritical = end == EndNearCritical
+		env.pts = pts
+		return e.finish(env, pts), nil
 	}
 	// tangent at the first point, specification ln P increasing
 	if !e.tangent(spec) {
@@ -107,16 +142,8 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 			spec = best
 		}
 		// close to the critical point with a ln K specified: jump across it
-		nearCrit := false
-		if !passedCrit && spec < n {
-			kmax := 0.0
-			for i := 0; i < n; i++ {
-				if e.z[i] > 0 {
-					kmax = math.Max(kmax, math.Abs(e.x[i]))
-				}
-			}
-			nearCrit = kmax < envCritK
-		}
+		kmax := e.kmax(e.x)
+		nearCrit := !passedCrit && spec < n && kmax < envCritK
 		dir := 1.0
 		if len(pts) > 1 {
 			// direction: continue the way the previous step went
@@ -181,37 +208,41 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 		if accepted && step < envMinStep {
 			accepted = false
 		}
+		if !accepted && !passedCrit && !jumped && hasCP && kmax < envCritK {
+			// Every K within 10 % of 1 and no step across: where the trace
+			// meets the critical region almost tangentially (a very flat
+			// top with the critical point near the cricondenbar) the
+			// corrector can neither cross nor follow it. Start again on
+			// the far side of the critical point, at the mirror image of
+			// this point.
+			jumped = true
+			if it, ok := e.mirror(prev, spec, cp); ok {
+				total += it
+				accepted = true
+				step = envCritK
+			}
+		}
 		if !accepted {
 			copy(e.x, prev)
 			e.past = passedCrit
-			kmax := 0.0
-			for i := 0; i < n; i++ {
-				if e.z[i] > 0 {
-					kmax = math.Max(kmax, math.Abs(e.x[i]))
-				}
-			}
-			if !passedCrit && kmax < envCritK {
-				// Every K within 10 % of 1 and no step across: where the
-				// trace meets the critical region almost tangentially (a
-				// very flat top with the critical point near the
-				// cricondenbar) the corrector can neither cross nor follow
-				// it. The points so far are converged; the critical point
-				// stays unknown.
-				env.Truncated, env.NearCritical = true, true
-				return e.finish(env, pts), nil
-			}
-			if passedCrit || e.x[n+1] < math.Log(0.9)+maxLnP {
-				// Past the critical point, or past the pressure maximum on the
-				// way down to a critical point at low temperature, the
+			switch {
+			case !passedCrit && kmax < envCritK:
+				// The points so far are converged; the critical point
+				// could not be crossed.
+				return finish(EndNearCritical)
+			case passedCrit || e.x[n+1] < math.Log(0.9)+maxLnP:
+				// Past the critical point, or past the pressure maximum on
+				// the way down to a critical point at low temperature, the
 				// envelope can run into a region where no vapour–liquid
-				// saturation point continues it (a liquid–liquid split, or the
-				// end of the liquid root of the incipient phase).
-				env.Truncated = true
-				return e.finish(env, pts), nil
+				// saturation point continues it (a liquid–liquid split, or
+				// the end of the liquid root of the incipient phase).
+				return finish(EndNoContinuation)
 			}
+			env.pts = pts
 			return e.finish(env, pts), &SolveError{Op: "TraceEnvelope", Iter: total, Err: ErrNoConvergence}
 		}
 		if !e.tangent(spec) {
+			env.pts = pts
 			return e.finish(env, pts), &SolveError{Op: "TraceEnvelope", Iter: total, Err: ErrNoConvergence}
 		}
 		// orient the new tangent along the direction of travel
@@ -223,28 +254,121 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 			scale(e.dx, -1)
 		}
 		// critical point: every ln K changed sign
-		if !passedCrit && e.crossed(prev) {
+		if e.crossed(prev) {
+			if passedCrit {
+				// a second critical point: beyond it the two phases change
+				// roles again, between two dense phases
+				return finish(EndSecondCritical)
+			}
+			if !hasCP || !e.brackets(prev, cp) {
+				// the signs changed away from the critical point: the
+				// corrector went over to another branch of solutions
+				copy(e.x, prev)
+				return finish(EndNoContinuation)
+			}
 			passedCrit = true
 			e.past = true
-			e.critical(env, prev, prevDx)
+			env.HasCritical = true
+			env.Critical = [2]float64{cp.T, cp.P}
+			// the bubble branch can climb from the critical point to a
+			// maximum of its own before it falls: its pressure is followed
+			// afresh
+			maxLnP, minLnP, iMin = math.Inf(-1), math.Inf(1), -1
 		}
 		add()
+		cut := -1 // the last point to keep, when a limit is passed
 		lnP := e.x[n+1]
+		switch {
+		case lnP > maxLnP:
+			maxLnP = lnP
+		case lnP < maxLnP+math.Log(0.98) && lnP < minLnP:
+			minLnP, iMin = lnP, len(pts)-1
+		case iMin >= 0 && lnP > minLnP+math.Log(1.02):
+			cut = iMin // the pressure fell after the cricondenbar and rises again
+		}
 		if !passedCrit {
-			maxLnP = math.Max(maxLnP, lnP)
+			switch mi := e.incipientMolarMass(); {
+			case mi < minMi:
+				minMi, iMinMi = mi, len(pts)-1
+			case mi > 1.02*minMi && (cut < 0 || iMinMi < cut):
+				cut = iMinMi // the incipient liquid grows heavier again
+			}
 		}
-		if passedCrit && lnP < math.Log(envPStart) || math.Exp(e.x[n]) < envTMin {
-			break
+		if cut >= 0 {
+			pts = pts[:cut+1]
+			env.Points = env.Points[:cut+1]
+			return finish(EndDensePhases)
 		}
-		if lnP > math.Log(satPMaxUp) || passedCrit && lnP > maxLnP+math.Ln2 {
-			// At low temperature the bubble branch of an asymmetric mixture
-			// can turn up to very high pressure, where it bounds a
-			// liquid–liquid region rather than the vapour–liquid envelope.
-			env.Truncated = true
-			break
+		if passedCrit && lnP < math.Log(envPStart) {
+			return finish(EndClosed)
+		}
+		if math.Exp(e.x[n]) < envTMin {
+			return finish(EndLowTemperature)
+		}
+		if lnP > math.Log(satPMaxUp) {
+			return finish(EndPressureLimit)
 		}
 	}
-	return e.finish(env, pts), nil
+	return finish(EndTooManyPoints)
+}
+
+// kmax is the largest |ln K_i| of x over the components present.
+func (e *envTracer) kmax(x []float64) float64 {
+	k := 0.0
+	for i := 0; i < e.n; i++ {
+		if e.z[i] > 0 {
+			k = math.Max(k, math.Abs(x[i]))
+		}
+	}
+	return k
+}
+
+// brackets reports whether the step from a to e.x passes the critical point
+// cp: its temperature and pressure lie between those of the two points (to
+// 1 % of the step, or 1e-6 relative).
+func (e *envTracer) brackets(a []float64, cp CriticalPoint) bool {
+	n := e.n
+	in := func(lo, hi, v float64) bool {
+		if lo > hi {
+			lo, hi = hi, lo
+		}
+		tol := math.Max(0.01*(hi-lo), 1e-6*math.Abs(v))
+		return v >= lo-tol && v <= hi+tol
+	}
+	return in(a[n], e.x[n], math.Log(cp.T)) && in(a[n+1], e.x[n+1], math.Log(cp.P))
+}
+
+// incipientMolarMass is the molar mass of the incipient phase at e.x.
+func (e *envTracer) incipientMolarMass() float64 {
+	fl := e.w.fl
+	num, den := 0.0, 0.0
+	for i, zi := range e.z {
+		wi := zi * math.Exp(e.x[i])
+		num += wi * fl.m[i]
+		den += wi
+	}
+	return num / den
+}
+
+// mirror restarts the trace across the critical point cp from a, the last
+// point before it: ln K and the distance of ln T and ln P from the critical
+// point change sign, and the point is converged with ln K_spec specified.
+// It leaves the point in e.x, past the critical point.
+func (e *envTracer) mirror(a []float64, spec int, cp CriticalPoint) (int, bool) {
+	n := e.n
+	for i := 0; i < n; i++ {
+		e.x[i] = -a[i]
+	}
+	e.x[n] = 2*math.Log(cp.T) - a[n]
+	e.x[n+1] = 2*math.Log(cp.P) - a[n+1]
+	e.past = true
+	it, ok := e.correct(spec, e.x[spec])
+	if !ok || e.trivial() || !e.flips(a, e.x) {
+		copy(e.x, a)
+		e.past = false
+		return it, false
+	}
+	return it, true
 }
 
 type envPoint struct {
@@ -419,26 +543,6 @@ func (e *envTracer) flips(a, b []float64) bool {
 	return a[k]*b[k] < 0 && 2*flipped > present
 }
 
-// critical interpolates the critical point between prev and e.x where the
-// ln K of largest magnitude passes zero: cubic Hermite in that ln K.
-func (e *envTracer) critical(env *Envelope, prev, prevDx []float64) {
-	n := e.n
-	k := 0
-	for i := 0; i < n; i++ {
-		if math.Abs(prev[i]-e.x[i]) > math.Abs(prev[k]-e.x[k]) {
-			k = i
-		}
-	}
-	if prevDx[k] == 0 || e.dx[k] == 0 {
-		return
-	}
-	s0, s1 := prev[k], e.x[k]
-	lnT := hermite(s0, s1, prev[n], e.x[n], prevDx[n]/prevDx[k], e.dx[n]/e.dx[k], 0)
-	lnP := hermite(s0, s1, prev[n+1], e.x[n+1], prevDx[n+1]/prevDx[k], e.dx[n+1]/e.dx[k], 0)
-	env.HasCritical = true
-	env.Critical = [2]float64{math.Exp(lnT), math.Exp(lnP)}
-}
-
 // hermite evaluates at s the cubic through (s0, y0) and (s1, y1) with slopes d0, d1.
 func hermite(s0, s1, y0, y1, d0, d1, s float64) float64 {
 	h := s1 - s0
@@ -487,17 +591,12 @@ func hermiteMax(s0, s1, y0, y1, d0, d1 float64) (s, y float64) {
 // point converts e.x into an EnvelopePoint.
 func (e *envTracer) point() EnvelopePoint {
 	n := e.n
-	w := e.w
 	pt := EnvelopePoint{T: math.Exp(e.x[n]), P: math.Exp(e.x[n+1]), K: make([]float64, n)}
 	for i := 0; i < n; i++ {
 		pt.K[i] = math.Exp(e.x[i])
 	}
-	// the last eval was at this point (tangent), so w.feed and w.pa hold it
-	mf := w.fl.MolarMass(e.z)
-	mw := w.fl.MolarMass(w.wn)
-	if mw/w.pa.v > mf/w.feed.v {
-		pt.Type = Dew
-	} else {
+	// a dew point before the critical point, a bubble point past it
+	if e.past {
 		pt.Type = Bubble
 	}
 	return pt

@@ -410,9 +410,9 @@ func (w *work) single(dst *FlashResult, t, p float64, z []float64, iter int) {
 	copy(dst.Y, z)
 	pp := w.fl.props(&w.feed, t, p, z)
 	dst.Phases, dst.Iter, dst.Resid = 1, iter, 0
-	dst.Single = w.feed.label
+	dst.Single = w.singleLabel(t, w.feed.vEOS, z)
 	dst.L, dst.V = pp, pp
-	if w.feed.label == Liquid {
+	if dst.Single == Liquid {
 		dst.Beta = 0
 	} else {
 		dst.Beta = 1
@@ -437,8 +437,8 @@ func (w *work) twoPhase(dst *FlashResult, t, p float64, z []float64, beta float6
 }
 
 // Phase returns the single-phase properties of composition x at t (K) and p
-// (Pa) on the cubic root of lowest Gibbs energy, the label of that root and
-// the isothermal compressibility −(1/v) ∂v/∂p (1/Pa), from
+// (Pa) on the cubic root of lowest Gibbs energy, its name by the rule of
+// label.go and the isothermal compressibility −(1/v) ∂v/∂p (1/Pa), from
 //
 //	∂p/∂v = −R T/(v − b)² + 2 a (v + b)/(v² + 2 b v − b²)²
 //
@@ -453,5 +453,5 @@ func (f *Flasher) Phase(t, p float64, x []float64) (PhaseProps, Phase, float64) 
 	v, a, b := ph.vEOS, ph.am, ph.bm
 	q := v*v + 2*b*v - b*b
 	dpdv := -R*t/((v-b)*(v-b)) + 2*a*(v+b)/(q*q)
-	return w.fl.props(ph, t, p, x), ph.label, -1 / (ph.v * dpdv)
+	return w.fl.props(ph, t, p, x), w.singleLabel(t, v, x), -1 / (ph.v * dpdv)
 }

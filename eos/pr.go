@@ -274,13 +274,7 @@ func (f *Fluid) chooseRoot(A, B float64, x []float64, ts *tstate, rc rootChoice)
 // pseudo-critical temperature Σ φ_i Tc_i, the volume fractions φ_i taken with the
 // co-volumes b_i in place of critical volumes.
 func (f *Fluid) loneRootLabel(x []float64, t float64) Phase {
-	num, den := 0.0, 0.0
-	for i, xi := range x {
-		w := xi * f.b[i]
-		num += w * f.tc[i]
-		den += w
-	}
-	if t >= num/den {
+	if t >= f.liTc(x) {
 		return Vapour
 	}
 	return Liquid

@@ -74,7 +74,12 @@ func TestRandomCondensates(t *testing.T) {
 		if env.Cricondentherm[0] < T-0.5 {
 			t.Errorf("case %d: saturation point at %g K above the cricondentherm %g K", k, T, env.Cricondentherm[0])
 		}
-		if env.Cricondenbar[1] < up.P*(1-1e-3) {
+		// Where the trace stopped at the boundary of two dense phases, a
+		// saturation point colder than the last traced point lies on that
+		// boundary, beyond the vapour–liquid envelope the trace lists.
+		last := env.Points[len(env.Points)-1]
+		beyond := env.End == EndDensePhases && T < last.T
+		if env.Cricondenbar[1] < up.P*(1-1e-3) && !beyond {
 			t.Errorf("case %d: saturation pressure %g above the cricondenbar %g", k, up.P/psi, env.Cricondenbar[1]/psi)
 		}
 		if math.IsNaN(env.Critical[0]) {

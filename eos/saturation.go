@@ -21,6 +21,16 @@ const (
 	satScan    = 0.85  // ratio of successive scan pressures
 	satLowScan = 0.8   // ratio of successive scan pressures below an upper dew point
 	satBracket = 1.01  // bisect on stability until the bracket ratio is below this
+	// satNearCritical: within this many kelvin of the feed's critical
+	// temperature the upper saturation point is first sought along the
+	// envelope through the critical point (Saturator.nearCritical).
+	satNearCritical = 2.0
+	// satInterpResid: the largest residual of the saturation equations
+	// accepted for a near-critical point interpolated on the envelope.
+	satInterpResid = 1e-7
+	// satTrivialK: an incipient phase with every |ln K_i| below this (0.01 %
+	// from the feed) cannot be told from the feed.
+	satTrivialK = 1e-4
 )
 
 // A Saturator keeps the scratch space for repeated saturation-point solves of
@@ -30,7 +40,11 @@ type Saturator struct {
 }
 
 // NewSaturator returns a Saturator for fl. A nil s means default settings.
-func NewSaturator(fl *Fluid, s *Settings) *Saturator { return &Saturator{w: newWork(fl, s)} }
+func NewSaturator(fl *Fluid, s *Settings) *Saturator {
+	w := newWork(fl, s)
+	w.tmCut = tmUnstableSat
+	return &Saturator{w: w}
+}
 
 // UpperSaturation finds the saturation point of feed z at t met first when the
 // pressure falls from high values: the upper dew point of a gas condensate, the
@@ -51,7 +65,10 @@ func LowerDewPoint(fl *Fluid, t float64, z []float64, pUpper float64, s *Setting
 //
 // Special cases:
 //   - the feed is stable at every scanned pressure: ErrNoSaturation;
-//   - unstable even at 400 MPa: ErrNoConvergence;
+//   - unstable at every pressure tried up to 400 MPa: ErrTwoPhaseToLimit;
+//   - the incipient phase found cannot be told from the feed (every K_i
+//     within 1e-4 of 1: the temperature is at the critical point to within
+//     the solver's resolution): *NearCriticalError;
 //   - Newton fails at every bracket (within a fraction of a degree of a
 //     critical point): the edge of stability, bisected to 1e-12 relative, with
 //     the trial phase there as the incipient phase; Resid is then the
@@ -63,14 +80,19 @@ func (s *Saturator) Upper(t float64, z []float64) (Saturation, error) {
 	if !validState(t, 1) {
 		return Saturation{}, &SolveError{Op: "UpperSaturation", Err: ErrBadState}
 	}
-	w.fl.setT(&w.ts, t)
 	iter := 0
+	if tc, _ := w.critical(z); w.crit.has && math.Abs(t-tc) < satNearCritical {
+		if sat, ok := s.nearCritical(t, z, &iter); ok {
+			return w.named(sat, z, "UpperSaturation")
+		}
+	}
+	w.fl.setT(&w.ts, t)
 	hi := satPStart
 	for !w.stableAt(hi, z, &iter) {
-		hi *= 2
-		if hi > satPMaxUp {
-			return Saturation{}, &SolveError{Op: "UpperSaturation", Iter: iter, Err: ErrNoConvergence}
+		if hi == satPMaxUp {
+			return Saturation{}, &SolveError{Op: "UpperSaturation", Iter: iter, Err: ErrTwoPhaseToLimit}
 		}
+		hi = math.Min(2*hi, satPMaxUp)
 	}
 	lo := hi
 	for {
@@ -149,6 +171,102 @@ func (s *Saturator) fromEnvelope(t float64, z []float64, iter int) (Saturation, 
 	return w.refine(t, z, inside, above, iter, "UpperSaturation")
 }
 
+// nearCritical finds the saturation point at t close to the feed's
+// critical point. At fixed temperature the saturation equations have, besides
+// the saturation point, the trivial solution K = 1, and the two meet at the
+// critical point; near it Newton's method converges to the saturation point
+// only from a start much closer to it than to K = 1. The traced envelope
+// gives such a start: the interval of highest pressure that passes t is
+// interpolated (cubic Hermite in the interval's specified variable, with the
+// traced tangents) at t, and satNewton converges from there (or, where the
+// residual cannot be brought below the tolerance, the interpolated point is
+// kept if its residual is below satInterpResid). The point is accepted when
+// the feed is stable just above it and not unstable at it; it reports false
+// otherwise, and the caller falls back to refine.
+func (s *Saturator) nearCritical(t float64, z []float64, iter *int) (Saturation, bool) {
+	w := s.w
+	fl := w.fl
+	n := fl.n
+	env, err := TraceEnvelope(fl, z, nil)
+	if env == nil || len(env.pts) < 2 || err != nil && len(env.pts) < 2 {
+		return Saturation{}, false
+	}
+	lnT := math.Log(t)
+	var start []float64
+	bestP := math.Inf(-1)
+	for j := 0; j+1 < len(env.pts); j++ {
+		a, b := env.pts[j], env.pts[j+1]
+		if (a.x[n]-lnT)*(b.x[n]-lnT) > 0 {
+			continue
+		}
+		x, ok := hermiteAt(a, b, n, lnT)
+		if ok && x[n+1] > bestP {
+			bestP, start = x[n+1], x
+		}
+	}
+	if start == nil {
+		return Saturation{}, false
+	}
+	fl.setT(&w.ts, t)
+	for i := 0; i < n; i++ {
+		w.inc[i] = z[i] * math.Exp(start[i])
+	}
+	p0 := math.Exp(start[n+1])
+	sat, it, ok := w.satNewton(t, z, p0, w.inc, true)
+	*iter += it
+	if !ok {
+		// Within a small fraction of a kelvin of the critical point the
+		// residual of the equations stops falling near 1e-9 (the round-off
+		// of ln φ of two nearly identical phases), above the tolerance; the
+		// interpolated point is then the answer, with its residual.
+		for i := 0; i < n; i++ {
+			w.inc[i] = z[i] * math.Exp(start[i])
+		}
+		sat = w.fromBracket(t, z, p0, w.inc, *iter)
+		if !(sat.Resid < satInterpResid) {
+			return Saturation{}, false
+		}
+	}
+	if !w.stableAt(sat.P*(1+1e-5), z, iter) || !w.stableAt(sat.P, z, iter) {
+		return Saturation{}, false
+	}
+	return sat, true
+}
+
+// hermiteAt interpolates the envelope between traced points a and b at
+// X_k = v, with S = X_spec of a as the parameter: each X_i is the cubic
+// Hermite in S through both points with the tangents dX_i/dS; S is found by
+// bisection on the cubic of X_k.
+func hermiteAt(a, b envPoint, k int, v float64) ([]float64, bool) {
+	sv := a.spec
+	if a.dx[sv] == 0 || b.dx[sv] == 0 || a.x[sv] == b.x[sv] {
+		return nil, false
+	}
+	at := func(i int, s float64) float64 {
+		return hermite(a.x[sv], b.x[sv], a.x[i], b.x[i], a.dx[i]/a.dx[sv], b.dx[i]/b.dx[sv], s)
+	}
+	lo, hi := a.x[sv], b.x[sv]
+	flo := at(k, lo) - v
+	if flo*(at(k, hi)-v) > 0 {
+		return nil, false
+	}
+	for it := 0; it < 200; it++ {
+		mid := 0.5 * (lo + hi)
+		fm := at(k, mid) - v
+		if fm*flo > 0 {
+			lo, flo = mid, fm
+		} else {
+			hi = mid
+		}
+	}
+	s := 0.5 * (lo + hi)
+	x := make([]float64, len(a.x))
+	for i := range x {
+		x[i] = at(i, s)
+	}
+	return x, true
+}
+
 // unstableNear returns a pressure within 10 % of p0 at which the feed is
 // unstable, trying p0 and then pressures ever further from it in steps of
 // 0.2 %; 0 when there is none.
@@ -216,33 +334,60 @@ func (w *work) stableAt(p float64, z []float64, iter *int) bool {
 
 // refine converges a saturation point between pUn, where the feed is
 // unstable, and pSt, where it is stable. It bisects on stability until the
-// bracket is narrow, then runs Newton from the trial phase found at pUn; a
-// Newton solve that leaves the bracket or collapses onto the trivial solution
-// narrows the bracket further and tries again.
+// bracket is narrow, then runs Newton from the trial phase found at pUn. A
+// Newton solution is accepted only when the feed is stable just beyond it
+// (1e-5 relative, towards pSt): the saturation equations also hold at
+// points inside the two-phase region close to a critical point, where the
+// incipient phase hardly differs from the feed. A Newton solve that fails,
+// leaves the bracket or lands inside the region narrows the bracket and tries
+// again.
 func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op string) (Saturation, error) {
 	// the trial phase at pUn: re-run it so w.wLiq/w.wVap belong to pUn. It
 	// is kept in its own buffer: the stability tests of the bisection and
 	// Newton's iterations both overwrite w.wn.
 	inc := w.inc
-	w.prepareFeed(pUn, z)
-	pickTrial := func() {
-		liq, vap := w.stability(pUn, z, false)
+	// unstableAt runs the stability test at p and, when the feed is
+	// unstable there, keeps the trial phase of lower tm in inc.
+	unstableAt := func(p float64) bool {
+		w.prepareFeed(p, z)
+		liq, vap := w.stability(p, z, false)
 		iter += liq.iter + vap.iter
-		if liq.unstable && (!vap.unstable || liq.tm <= vap.tm) {
+		switch {
+		case liq.unstable && (!vap.unstable || liq.tm <= vap.tm):
 			copy(inc, w.wLiq)
-		} else {
+		case vap.unstable:
 			copy(inc, w.wVap)
+		default:
+			return false
 		}
+		return true
 	}
-	pickTrial()
+	unstableAt(pUn)
 	for attempt := 0; attempt < 60; attempt++ {
 		if math.Max(pUn, pSt)/math.Min(pUn, pSt) < satBracket || attempt > 0 {
-			sat, it, ok := w.satNewton(t, z, pUn, inc)
+			sat, it, ok := w.satNewton(t, z, pUn, inc, false)
 			iter += it
 			lo, hi := math.Min(pUn, pSt), math.Max(pUn, pSt)
+			if ok && sat.P >= lo*(1-1e-9) && sat.P <= hi*(1+1e-9) && unstableAt(sat.P) {
+				// the feed is unstable at the root itself: it lies inside
+				// the two-phase region, next to the limit of stability,
+				// where the saturation equations also hold close to a
+				// critical point with a phase (a saddle of tm) hardly
+				// different from the feed
+				pUn = sat.P
+				ok = false
+			}
 			if ok && sat.P >= lo*(1-1e-9) && sat.P <= hi*(1+1e-9) {
-				sat.Iter = iter
-				return sat, nil
+				beyond := sat.P * (1 + 1e-5)
+				if pSt < pUn {
+					beyond = sat.P * (1 - 1e-5)
+				}
+				if (beyond-pSt)*(beyond-pUn) >= 0 || !unstableAt(beyond) {
+					// stable there (or the stable end of the bracket is nearer)
+					sat.Iter = iter
+					return w.named(sat, z, op)
+				}
+				pUn = beyond // inside the two-phase region: a spurious root
 			}
 		}
 		if math.Abs(pUn-pSt) <= 1e-12*pSt {
@@ -252,19 +397,11 @@ func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op str
 			// stability to 1e-12: that is the saturation point, the
 			// incipient phase the trial phase found just inside it. Resid
 			// reports how nearly it satisfies the saturation equations.
-			return w.fromBracket(t, z, math.Sqrt(pUn*pSt), inc, iter), nil
+			return w.named(w.fromBracket(t, z, math.Sqrt(pUn*pSt), inc, iter), z, op)
 		}
 		mid := math.Sqrt(pUn * pSt)
-		w.prepareFeed(mid, z)
-		liq, vap := w.stability(mid, z, false)
-		iter += liq.iter + vap.iter
-		if liq.unstable || vap.unstable {
+		if unstableAt(mid) {
 			pUn = mid
-			if liq.unstable && (!vap.unstable || liq.tm <= vap.tm) {
-				copy(inc, w.wLiq)
-			} else {
-				copy(inc, w.wVap)
-			}
 		} else {
 			pSt = mid
 		}
@@ -296,24 +433,86 @@ func (w *work) fromBracket(t float64, z []float64, p float64, w0 []float64, iter
 }
 
 // saturation returns the saturation point at t and p of feed z, evaluated in
-// w.feed, with incipient phase w.wn, evaluated in w.pa. It is a dew point
-// when the incipient phase is the denser, a bubble point otherwise.
+// w.feed, with incipient phase w.wn, evaluated in w.pa. Its type is set by
+// named.
 func (w *work) saturation(t, p float64, z []float64, iter int, res float64) Saturation {
 	sat := Saturation{T: t, P: p, Incipient: append([]float64(nil), w.wn...), Iter: iter, Resid: res}
 	sat.Feed = w.fl.props(&w.feed, t, p, z)
 	sat.Inc = w.fl.props(&w.pa, t, p, w.wn)
-	if sat.Inc.Rho > sat.Feed.Rho {
-		sat.Type = Dew
-	} else {
-		sat.Type = Bubble
+	if sat.Inc.M/w.pa.vEOS < sat.Feed.M/w.feed.vEOS {
+		sat.Type = Bubble // a less dense incipient phase, until named decides
 	}
 	return sat
 }
 
+// named finishes a saturation point found by refine for op: it names its
+// type and refuses an incipient phase that cannot be told from the feed.
+//
+// A lower dew point is a dew point. An upper saturation point is a bubble
+// point below the feed's vapour–liquid critical temperature and a dew point
+// above it, the side of the critical point on which it lies; a feed with no
+// critical point keeps the local test of saturation, a dew point when the
+// incipient phase is the denser (by the untranslated volumes of the
+// equation of state: the Peneloux shift can reverse the order of two nearly
+// equal densities).
+func (w *work) named(sat Saturation, z []float64, op string) (Saturation, error) {
+	kmax := 0.0
+	for i, zi := range z {
+		if zi > 0 {
+			kmax = math.Max(kmax, math.Abs(math.Log(sat.Incipient[i]/zi)))
+		}
+	}
+	tc, _ := w.critical(z)
+	if kmax < satTrivialK {
+		ne := &NearCriticalError{Op: op, T: sat.T, P: sat.P, Iter: sat.Iter}
+		if w.crit.has {
+			ne.Tc, ne.Pc = w.crit.cp.T, w.crit.cp.P
+		}
+		return Saturation{}, ne
+	}
+	switch {
+	case op == "LowerDewPoint":
+		sat.Type = Dew
+	case w.crit.has && sat.T < tc:
+		sat.Type = Bubble
+	case w.crit.has:
+		sat.Type = Dew
+	}
+	return sat, nil
+}
+
+// trialMinimum reports whether the incipient phase held in w.W (mole
+// numbers summing to sumW) and evaluated with composition derivatives in
+// w.pa is a minimum of the tangent-plane distance, which the incipient phase
+// of a saturation point is: the Hessian δ_ij + √(W_i W_j) ∂ln φ_i/∂n_j in
+// α_i = 2√W_i (Michelsen 1982a) is positive definite. Close to a critical
+// point the saturation equations are also met by a saddle of tm, inside the
+// two-phase region, whose phase hardly differs from the feed.
+func (w *work) trialMinimum(z []float64, sumW float64) bool {
+	n := w.n
+	H := w.H[:n*n]
+	for i := 0; i < n; i++ {
+		si := math.Sqrt(w.W[i])
+		for j := 0; j < n; j++ {
+			H[i*n+j] = si * math.Sqrt(w.W[j]) * w.pa.dn[i*n+j] / sumW
+		}
+		H[i*n+i]++
+		w.g[i] = 0
+		if z[i] == 0 {
+			for j := 0; j < n; j++ {
+				H[i*n+j], H[j*n+i] = 0, 0
+			}
+			H[i*n+i] = 1
+		}
+	}
+	return cholSolve(H, n, w.g)
+}
+
 // satNewton solves the saturation equations at fixed t from pressure p0 and
-// incipient composition w0. It reports the point and whether Newton converged
+// incipient composition w0. guarded halves a step that raises the residual
+// (up to ten times), for a start already close to the solution. It reports the point and whether Newton converged
 // to a non-trivial solution.
-func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64) (Saturation, int, bool) {
+func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64, guarded bool) (Saturation, int, bool) {
 	n := w.n
 	fl := w.fl
 	lnP := math.Log(p0)
@@ -325,6 +524,9 @@ func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64) (Satu
 		}
 	}
 	m := n + 1
+	// the last accepted point (ln K in w.lnK1), its step (ln K in w.lnK2)
+	// and residual, and the fraction lam of the step being tried
+	prevRes, prevLnP, stepP, lam, cuts := math.Inf(1), lnP, 0.0, 1.0, 0
 	for it := 1; it <= 50; it++ {
 		p := math.Exp(lnP)
 		sumW := 0.0
@@ -367,10 +569,26 @@ func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64) (Satu
 		}
 		H[n*m+n] = 0
 		res = math.Max(res, math.Abs(Fs))
+		if guarded && res > prevRes && cuts < 10 {
+			// the step raised the residual: take half of it instead
+			// (close to a critical point the equations are nearly singular
+			// and a full step from a good start can leave for another root)
+			cuts++
+			lam *= 0.5
+			for i := 0; i < n; i++ {
+				w.lnK[i] = w.lnK1[i] + lam*w.lnK2[i]
+			}
+			lnP = prevLnP + lam*stepP
+			continue
+		}
+		cuts, lam, prevRes = 0, 1, res
 		if triv < 1e-8 {
 			return Saturation{}, it, false
 		}
 		if res < w.tol {
+			if !w.trialMinimum(z, sumW) {
+				return Saturation{}, it, false // a saddle of tm, not the incipient phase
+			}
 			return w.saturation(t, p, z, it, res), it, true
 		}
 		if !luSolve(H, m, w.rhs) {
@@ -386,10 +604,14 @@ func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64) (Satu
 				sc = 1 / a
 			}
 		}
+		copy(w.lnK1, w.lnK)
+		prevLnP = lnP
 		for i := 0; i < n; i++ {
-			w.lnK[i] += sc * w.rhs[i]
+			w.lnK2[i] = sc * w.rhs[i]
+			w.lnK[i] += w.lnK2[i]
 		}
-		lnP += sc * w.rhs[n]
+		stepP = sc * w.rhs[n]
+		lnP += stepP
 	}
 	return Saturation{}, 50, false
 }

@@ -17,6 +17,14 @@ import "math"
 // well below the tm of a feed 1 ppm inside the two-phase region (about 1e-7).
 const tmUnstable = -1e-9
 
+// tmUnstableSat is the stricter threshold of the saturation-point search.
+// Close to a critical point the tangent-plane distance just inside the
+// two-phase region is tiny (about −1e-10 at 1e-5 relative below a bubble
+// point 1.5 °F from the critical temperature), and the edge of stability
+// must be resolved there; it stays two orders of magnitude above the
+// round-off of tm.
+const tmUnstableSat = -1e-11
+
 type trialResult struct {
 	tm       float64
 	unstable bool
@@ -114,14 +122,14 @@ func (w *work) trial(p float64, z []float64, early bool) trialResult {
 			rmax = math.Max(rmax, math.Abs(w.r[i]))
 		}
 		res.tm = tm
-		if early && tm < tmUnstable && dist > 1e-6 {
+		if early && tm < w.tmCut && dist > 1e-6 {
 			res.unstable, res.ok = true, true
 			return res
 		}
 		if rmax < 1e-10 {
 			res.ok = true
 			res.trivial = dist < 1e-8
-			res.unstable = !res.trivial && tm < tmUnstable
+			res.unstable = !res.trivial && tm < w.tmCut
 			return res
 		}
 		if dist < 1e-10 && it > 2 {

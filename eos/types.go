@@ -11,6 +11,11 @@ var (
 	ErrNoConvergence = errors.New("iteration did not converge")
 	ErrNoSaturation  = errors.New("no saturation point at this temperature")
 	ErrBadState      = errors.New("temperature or pressure not finite and positive")
+	// ErrTwoPhaseToLimit: the feed is unstable at every pressure up to
+	// 400 MPa, the highest the saturation search tries.
+	ErrTwoPhaseToLimit = errors.New("two phases at every pressure up to 400 MPa")
+	// ErrNearCritical: see NearCriticalError.
+	ErrNearCritical = errors.New("the incipient phase cannot be told from the feed")
 )
 
 // SolveError says where an iterative solve stopped, in the manner of strconv.NumError.
@@ -37,6 +42,28 @@ func (e *SolveError) Error() string {
 
 // Unwrap lets errors.Is(err, ErrNoConvergence) work.
 func (e *SolveError) Unwrap() error { return e.Err }
+
+// NearCriticalError reports a saturation point that cannot be resolved: the
+// incipient phase the solver found is the feed to within 0.01 % in every K
+// value, which happens within a small fraction of a kelvin of the critical
+// point (and is otherwise the trivial solution, never an answer).
+type NearCriticalError struct {
+	Op     string
+	T, P   float64 // K, Pa: where the search ended
+	Tc, Pc float64 // the feed's vapour–liquid critical point, K and Pa; zero when it has none
+	Iter   int
+}
+
+func (e *NearCriticalError) Error() string {
+	msg := fmt.Sprintf("eos.%s: at %.6g K the incipient phase cannot be told from the feed", e.Op, e.T)
+	if e.Tc > 0 {
+		msg += fmt.Sprintf(" (%.3g K from the critical temperature %.6g K)", math.Abs(e.T-e.Tc), e.Tc)
+	}
+	return msg
+}
+
+// Unwrap lets errors.Is(err, ErrNearCritical) work.
+func (e *NearCriticalError) Unwrap() error { return ErrNearCritical }
 
 // Phase labels a single phase or the root of the cubic chosen for it.
 type Phase int
@@ -127,8 +154,8 @@ type Saturation struct {
 // EnvelopePoint is one converged point of a phase envelope.
 type EnvelopePoint struct {
 	T, P float64 // K, Pa
-	// Type is Dew on the branch where the feed is the lighter phase and
-	// Bubble past the critical point.
+	// Type is Dew on the branch traced before the critical point, where
+	// the feed is the gas, and Bubble past it.
 	Type SatType
 	K    []float64 // K_i = y_i/x_i between the feed and the incipient phase (feed/incipient on the dew branch)
 }
@@ -140,17 +167,71 @@ type Envelope struct {
 	Critical       [2]float64 // T (K), P (Pa) of the critical point, when HasCritical
 	Cricondenbar   [2]float64 // T, P at the maximum pressure
 	Cricondentherm [2]float64 // T, P at the maximum temperature
-	// Truncated is set when the trace ended before returning to low pressure
-	// because the continuation could not go on: on the bubble branch at low
-	// temperature, typically where a liquid–liquid split takes over; or on
-	// the dew branch within a few per cent of a critical point it could not
-	// cross (NearCritical; HasCritical is then false). Points holds the
-	// converged points up to there, and the cricondenbar and cricondentherm
-	// are the extremes of those points.
+	// End says where and why the trace stopped; Points ends there.
+	End EnvelopeEnd
+	// Truncated is set when the trace stopped before the bubble branch
+	// returned to low pressure (End is not EndClosed); the cricondenbar and
+	// cricondentherm are then the extremes of the points traced.
 	Truncated bool
 	// NearCritical is set with Truncated when the trace stopped on the dew
-	// branch with every K within 10 % of 1, short of a critical point.
+	// branch with every K within 10 % of 1, short of a critical point it
+	// could not cross (End is EndNearCritical).
 	NearCritical bool
+
+	pts []envPoint // the traced points with their tangents, for the saturation solvers
+}
+
+// EnvelopeEnd names the limit at which a phase-envelope trace stopped.
+type EnvelopeEnd int
+
+const (
+	// EndClosed: the bubble branch came back to 50 kPa; the envelope is whole.
+	EndClosed EnvelopeEnd = iota
+	// EndNearCritical: the dew branch reached every K within 10 % of 1 and
+	// could cross no critical point.
+	EndNearCritical
+	// EndSecondCritical: the bubble branch met a second critical point,
+	// beyond which the two phases are both dense.
+	EndSecondCritical
+	// EndDensePhases: the curve turned into the boundary of a region of two
+	// dense phases (a liquid–liquid split at low temperature): on one
+	// branch the pressure passed its maximum, fell by 2 % and rose again by
+	// more than 2 %, or on
+	// the dew branch the incipient liquid, having grown lighter, grew
+	// heavier again by more than 2 % in molar mass. The trace stops at the
+	// lowest pressure, or the lightest incipient liquid.
+	EndDensePhases
+	// EndNoContinuation: no saturation point continues the trace (past the
+	// critical point, or on the way down from the cricondenbar).
+	EndNoContinuation
+	// EndPressureLimit: the trace reached 400 MPa.
+	EndPressureLimit
+	// EndLowTemperature: the trace reached 30 K.
+	EndLowTemperature
+	// EndTooManyPoints: the trace took its limit of 600 points.
+	EndTooManyPoints
+)
+
+func (e EnvelopeEnd) String() string {
+	switch e {
+	case EndClosed:
+		return "closed"
+	case EndNearCritical:
+		return "near-critical"
+	case EndSecondCritical:
+		return "second-critical"
+	case EndDensePhases:
+		return "dense-phases"
+	case EndNoContinuation:
+		return "no-continuation"
+	case EndPressureLimit:
+		return "pressure-limit"
+	case EndLowTemperature:
+		return "low-temperature"
+	case EndTooManyPoints:
+		return "too-many-points"
+	}
+	return fmt.Sprintf("EnvelopeEnd(%d)", int(e))
 }
 
 // IncipientPhase is the phase that appears at the saturation point: liquid at

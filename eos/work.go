@@ -24,13 +24,20 @@ type work struct {
 	sgn              []float64 // flash Newton: +1 where v_i is the unknown, −1 where l_i is
 	H                []float64 // (n+2)×(n+2) matrix storage
 	rhs              []float64 // n+2
+
+	crit critCache // for naming single phases
+
+	// tmCut is the tangent-plane distance below which a stationary point
+	// proves instability: tmUnstable, or tmUnstableSat in the saturation
+	// solvers.
+	tmCut float64
 }
 
 func newWork(fl *Fluid, s *Settings) *work {
 	n := fl.n
 	vec := func() []float64 { return make([]float64, n) }
 	return &work{
-		fl: fl, n: n, tol: s.tol(), max: s.maxIter(),
+		fl: fl, n: n, tol: s.tol(), max: s.maxIter(), tmCut: tmUnstable,
 		ts:   newTState(n),
 		feed: newPhase(n), pa: newPhase(n), pb: newPhase(n),
 		d: vec(), lnW: vec(), W: vec(), wn: vec(), wLiq: vec(), wVap: vec(), inc: vec(),

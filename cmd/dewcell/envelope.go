@@ -32,20 +32,10 @@ func envelopeReport(st *study.Study, sys units.System, withPoints bool) (*Report
 	if err != nil {
 		return nil, nil, fmt.Errorf("phase envelope: %w", err)
 	}
-	var warnings []string
 	tU, pU := sys.Unit(units.Temperature), sys.Unit(units.Pressure)
-	switch {
-	case env.NearCritical:
-		last := env.Points[len(env.Points)-1]
-		warnings = append(warnings, fmt.Sprintf("phase envelope: the trace stopped at %.6g %s and %.6g %s, within a few per cent of a critical point it could not cross; no critical point and no bubble branch are given, and the cricondenbar and cricondentherm are the extremes of the dew branch traced (the true cricondenbar can lie a little higher)",
-			tU.FromSI(last.T), tU.Symbol, pU.FromSI(last.P), pU.Symbol))
-	case !env.HasCritical:
-		warnings = append(warnings, "phase envelope: the trace reached no critical point; with a heavy tail the equation of state can turn the saturation curve up to high pressure at low temperature (a liquid-liquid region) instead")
-	}
-	if env.Truncated && !env.NearCritical {
-		last := env.Points[len(env.Points)-1]
-		warnings = append(warnings, fmt.Sprintf("phase envelope: the trace ended at %.6g %s and %.6g %s before returning to low pressure; the points given are converged saturation points",
-			tU.FromSI(last.T), tU.Symbol, pU.FromSI(last.P), pU.Symbol))
+	var warnings []string
+	if msg := envelopeEndText(env, tU, pU); msg != "" {
+		warnings = append(warnings, "phase envelope: "+msg)
 	}
 	cols := []Column{{Name: "type"}, {Name: "temperature", Unit: tU}, {Name: "pressure", Unit: pU}}
 	row := func(kind string, t, p float64) []any { return []any{kind, tU.FromSI(t), pU.FromSI(p)} }
@@ -56,7 +46,8 @@ func envelopeReport(st *study.Study, sys units.System, withPoints bool) (*Report
 	summary.Rows = append(summary.Rows,
 		row("cricondenbar", env.Cricondenbar[0], env.Cricondenbar[1]),
 		row("cricondentherm", env.Cricondentherm[0], env.Cricondentherm[1]))
-	r := &Report{Name: "envelope", Title: "phase envelope of " + fluidName(st)}
+	r := &Report{Name: "envelope", Title: "phase envelope of " + fluidName(st),
+		Fields: []Field{{Column{Name: "trace_end"}, env.End.String()}}}
 	if withPoints {
 		points := Table{Name: "points", Title: "envelope points", Columns: cols}
 		for _, pt := range env.Points {
@@ -66,4 +57,38 @@ func envelopeReport(st *study.Study, sys units.System, withPoints bool) (*Report
 	}
 	r.Tables = append(r.Tables, summary)
 	return r, warnings, nil
+}
+
+// envelopeEndText says in one line where the trace of env stopped and what
+// the points are, in the output units; "" for a whole envelope.
+func envelopeEndText(env *eos.Envelope, tU, pU units.Unit) string {
+	if len(env.Points) == 0 {
+		return ""
+	}
+	last := env.Points[len(env.Points)-1]
+	at := fmt.Sprintf("%.6g %s and %.6g %s", tU.FromSI(last.T), tU.Symbol, pU.FromSI(last.P), pU.Symbol)
+	branch := "the dew branch"
+	if env.HasCritical {
+		branch = "the bubble branch"
+	}
+	switch env.End {
+	case eos.EndClosed:
+		return ""
+	case eos.EndNearCritical:
+		return fmt.Sprintf("the dew branch stops at %s, within a few per cent of a critical point it could not cross; no critical point and no bubble branch are given, and the cricondenbar and cricondentherm are the extremes of the dew branch traced (the true cricondenbar can lie a little higher)", at)
+	case eos.EndSecondCritical:
+		return fmt.Sprintf("the bubble branch ends at %s, where it meets a second critical point; at lower temperatures the model predicts two dense phases, which are not shown", at)
+	case eos.EndDensePhases:
+		if !env.HasCritical {
+			return fmt.Sprintf("the saturation curve reaches no vapour-liquid critical point; the dew branch is shown up to %s, where it turns into the boundary of two dense phases (a liquid-liquid region at low temperature), which is not shown", at)
+		}
+		return fmt.Sprintf("the bubble branch is shown down to %s, where it turns into the boundary of two dense phases (a liquid-liquid region at low temperature), which is not shown", at)
+	case eos.EndNoContinuation:
+		return fmt.Sprintf("%s ends at %s, where no saturation point continues it (typically where two dense phases take over at low temperature); the points given are converged saturation points", branch, at)
+	case eos.EndPressureLimit:
+		return fmt.Sprintf("%s reached %s, the highest pressure searched; the points given are converged saturation points", branch, at)
+	case eos.EndLowTemperature:
+		return fmt.Sprintf("%s reached %s, the lowest temperature traced", branch, at)
+	}
+	return fmt.Sprintf("the trace stopped after %d points, at %s", len(env.Points), at)
 }

@@ -308,9 +308,10 @@ func TestEnvelopeStopsNearCritical(t *testing.T) {
 	}
 }
 
-// The example's bubble branch turns up to high pressure at low temperature
-// (the trace stops there): the warning names the last point, which is the
-// last row of the points table.
+// The example's bubble branch meets a second critical point at low
+// temperature, beyond which the curve bounds two dense phases (the trace
+// stops there): the warning says so in one line and names the last point,
+// which is the last row of the points table; JSON names the end.
 func TestEnvelopeTruncatedWarningNamesTheEnd(t *testing.T) {
 	code, out, stderr := dewcell("envelope", "--format", "json", exampleStudy)
 	if code != 0 {
@@ -325,9 +326,12 @@ func TestEnvelopeTruncatedWarningNamesTheEnd(t *testing.T) {
 		t.Fatal("no points")
 	}
 	last := points[len(points)-1].(map[string]any)
-	want := fmt.Sprintf("the trace ended at %.6g degF and %.6g psia", last["temperature_degF"], last["pressure_psia"])
-	if !strings.Contains(stderr, want) {
-		t.Errorf("stderr lacks %q:\n%s", want, stderr)
+	want := fmt.Sprintf("the bubble branch ends at %.6g degF and %.6g psia, where it meets a second critical point", last["temperature_degF"], last["pressure_psia"])
+	if !strings.Contains(stderr, want) || strings.Count(stderr, "phase envelope:") != 1 {
+		t.Errorf("stderr lacks %q in one line:\n%s", want, stderr)
+	}
+	if doc["trace_end"] != "second-critical" {
+		t.Errorf("trace_end %v, want second-critical", doc["trace_end"])
 	}
 }
 
