@@ -196,6 +196,58 @@ func TestFormats(t *testing.T) {
 	}
 }
 
+// TestFluidEstimates: testdata/user3.toml gives no critical volume for M2
+// and H3. The fluid table shows the volume the model uses, Zc R Tc/Pc with
+// Zc = 0.2918 - 0.0928 omega (Reid, Prausnitz and Sherwood 1977), says so in
+// its estimated column, and standard error warns of it, naming the component
+// and the method; L1, which gives its critical volume, is not mentioned.
+func TestFluidEstimates(t *testing.T) {
+	code, out, stderr := dewcell("fluid", "--format", "json", userFile)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	comps := rows(t, decodeJSON(t, out), "components")
+	// R = 8.31446261815324 J/(mol K) (2019 SI); 1 ft3/lbmol = 6.2427960576144e-5 m3/mol (NIST SP 811 foot and pound)
+	const ft3lbmol = 0.028316846592 / 453.59237
+	for _, c := range []struct {
+		name   string
+		tc, pc float64 // K, Pa, from testdata/user3.toml
+		omega  float64
+		vc     float64 // m3/mol given, 0 for none
+	}{
+		{"L1", 190, 4.6e6, 0.01, 0.099e-3},
+		{"M2", 370, 4.25e6, 0.15, 0},
+		{"H3", 600, 2.5e6, 0.4, 0},
+	} {
+		var row map[string]any
+		for _, r := range comps {
+			if r["component"] == c.name {
+				row = r
+			}
+		}
+		if row == nil {
+			t.Fatalf("no component %s in %v", c.name, comps)
+		}
+		est, _ := row["estimated"].(string)
+		want, src := c.vc, "testdata/user3.toml"
+		if c.vc == 0 {
+			want, src = (0.2918-0.0928*c.omega)*8.31446261815324*c.tc/c.pc, "Reid, Prausnitz and Sherwood (1977) Zc"
+			if !strings.Contains(est, "critical volume estimated") || !strings.Contains(est, "0.2918") {
+				t.Errorf("%s: estimated %q, want the critical-volume estimate named", c.name, est)
+			}
+			if !strings.Contains(stderr, "fluid.properties."+c.name+" gives no critical_volume") || !strings.Contains(stderr, "Reid, Prausnitz and Sherwood 1977") {
+				t.Errorf("standard error %q does not warn of %s's estimated critical volume and its method", stderr, c.name)
+			}
+		} else if est != "" || strings.Contains(stderr, "fluid.properties."+c.name) {
+			t.Errorf("%s gives its critical volume, but estimated is %q and standard error %q", c.name, est, stderr)
+		}
+		checkRel(t, c.name+" critical_volume_ft3_lbmol", num(t, row, "critical_volume_ft3_lbmol"), want/ft3lbmol, 1e-12, src)
+	}
+	if code, out, _ = dewcell("fluid", userFile); code != 0 || !strings.Contains(out, "estimated") || !strings.Contains(out, "critical volume estimated as Zc R Tc/Pc") {
+		t.Errorf("table: exit %d, no estimated column naming the method:\n%s", code, out)
+	}
+}
+
 func contains(s []string, v string) bool {
 	for _, x := range s {
 		if x == v {

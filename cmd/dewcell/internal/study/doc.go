@@ -19,7 +19,8 @@
 //	acentric           = "kesler-lee"  # or "edmister": acentric factors of the pseudo-components
 //
 //	[fluid.properties.NAME]
-//	critical_volume = "0.0986 m3/kmol" # optional, used by the Chueh–Prausnitz interaction coefficients
+//	critical_volume = "0.0986 m3/kmol" # optional, used by the Chueh–Prausnitz interaction coefficients and the viscosity;
+//	                                   # absent: estimated for the viscosity, with a warning (Study.Estimates)
 //	boiling_point   = "-258.7 degF"    # optional
 //	specific_gravity = 0.3             # optional, 60/60 degF
 //

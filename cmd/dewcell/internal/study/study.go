@@ -22,6 +22,11 @@ type Study struct {
 
 	Fluid *eos.Fluid
 	Z     []float64 // feed mole fractions in the order of Fluid's components; they sum to 1
+	// Estimates say, per component of Fluid, how the properties the file
+	// does not give were obtained ("" when it gives them all, or the
+	// library does): a user component's critical volume, the
+	// pseudo-components' correlations.
+	Estimates []string
 
 	Separator []Stage   // in order, the stock tank (standard conditions) follows the last
 	Depletion []float64 // depletion pressures, Pa, falling; nil when not given
