@@ -46,6 +46,7 @@ func TestUsageErrors(t *testing.T) {
 		{[]string{"flash", userFile}, "--pressure"},
 		{[]string{"flash", "--pressure", "3000", userFile}, "missing unit"},
 		{[]string{"flash", "--pressure", "3000 ft", userFile}, "length"},
+		{[]string{"flash", "--pressure", "3000 psi", userFile}, "psia or psig?"},
 		{[]string{"flash", "--pressure", "3000 psia", "--temperature", "220", userFile}, "--temperature"},
 		{[]string{"satpoint", "--temperature", "-600 degF", userFile}, "absolute zero"},
 		{[]string{"demo", "extra"}, "takes no arguments"},

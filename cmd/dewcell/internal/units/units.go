@@ -77,7 +77,7 @@ var kindNames = [...]string{
 // kindExamples show a user what to write for each kind.
 var kindExamples = [...]string{
 	Dimensionless:   `a bare number`,
-	Temperature:     `"245 degF", "118 degC", "390 K" or "705 degR"`,
+	Temperature:     `"245 degF", "118 degC", "390 K" or "705 degR" (also °F, F, °C, C, °R, R)`,
 	Pressure:        `"6200 psia", "1200 psig", "427.5 bara", "10 barg", "42.75 MPa", "101.325 kPa", "1e5 Pa" or "1 atm"`,
 	Length:          `"85 ft", "26 m", "2600 cm" or "1.2 km"`,
 	Area:            `"2400 acre", "970 ha", "9.7 km2", "1.05e8 ft2" or "9.7e6 m2"`,
@@ -187,10 +187,12 @@ func defGauge(key string, scale, inv float64, symbols ...string) Unit {
 
 // Units that the output systems use, and Percent for composition columns.
 var (
+	// The temperature scales accept their usual spellings: degF, °F or F;
+	// degC, °C or C; degR, °R or R; K. Output uses the first.
 	Kelvin    = def(Temperature, "K", 1, 1, 0, "K")
-	DegC      = def(Temperature, "degC", 1, 1, KAt0C, "degC", "°C")
-	DegF      = def(Temperature, "degF", KPerDegR, 1/KPerDegR, DegRAt0F, "degF", "°F")
-	DegR      = def(Temperature, "degR", KPerDegR, 1/KPerDegR, 0, "degR", "°R")
+	DegC      = def(Temperature, "degC", 1, 1, KAt0C, "degC", "°C", "C")
+	DegF      = def(Temperature, "degF", KPerDegR, 1/KPerDegR, DegRAt0F, "degF", "°F", "F")
+	DegR      = def(Temperature, "degR", KPerDegR, 1/KPerDegR, 0, "degR", "°R", "R")
 	Pascal    = def(Pressure, "Pa", 1, 1, 0, "Pa")
 	KPa       = def(Pressure, "kPa", 1e3, 1/1e3, 0, "kPa")
 	MPa       = def(Pressure, "MPa", 1e6, 1/1e6, 0, "MPa")
@@ -247,8 +249,8 @@ func init() {
 // ambiguous lists symbols we refuse because they do not say whether the
 // pressure is absolute or gauge.
 var ambiguous = map[string]string{
-	"psi": `write "psia" (absolute) or "psig" (gauge)`,
-	"bar": `write "bara" (absolute) or "barg" (gauge)`,
+	"psi": `write "psia" for an absolute pressure or "psig" for a gauge one`,
+	"bar": `write "bara" for an absolute pressure or "barg" for a gauge one`,
 }
 
 // Lookup returns the input unit with the given symbol.
@@ -352,7 +354,7 @@ func parse(s string, want Kind) (Unit, float64, error) {
 		return fail(ErrNoUnit, "missing unit; want a %s such as %s", want, want.Examples())
 	}
 	if hint, ok := ambiguous[sym]; ok && want == Pressure {
-		return fail(ErrAmbiguous, "%q does not say whether the pressure is absolute or gauge: %s", sym, hint)
+		return fail(ErrAmbiguous, "%sa or %sg? %q does not say whether the pressure is absolute or gauge; %s", sym, sym, sym, hint)
 	}
 	u, ok := table[sym]
 	if alt, isAlt := alias[want][sym]; isAlt {

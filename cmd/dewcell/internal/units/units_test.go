@@ -33,6 +33,14 @@ var parseTests = []struct {
 	{"491.67 °R", Temperature, 0, 273.15, 1e-15, "definition: 32 degF = 491.67 degR = 273.15 K"},
 	{"-40 °F", Temperature, 0, 233.15, 1e-14, "-40 degF = -40 degC: the scales cross there (definitions)"},
 	{"245degF", Temperature, 0, (245 + 459.67) / 1.8, 1e-15, "definition; the space is optional"},
+	// The usual spellings of the scales: F, C and R alone (NIST SP 811 writes °F, °C and °R).
+	{"245 F", Temperature, 0, (245 + 459.67) / 1.8, 1e-15, "definition: T/K = (t/°F + 459.67)/1.8"},
+	{"-40 F", Temperature, 0, 233.15, 1e-14, "-40 °F = -40 °C (definitions)"},
+	{"118 C", Temperature, 0, 391.15, 1e-15, "definition: T/K = t/°C + 273.15"},
+	{"118C", Temperature, 0, 391.15, 1e-15, "definition; the space is optional"},
+	{"700 R", Temperature, 0, 700 / 1.8, 1e-15, "definition: 1 °R = 5/9 K (NIST SP 811, B.9)"},
+	{"491.67 R", Temperature, 0, 273.15, 1e-15, "definition: 491.67 °R = 273.15 K"},
+	{"390 K", Temperature, 0, 390, 0, "SI"},
 
 	// Pressures against the psia and Pa columns of pr-open.md.
 	{"1000 psia", Pressure, 0, 6894757.293, 1e-10, "pr-open.md part B: 1000 psia = 6894757.293 Pa"},
@@ -113,8 +121,10 @@ var parseErrors = []struct {
 	{"6200 furlongs", Pressure, 0, ErrUnknownUnit, `unknown unit "furlongs"`},
 	{"6200 PSIA", Pressure, 0, ErrUnknownUnit, `did you mean "psia"`},
 	{"42 mpa", Pressure, 0, ErrUnknownUnit, `"MPa"`},
-	{"6200 psi", Pressure, 0, ErrAmbiguous, "psig"},
-	{"300 bar", Pressure, 0, ErrAmbiguous, "barg"},
+	{"6200 psi", Pressure, 0, ErrAmbiguous, "psia or psig?"},
+	{"300 bar", Pressure, 0, ErrAmbiguous, "bara or barg?"},
+	{"245 f", Temperature, 0, ErrUnknownUnit, `did you mean "F"`},
+	{"245 F", Pressure, 0, ErrWrongKind, "temperature"},
 	{"85 ft", Pressure, 0, ErrWrongKind, "length"},
 	{"245 degF", Pressure, 0, ErrWrongKind, "temperature"},
 	{"6200 psia", Temperature, 0, ErrWrongKind, "pressure"},
