@@ -36,7 +36,7 @@ const (
 // run runs the command line args and returns the exit code.
 func run(args []string, stdout, stderr io.Writer) int {
 	app := newApp(stdout, stderr)
-	err := app.Run(args)
+	err := app.Run(flagsFirst(app, args))
 	if err == nil {
 		return 0
 	}
@@ -50,13 +50,68 @@ func run(args []string, stdout, stderr io.Writer) int {
 	return exitFailed // the computation failed, e.g. errors.Is(err, eos.ErrNoConvergence)
 }
 
+// flagsFirst moves the flags of a command, with their values, ahead of its
+// arguments, so that flags may follow the study file as well as precede it:
+// the command-line parser stops reading flags at the first argument.
+// "dewcell flash study.toml --pressure 3000psia" becomes
+// "dewcell flash --pressure 3000psia -- study.toml". A flag is a word that
+// starts with "-" and is longer than "-"; its value is the next word unless
+// the flag is written --name=value or takes no value (a boolean flag).
+// Everything after "--" is an argument. A flag the command does not have
+// is moved too, and the parser reports it. With --help (or -h) the
+// arguments are dropped: the command's help is shown whatever follows.
+func flagsFirst(app *cli.App, args []string) []string {
+	if len(args) < 3 {
+		return args
+	}
+	cmd := app.Command(args[1])
+	if cmd == nil || cmd.Name == "help" {
+		return args
+	}
+	takesValue := map[string]bool{}
+	for _, f := range cmd.Flags {
+		tv, ok := f.(interface{ TakesValue() bool })
+		for _, name := range f.Names() {
+			takesValue[name] = ok && tv.TakesValue()
+		}
+	}
+	var flags, params []string
+	rest := args[2:]
+	for i := 0; i < len(rest); i++ {
+		a := rest[i]
+		switch {
+		case a == "--":
+			params = append(params, rest[i+1:]...)
+			i = len(rest)
+		case len(a) < 2 || a[0] != '-':
+			params = append(params, a)
+		default:
+			flags = append(flags, a)
+			name := strings.TrimLeft(a, "-")
+			if name == "help" || name == "h" {
+				return []string{args[0], args[1], "--help"}
+			}
+			if !strings.Contains(name, "=") && takesValue[name] && i+1 < len(rest) {
+				flags = append(flags, rest[i+1])
+				i++
+			}
+		}
+	}
+	out := append(append([]string(nil), args[:2]...), flags...)
+	if len(params) > 0 {
+		out = append(append(out, "--"), params...)
+	}
+	return out
+}
+
 func newApp(stdout, stderr io.Writer) *cli.App {
 	app := &cli.App{
 		Name:      "dewcell",
 		Usage:     "Peng–Robinson fluid model for gas-condensate reservoirs",
 		UsageText: "dewcell COMMAND [flags] STUDY.toml",
-		Description: "Flags go before the study file. Temperatures and pressures carry their unit, " +
-			`as in the study file: --pressure "3000 psia", --temperature "220 degF".`,
+		Description: "Flags may come before or after the study file; after \"--\" every word is an argument. " +
+			"Temperatures and pressures carry their unit, as in the study file: " +
+			`--pressure "3000 psia", --temperature "220 degF" (also °F or F, degC, °C or C, K, degR, °R or R).`,
 		HideVersion:    true,
 		Writer:         stdout,
 		ErrWriter:      stderr,
@@ -160,7 +215,7 @@ func commonOptions(c *cli.Context, wantStudy bool) (*options, error) {
 	case wantStudy && len(args) == 0:
 		return nil, cli.Exit(fmt.Sprintf("%s needs a study file; %s", c.Command.Name, usage), exitUsage)
 	case wantStudy && len(args) > 1:
-		return nil, cli.Exit(fmt.Sprintf("%s takes one study file, got %d arguments (%s); flags go before the study file; %s",
+		return nil, cli.Exit(fmt.Sprintf("%s takes one study file, got %d arguments (%s); %s",
 			c.Command.Name, len(args), strings.Join(args, " "), usage), exitUsage)
 	case wantStudy:
 		o.study = args[0]

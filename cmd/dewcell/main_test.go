@@ -5,9 +5,11 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"flag"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -39,7 +41,9 @@ func TestUsageErrors(t *testing.T) {
 		{[]string{"frobnicate"}, `unknown command "frobnicate"`},
 		{[]string{"fluid"}, "needs a study file"},
 		{[]string{"fluid", userFile, userFile}, "one study file"},
-		{[]string{"fluid", userFile, "--units", "metric"}, "flags go before the study file"},
+		{[]string{"fluid", userFile, "--units", "metric", "extra.toml"}, "takes one study file, got 2 arguments"},
+		{[]string{"fluid", userFile, "--", "--units", "metric"}, "takes one study file, got 3 arguments"},
+		{[]string{"fluid", userFile, "--colour", "red"}, "colour"},
 		{[]string{"fluid", "--colour", "red", userFile}, "colour"},
 		{[]string{"fluid", "--units", "imperial", userFile}, "--units"},
 		{[]string{"fluid", "--format", "xml", userFile}, "--format"},
@@ -66,10 +70,61 @@ func TestUsageErrors(t *testing.T) {
 	}
 }
 
+// TestFlagsAnywhere: flags may follow the study file as well as precede it,
+// with their values as --name value or --name=value; a boolean flag takes no
+// value; after "--" every word is an argument.
+func TestFlagsAnywhere(t *testing.T) {
+	same := func(before, after []string) {
+		t.Helper()
+		c1, o1, e1 := dewcell(before...)
+		c2, o2, e2 := dewcell(after...)
+		if c1 != 0 || c2 != 0 || o1 != o2 {
+			t.Errorf("dewcell %q (exit %d, %s) and dewcell %q (exit %d, %s) differ", before, c1, e1, after, c2, e2)
+		}
+	}
+	same([]string{"fluid", "--units", "metric", "--format", "json", userFile},
+		[]string{"fluid", userFile, "--units", "metric", "--format=json"})
+	same([]string{"fluid", "--format", "csv", userFile}, []string{"fluid", "--format", "csv", "--", userFile})
+	same([]string{"flash", "--pressure", "3000 psia", "--temperature", "220 degF", "--format", "json", o9Study},
+		[]string{"flash", "--format", "json", o9Study, "--pressure=3000 psia", "--temperature", "220 degF"})
+
+	app := newApp(io.Discard, io.Discard)
+	for _, c := range []struct{ in, want []string }{
+		// a boolean flag takes no value: what follows it is the study file
+		{[]string{"dewcell", "deplete", "s.toml", "--from-initial", "x.toml", "--steps", "4"},
+			[]string{"dewcell", "deplete", "--from-initial", "--steps", "4", "--", "s.toml", "x.toml"}},
+		// a value that starts with "-" stays with its flag; "-" alone is an argument
+		{[]string{"dewcell", "flash", "s.toml", "--temperature", "-40 degF", "-"},
+			[]string{"dewcell", "flash", "--temperature", "-40 degF", "--", "s.toml", "-"}},
+		// after "--", flags are arguments
+		{[]string{"dewcell", "fluid", "s.toml", "--", "--units", "metric"},
+			[]string{"dewcell", "fluid", "--", "s.toml", "--units", "metric"}},
+		// an unknown flag is moved, for the parser to report
+		{[]string{"dewcell", "fluid", "s.toml", "--colour", "red"},
+			[]string{"dewcell", "fluid", "--colour", "--", "s.toml", "red"}},
+		// --help shows the command's help, whatever else is there
+		{[]string{"dewcell", "flash", "s.toml", "--help"}, []string{"dewcell", "flash", "--help"}},
+		{[]string{"dewcell", "flash", "-h", "s.toml"}, []string{"dewcell", "flash", "--help"}},
+		// help, an unknown command and the bare program are left alone
+		{[]string{"dewcell", "help", "flash"}, []string{"dewcell", "help", "flash"}},
+		{[]string{"dewcell", "frobnicate", "s.toml", "--units", "metric"}, []string{"dewcell", "frobnicate", "s.toml", "--units", "metric"}},
+		{[]string{"dewcell"}, []string{"dewcell"}},
+	} {
+		if got := flagsFirst(app, c.in); !slices.Equal(got, c.want) {
+			t.Errorf("flagsFirst(%q) = %q, want %q", c.in, got, c.want)
+		}
+	}
+}
+
 func TestHelp(t *testing.T) {
 	code, stdout, _ := dewcell("--help")
 	if code != 0 || !strings.Contains(stdout, "satpoint") {
 		t.Errorf("dewcell --help: exit %d, output %q; want 0 and the command list", code, stdout)
+	}
+	for _, args := range [][]string{{"flash", "--help"}, {"flash", o9Study, "--help"}, {"flash", "--help", o9Study}} {
+		if code, stdout, stderr := dewcell(args...); code != 0 || !strings.Contains(stdout, "--pressure") {
+			t.Errorf("dewcell %q: exit %d, output %q, %q; want 0 and the flags of flash", args, code, stdout, stderr)
+		}
 	}
 }
 
