@@ -3,6 +3,8 @@ package study
 import (
 	"errors"
 	"fmt"
+	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -111,13 +113,65 @@ func (s *Study) StandardConditions(sys units.System) units.Conditions {
 	return c
 }
 
-// Read reads and checks the study file at path and builds its fluid.
+// Read reads and checks the study file at path and builds its fluid. The
+// path must name a regular file (or a symbolic link to one): a named pipe,
+// a device or a folder is refused before it is opened, since reading a pipe
+// would wait for a writer.
 func Read(path string) (*Study, error) {
-	data, err := os.ReadFile(path)
+	fail := func(err error) (*Study, error) {
+		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read the study file: %v", pathCause(err)), Err: err}
+	}
+	fi, err := os.Stat(path)
 	if err != nil {
-		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read the study file: %v", errors.Unwrap(err)), Err: err}
+		return fail(err)
+	}
+	if !fi.Mode().IsRegular() {
+		return nil, &Error{File: path, Msg: fmt.Sprintf("is %s, not a regular file; give the path of a study file (TOML)", fileKind(fi.Mode()))}
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return fail(err)
+	}
+	defer f.Close()
+	if fi, err = f.Stat(); err != nil {
+		return fail(err)
+	}
+	if !fi.Mode().IsRegular() { // replaced since the check above
+		return nil, &Error{File: path, Msg: fmt.Sprintf("is %s, not a regular file; give the path of a study file (TOML)", fileKind(fi.Mode()))}
+	}
+	data, err := io.ReadAll(f)
+	if err != nil {
+		return fail(err)
 	}
 	return Parse(path, data)
+}
+
+// pathCause is the reason of a file-system error without the operation and
+// path it repeats ("no such file or directory" for "open x: no such file
+// or directory").
+func pathCause(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+// fileKind names a kind of file that is not a regular one, for messages.
+func fileKind(m fs.FileMode) string {
+	switch {
+	case m.IsDir():
+		return "a folder"
+	case m&fs.ModeNamedPipe != 0:
+		return "a named pipe (FIFO)"
+	case m&fs.ModeSocket != 0:
+		return "a socket"
+	case m&fs.ModeDevice != 0:
+		return "a device"
+	case m&fs.ModeSymlink != 0:
+		return "a symbolic link"
+	}
+	return "a special file"
 }
 
 // Parse checks the study in data, read from the file called name (which
@@ -319,9 +373,9 @@ func (r *reader) lab(s *Study, f *fileLab, dir string) {
 		fi, err := os.Stat(p)
 		switch {
 		case err != nil:
-			r.failf(k, "cannot use %s: %v", p, errors.Unwrap(err))
-		case fi.IsDir():
-			r.failf(k, "%s is a directory; want a CSV file", p)
+			r.failf(k, "cannot use %s: %v", p, pathCause(err))
+		case !fi.Mode().IsRegular(): // a named pipe would make the reader wait
+			r.failf(k, "%s is %s, not a regular file; want a CSV file", p, fileKind(fi.Mode()))
 		}
 		return p
 	}
