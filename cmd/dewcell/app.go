@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -184,7 +185,7 @@ func sharedFlags() []cli.Flag {
 		},
 		&cli.StringFlag{
 			Name:  flagOutput,
-			Usage: "write the result to `FILE`, in full or not at all, instead of standard output",
+			Usage: "write the result to `FILE`, in full or not at all, instead of standard output (\"-\": standard output)",
 		},
 	}
 }
@@ -193,7 +194,9 @@ func sharedFlags() []cli.Flag {
 type options struct {
 	sys    units.System
 	format string
-	output string // "" for standard output
+	output string // --output as given; "" for standard output
+	target string // the file written: output, its symbolic links resolved
+	direct bool   // target is a device or a named pipe, written in place
 	study  string // path of the study file, "" for commands without one
 	stdout io.Writer
 	stderr io.Writer
@@ -220,37 +223,78 @@ func commonOptions(c *cli.Context, wantStudy bool) (*options, error) {
 	case wantStudy:
 		o.study = args[0]
 	}
+	if o.output == "-" { // the usual name of standard output
+		o.output = ""
+	}
 	if o.output != "" {
-		if err := checkOutput(o.output, o.study); err != nil {
+		var err error
+		if o.target, o.direct, err = checkOutput(o.output, o.study); err != nil {
 			return nil, cli.Exit("--output: "+err.Error(), exitUsage)
 		}
 	}
 	return o, nil
 }
 
-// checkOutput refuses an output path that is the study file, a directory, or
-// in a directory that does not exist.
-func checkOutput(out, studyPath string) error {
+// checkOutput refuses, before anything is computed, an output path that is
+// the study file, a folder, a symbolic link to nowhere, or in a folder that
+// does not exist or where no file can be created (a file is created there
+// and removed). It returns the file to write, the path with its symbolic
+// links resolved, and whether that is a device or a named pipe, which is
+// written in place rather than replaced.
+func checkOutput(out, studyPath string) (target string, direct bool, err error) {
 	if studyPath != "" {
 		a, errA := filepath.Abs(out)
 		b, errB := filepath.Abs(studyPath)
 		if errA == nil && errB == nil && a == b {
-			return fmt.Errorf("%s is the study file; refusing to overwrite it", out)
+			return "", false, fmt.Errorf("%s is the study file; refusing to overwrite it", out)
 		}
 		fo, errO := os.Stat(out)
-		fs, errS := os.Stat(studyPath)
-		if errO == nil && errS == nil && os.SameFile(fo, fs) {
-			return fmt.Errorf("%s is the study file; refusing to overwrite it", out)
+		fst, errS := os.Stat(studyPath)
+		if errO == nil && errS == nil && os.SameFile(fo, fst) {
+			return "", false, fmt.Errorf("%s is the study file; refusing to overwrite it", out)
 		}
 	}
-	if fi, err := os.Stat(out); err == nil && fi.IsDir() {
-		return fmt.Errorf("%s is a directory", out)
+	target = out
+	if li, err := os.Lstat(out); err == nil && li.Mode()&fs.ModeSymlink != 0 {
+		if target, err = filepath.EvalSymlinks(out); err != nil {
+			return "", false, fmt.Errorf("%s is a symbolic link that cannot be followed (%v)", out, cause(err))
+		}
 	}
-	dir := filepath.Dir(out)
-	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
-		return fmt.Errorf("directory %s does not exist", dir)
+	fi, err := os.Stat(target)
+	switch {
+	case err == nil && fi.IsDir():
+		return "", false, fmt.Errorf("%s is a folder; give a file name", out)
+	case err == nil && !fi.Mode().IsRegular():
+		return target, true, nil // a device (/dev/null) or a named pipe: written as it is
+	case err != nil && !errors.Is(err, fs.ErrNotExist):
+		return "", false, fmt.Errorf("cannot use %s (%v)", out, cause(err))
 	}
-	return nil
+	dir := filepath.Dir(target)
+	if di, err := os.Stat(dir); err != nil || !di.IsDir() {
+		return "", false, fmt.Errorf("the folder %s does not exist", dir)
+	}
+	probe, err := os.CreateTemp(dir, ".dewcell-*.tmp")
+	if err != nil {
+		return "", false, fmt.Errorf("cannot create %s: no file can be made in the folder %s (%v); choose another --output", out, dir, cause(err))
+	}
+	probe.Close()
+	os.Remove(probe.Name())
+	return target, false, nil
+}
+
+// cause is the reason of a file-system error without the operation and the
+// path it repeats: "permission denied" for "open /x/.y.tmp: permission
+// denied", so that no message names a temporary file.
+func cause(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	var le *os.LinkError
+	if errors.As(err, &le) {
+		return le.Err
+	}
+	return err
 }
 
 // loadStudy reads the study file, printing its warnings to standard error;
@@ -323,17 +367,40 @@ func (o *options) emit(reports ...*Report) error {
 	if err := render(&buf, o.format, reports...); err != nil {
 		return err
 	}
-	if o.output == "" {
+	switch {
+	case o.output == "":
 		if _, err := o.stdout.Write(buf.Bytes()); err != nil {
 			return err
 		}
-	} else if err := writeAtomic(o.output, buf.Bytes()); err != nil {
-		return fmt.Errorf("--output: %w", err)
+	case o.direct:
+		if err := writeInPlace(o.target, buf.Bytes()); err != nil {
+			return fmt.Errorf("--output: cannot write %s: %v", o.output, cause(err))
+		}
+	default:
+		if err := writeAtomic(o.target, buf.Bytes()); err != nil {
+			return fmt.Errorf("--output: cannot write %s: %v", o.output, cause(err))
+		}
 	}
 	fmt.Fprintln(o.stderr, caution)
 	return nil
 }
 
+// writeInPlace writes data to an existing device or named pipe.
+func writeInPlace(path string, data []byte) error {
+	f, err := os.OpenFile(path, os.O_WRONLY, 0)
+	if err != nil {
+		return err
+	}
+	if _, err := f.Write(data); err != nil {
+		f.Close()
+		return err
+	}
+	return f.Close()
+}
+
+// writeAtomic writes data to a temporary file beside path and renames it
+// into place. Its errors come from the file system and may name the
+// temporary file; callers report cause(err) with the path.
 func writeAtomic(path string, data []byte) (err error) {
 	dir, base := filepath.Split(path)
 	if dir == "" {

@@ -180,6 +180,45 @@ func TestOutputFile(t *testing.T) {
 		t.Errorf("--output into a missing directory: exit %d, want 2", code)
 	}
 
+	// "-" is standard output, not a file called "-".
+	cwd, err := os.Getwd()
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Chdir(dir)
+	code, stdout, stderr = dewcell("fluid", "--format", "json", "--output", "-", filepath.Join(cwd, userFile))
+	if code != 0 || stdout != direct {
+		t.Errorf("--output -: exit %d, stdout %q (%s); want what standard output gets without it", code, stdout, stderr)
+	}
+	if _, err := os.Lstat(filepath.Join(dir, "-")); !os.IsNotExist(err) {
+		t.Errorf("--output - made a file called -")
+	}
+	t.Chdir(cwd)
+
+	// Through a symbolic link: the file it points to is written, the link stays.
+	link := filepath.Join(dir, "link.json")
+	if err := os.Symlink("fluid.json", link); err != nil {
+		t.Fatal(err)
+	}
+	if code, _, stderr = dewcell("fluid", "--units", "metric", "--format", "json", "--output", link, userFile); code != 0 {
+		t.Errorf("--output through a link: exit %d: %s", code, stderr)
+	}
+	if li, err := os.Lstat(link); err != nil || li.Mode()&os.ModeSymlink == 0 {
+		t.Errorf("--output replaced the symbolic link %s", link)
+	}
+	if got, _ := os.ReadFile(filepath.Join(dir, "fluid.json")); !strings.Contains(string(got), "critical_pressure_bara") {
+		t.Errorf("--output through a link did not write the file it points to")
+	}
+	os.Remove(link)
+
+	// A device is written as it is: /dev/null takes the result and stays a device.
+	if code, stdout, stderr = dewcell("fluid", "--output", os.DevNull, userFile); code != 0 || stdout != "" {
+		t.Errorf("--output %s: exit %d, stdout %q, stderr %s", os.DevNull, code, stdout, stderr)
+	}
+	if fi, err := os.Stat(os.DevNull); err != nil || fi.Mode().IsRegular() {
+		t.Errorf("%s is no longer a device", os.DevNull)
+	}
+
 	// A failed computation leaves nothing: no saturation point far above the
 	// cricondentherm (pr-open.md: O9 is single-phase vapour there; its dew
 	// point at 220 degF is 3797.8 psia), or a solver error: exit 1 either way.
@@ -192,6 +231,49 @@ func TestOutputFile(t *testing.T) {
 		t.Errorf("a failed run left %s", failed)
 	}
 	onlyFile(t, dir, "fluid.json", "study.toml")
+}
+
+// TestOutputUnwritable: --output into a folder where no file can be made is
+// refused before anything is computed, naming the user's path and not a
+// temporary file: the satpoint below would fail as a computation (exit 1)
+// if it ran.
+func TestOutputUnwritable(t *testing.T) {
+	var folder string
+	ro := filepath.Join(t.TempDir(), "ro")
+	if err := os.Mkdir(ro, 0o500); err != nil {
+		t.Fatal(err)
+	}
+	if f, err := os.CreateTemp(ro, "probe"); err != nil {
+		folder = ro
+	} else { // the superuser writes anywhere; try a read-only system folder
+		f.Close()
+		os.Remove(f.Name())
+		for _, d := range []string{"/sys", "/proc"} {
+			if fi, err := os.Stat(d); err == nil && fi.IsDir() {
+				if f, err := os.CreateTemp(d, "probe"); err != nil {
+					folder = d
+					break
+				} else {
+					f.Close()
+					os.Remove(f.Name())
+				}
+			}
+		}
+	}
+	if folder == "" {
+		t.Skip("no folder here refuses new files")
+	}
+	out := filepath.Join(folder, "sat.json")
+	code, stdout, stderr := dewcell("satpoint", "--temperature", "1500 degF", "--output", out, o9Study)
+	if code != 2 || stdout != "" || !strings.Contains(stderr, "--output") || !strings.Contains(stderr, out) || strings.Contains(stderr, ".tmp") {
+		t.Errorf("--output %s: exit %d, stderr %q; want 2 and a refusal naming %s and no temporary file", out, code, stderr, out)
+	}
+	// A write that fails is reported with the user's path, not the temporary file's.
+	if err := writeAtomic(out, []byte("x")); err == nil {
+		t.Fatalf("writeAtomic into %s succeeded", folder)
+	} else if msg := cause(err).Error(); strings.Contains(msg, ".tmp") || strings.Contains(msg, folder) {
+		t.Errorf("cause of the failed write %q names a path", msg)
+	}
 }
 
 // onlyFile fails if dir holds other files than names (a temporary file left
