@@ -346,13 +346,14 @@ func (o *options) warn(msgs ...string) {
 	}
 }
 
-// quantityFlag reads a flag holding a quantity with its unit; ok is false
+// quantityFlag reads a flag holding the pressure or temperature of a state
+// with its unit (units.ParseState: out of range is an error); ok is false
 // when the flag was not given.
 func quantityFlag(c *cli.Context, name string, kind units.Kind, atm float64) (v float64, ok bool, err error) {
 	if !c.IsSet(name) {
 		return 0, false, nil
 	}
-	v, err = units.Parse(c.String(name), kind, atm)
+	v, err = units.ParseState(c.String(name), kind, atm)
 	if err != nil {
 		return 0, false, cli.Exit(fmt.Sprintf("--%s: %v", name, err), exitUsage)
 	}

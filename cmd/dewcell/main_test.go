@@ -53,6 +53,15 @@ func TestUsageErrors(t *testing.T) {
 		{[]string{"flash", "--pressure", "3000 psi", userFile}, "psia or psig?"},
 		{[]string{"flash", "--pressure", "3000 psia", "--temperature", "220", userFile}, "--temperature"},
 		{[]string{"satpoint", "--temperature", "-600 degF", userFile}, "absolute zero"},
+		// Out of the range of a state (1 kPa to 400 MPa, 100 K to 1500 K; units.ParseState),
+		// in the unit given: 400 MPa = 58015.1 psia = 4000 bara, 1500 K = 2240.33 degF.
+		{[]string{"flash", "--pressure", "1e30 psia", o9Study}, "--pressure: \"1e30 psia\": out of range; want a pressure from 0.145038 psia to 58015.1 psia"},
+		{[]string{"flash", "--pressure", "1e-30 psia", o9Study}, "--pressure: \"1e-30 psia\": out of range"},
+		{[]string{"flash", "--units", "metric", "--pressure", "1e30 bara", o9Study}, "from 0.01 bara to 4000 bara"},
+		{[]string{"flash", "--pressure", "3000 psia", "--temperature", "1e9 degF", o9Study}, "--temperature: \"1e9 degF\": out of range; want a temperature from -279.67 degF to 2240.33 degF"},
+		{[]string{"satpoint", "--temperature", "1e9 degF", o9Study}, "2240.33 degF"},
+		{[]string{"deplete", "--pressures", "3000 psia, 1e30 psia", o9Study}, "1e30 psia\": out of range; want a pressure from 0.145038 psia"},
+		{[]string{"deplete", "--pressures", "3000 psia, 1e30 psia", o9Study}, "--pressures: item 2"},
 		{[]string{"demo", "extra"}, "takes no arguments"},
 		{[]string{"demo", "--format", "csv"}, "CSV"},
 	}

@@ -243,17 +243,17 @@ func (r *reader) standard(s *Study, f *fileStandard) {
 		return
 	}
 	r.atm = 0 // the atmospheric pressure itself cannot be a gauge value
-	if p, ok := r.quantity("standard_conditions.atmospheric_pressure", f.Atmospheric, units.Pressure, false); ok {
+	if p, ok := r.state("standard_conditions.atmospheric_pressure", f.Atmospheric, units.Pressure, false); ok {
 		if p <= 0 {
 			r.failf("standard_conditions.atmospheric_pressure", "must be above zero")
 		}
 		s.Atmospheric = p
 	}
 	r.atm = s.Atmospheric
-	if t, ok := r.quantity("standard_conditions.temperature", f.Temperature, units.Temperature, false); ok {
+	if t, ok := r.state("standard_conditions.temperature", f.Temperature, units.Temperature, false); ok {
 		s.standard.T, s.standardSet[0] = t, true
 	}
-	if p, ok := r.quantity("standard_conditions.pressure", f.Pressure, units.Pressure, false); ok {
+	if p, ok := r.state("standard_conditions.pressure", f.Pressure, units.Pressure, false); ok {
 		if p <= 0 {
 			r.failf("standard_conditions.pressure", "must be above zero")
 		}
@@ -261,8 +261,9 @@ func (r *reader) standard(s *Study, f *fileStandard) {
 	}
 }
 
+// positivePressure reads the pressure of a state (units.ParseState).
 func (r *reader) positivePressure(k string, v value, required bool) float64 {
-	p, ok := r.quantity(k, v, units.Pressure, required)
+	p, ok := r.state(k, v, units.Pressure, required)
 	if ok && p <= 0 {
 		r.failf(k, "must be above zero absolute pressure")
 	}
@@ -275,7 +276,7 @@ func (r *reader) reservoir(s *Study, f *fileReservoir) {
 		return
 	}
 	res := &s.Reservoir
-	res.Temperature, _ = r.quantity("reservoir.temperature", f.Temperature, units.Temperature, true)
+	res.Temperature, _ = r.state("reservoir.temperature", f.Temperature, units.Temperature, true)
 	res.InitialPressure = r.positivePressure("reservoir.initial_pressure", f.InitialPressure, false)
 	res.AbandonmentPressure = r.positivePressure("reservoir.abandonment_pressure", f.AbandonmentPressure, false)
 	if res.InitialPressure > 0 && res.AbandonmentPressure >= res.InitialPressure {
@@ -319,7 +320,7 @@ func (r *reader) separator(s *Study, f *fileSeparator) {
 	for i, st := range f.Stage {
 		k := fmt.Sprintf("separator.stage[%d]", i+1)
 		p := r.positivePressure(k+".pressure", st.Pressure, true)
-		t, _ := r.quantity(k+".temperature", st.Temperature, units.Temperature, true)
+		t, _ := r.state(k+".temperature", st.Temperature, units.Temperature, true)
 		if i > 0 && p >= s.Separator[i-1].Pressure && r.err == nil {
 			r.failf(k+".pressure", "must be below the pressure of stage %d: the separator pressures fall along the train", i)
 		}

@@ -112,6 +112,15 @@ var badStudies = []struct {
 	{"ambiguous pressure", `initial_pressure = "5200 psia"`, `initial_pressure = "5200 psi"`, "reservoir.initial_pressure", "psig"},
 	{"below absolute zero", `temperature = "245 degF"`, `temperature = "-500 degF"`, "reservoir.temperature", "absolute zero"},
 	{"not finite", `initial_pressure = "5200 psia"`, `initial_pressure = "Inf psia"`, "reservoir.initial_pressure", "finite"},
+	// The range of a state: 1 kPa to 400 MPa (0.145038 to 58015.1 psia), 100 K to 1500 K
+	// (-279.67 to 2240.33 degF), given in the unit of the input (units.ParseState).
+	{"absurd pressure", `initial_pressure = "5200 psia"`, `initial_pressure = "1e30 psia"`, "reservoir.initial_pressure", "out of range; want a pressure from 0.145038 psia to 58015.1 psia"},
+	{"tiny pressure", `abandonment_pressure = "700 psia"`, `abandonment_pressure = "1e-30 psia"`, "reservoir.abandonment_pressure", "from 0.145038 psia"},
+	{"absurd temperature", `temperature = "245 degF"`, `temperature = "1e9 degF"`, "reservoir.temperature", "out of range; want a temperature from -279.67 degF to 2240.33 degF"},
+	{"absurd separator pressure", `pressure = "815 psia"`, `pressure = "5000 bara"`, "separator.stage[1].pressure", "from 0.01 bara to 4000 bara"},
+	{"absurd separator temperature", `temperature = "75 degF"`, `temperature = "50 K"`, "separator.stage[1].temperature", "from 100 K to 1500 K"},
+	{"absurd depletion pressure", `pressures = ["4000 psia"`, `pressures = ["1e30 psia"`, "depletion.pressures[1]", "out of range"},
+	{"absurd standard temperature", "[[separator.stage]]", "[standard_conditions]\ntemperature = \"2000 degC\"\n\n[[separator.stage]]", "standard_conditions.temperature", "from -173.15 degC to 1226.85 degC"},
 	{"missing temperature", "temperature = \"245 degF\"\ninitial", "initial", "reservoir.temperature", "missing"},
 	{"missing reservoir", "[reservoir]\ntemperature = \"245 degF\"\ninitial_pressure = \"5200 psia\"\narea = \"2400 acre\"\nnet_thickness = \"85 ft\"\nporosity = 0.17\nwater_saturation = 0.22\nabandonment_pressure = \"700 psia\"\n", "", "reservoir", "missing section"},
 	{"porosity as string", "porosity = 0.17", `porosity = "0.17"`, "reservoir.porosity", "bare number"},

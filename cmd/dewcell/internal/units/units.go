@@ -269,6 +269,25 @@ var (
 	ErrNotFinite   = errors.New("not a finite number")
 	ErrNegative    = errors.New("below zero")
 	ErrNoAtm       = errors.New("gauge pressure without an atmospheric pressure")
+	ErrOutOfRange  = errors.New("outside the accepted range")
+)
+
+// The range of the pressures and temperatures of a fluid's state (the
+// reservoir, a separator stage, the standard conditions, a flash) that
+// ParseState accepts.
+//
+// The pressures are those the equation-of-state solvers search: saturation
+// points are sought from 400 MPa (58,015 psia) down to 1 kPa (0.145 psia),
+// and no reservoir or surface state lies outside. The temperatures reach
+// well beyond any reservoir or process plant, from 100 K (−279.67 °F, below
+// the coldest cryogenic gas plant) to 1500 K (2240.33 °F), where the
+// component properties and correlations long stop meaning anything (common
+// practice, no published source).
+const (
+	MinStatePressure    = 1e3   // Pa
+	MaxStatePressure    = 400e6 // Pa
+	MinStateTemperature = 100.0 // K
+	MaxStateTemperature = 1500  // K
 )
 
 // Error describes why a string could not be read as a quantity, in the manner
@@ -331,6 +350,47 @@ func Parse(s string, want Kind, atm float64) (float64, error) {
 		return fail(ErrNegative, "a %s cannot be negative", want)
 	}
 	return si, nil
+}
+
+// ParseState reads s as Parse does and, for a pressure or a temperature,
+// checks that it lies within the range of a fluid's state
+// (MinStatePressure to MaxStatePressure, MinStateTemperature to
+// MaxStateTemperature), a value outside being ErrOutOfRange with the range
+// given in the unit of s. Other kinds are read as Parse reads them.
+func ParseState(s string, want Kind, atm float64) (float64, error) {
+	si, err := Parse(s, want, atm)
+	if err != nil {
+		return 0, err
+	}
+	var lo, hi float64
+	switch want {
+	case Pressure:
+		lo, hi = MinStatePressure, MaxStatePressure
+	case Temperature:
+		lo, hi = MinStateTemperature, MaxStateTemperature
+	default:
+		return si, nil
+	}
+	if si >= lo && si <= hi {
+		return si, nil
+	}
+	u, _, _ := parse(s, want) // it parsed above
+	in := func(x float64) string {
+		if u.gauge {
+			x -= atm
+		}
+		return strconv.FormatFloat(u.FromSI(x), 'g', 6, 64) + " " + u.Symbol
+	}
+	why := fmt.Sprintf("%g K to %g K", lo, hi)
+	if want == Pressure {
+		why = fmt.Sprintf("%g kPa to %g MPa, the pressures the equation-of-state solvers search", lo/1e3, hi/1e6)
+	}
+	what := "out of range"
+	if want == Pressure && si <= 0 {
+		what = "out of range: an absolute pressure must be above zero"
+	}
+	return 0, &Error{Input: s, Want: want, Err: ErrOutOfRange,
+		msg: fmt.Sprintf("%s; want a %s from %s to %s (%s)", what, want, in(lo), in(hi), why)}
 }
 
 // parse splits s into a number and a unit of kind want.
