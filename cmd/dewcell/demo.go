@@ -60,6 +60,15 @@ func demoCommand() *cli.Command {
 			if err := checkDemoDir(dir); err != nil {
 				return cli.Exit(fmt.Sprintf("--%s: %v", flagDir, err), exitUsage)
 			}
+			// The new folder is made beside dir: check, before computing,
+			// that a folder can be made there.
+			parent := filepath.Dir(filepath.Clean(dir))
+			probe, err := os.MkdirTemp(parent, ".dewcell-*.tmp")
+			if err != nil {
+				return cli.Exit(fmt.Sprintf("--%s: cannot write %s: no folder can be made in %s (%v); choose another with --%s",
+					flagDir, dir, parent, cause(err), flagDir), exitUsage)
+			}
+			os.Remove(probe)
 			st, err := study.Parse("examples/"+examples.StudyName, examples.Study)
 			if err != nil {
 				return fmt.Errorf("the bundled example: %w", err) // a defect, not the user's input
@@ -76,7 +85,7 @@ func demoCommand() *cli.Command {
 				if errors.As(err, &refused) { // the folder changed while demo ran
 					return cli.Exit(fmt.Sprintf("--%s: %v", flagDir, err), exitUsage)
 				}
-				return fmt.Errorf("--%s: %w", flagDir, err)
+				return fmt.Errorf("--%s: cannot write %s: %v", flagDir, dir, cause(err))
 			}
 			if note != "" {
 				o.warn(note)

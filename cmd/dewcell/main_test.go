@@ -272,6 +272,11 @@ func TestOutputUnwritable(t *testing.T) {
 	if folder == "" {
 		t.Skip("no folder here refuses new files")
 	}
+	// demo checks its folder's parent the same way before it computes.
+	demoDir := filepath.Join(folder, "demo-out")
+	if code, stdout, stderr := dewcell("demo", "--dir", demoDir); code != 2 || stdout != "" || !strings.Contains(stderr, "--dir") || !strings.Contains(stderr, demoDir) || strings.Contains(stderr, ".tmp") || strings.Contains(stderr, "demo: ") {
+		t.Errorf("demo --dir %s: exit %d, stderr %q; want 2 before computing, naming %s and no temporary folder", demoDir, code, stderr, demoDir)
+	}
 	out := filepath.Join(folder, "sat.json")
 	code, stdout, stderr := dewcell("satpoint", "--temperature", "1500 degF", "--output", out, o9Study)
 	if code != 2 || stdout != "" || !strings.Contains(stderr, "--output") || !strings.Contains(stderr, out) || strings.Contains(stderr, ".tmp") {
