@@ -74,7 +74,8 @@ type SeparatorResult struct {
 	OilVolume  float64   // stock-tank oil volume at standard conditions, m³
 	OilM       float64   // stock-tank oil molar mass, kg/mol (0 when no oil)
 	OilDensity float64   // kg/m³ at standard conditions, volume-shifted when the fluid is
-	OilSG      float64   // 60/60 °F specific gravity (density over WaterDensity60F)
+	OilRho60F  float64   // kg/m³ at 60 °F and 14.696 psia, whatever the standard conditions
+	OilSG      float64   // 60/60 °F specific gravity: OilRho60F over WaterDensity60F
 	API        float64   // API gravity, 141.5/SG − 131.5
 	Oil        []float64 // stock-tank oil composition
 
@@ -187,7 +188,15 @@ func (s *Separator) Separate(z []float64) (SeparatorResult, error) {
 		r.OilM = pp.M
 		r.OilDensity = pp.Rho
 		r.OilVolume = r.OilMoles * pp.V
-		r.OilSG = pp.Rho / WaterDensity60F
+		// Specific and API gravity are defined at 60 °F (and one
+		// atmosphere, 14.696 psia) whatever the standard conditions of the
+		// volumes: the stock-tank liquid is evaluated there.
+		r.OilRho60F = pp.Rho
+		if std != StandardField {
+			p60, _ := s.fl.Props(StandardField.T, StandardField.P, r.Oil)
+			r.OilRho60F = p60.Rho
+		}
+		r.OilSG = r.OilRho60F / WaterDensity60F
 		r.API = 141.5/r.OilSG - 131.5
 		r.GOR = r.GasVolume / r.OilVolume
 		r.CGR = r.OilVolume / r.GasVolume

@@ -137,7 +137,9 @@ func checkSeparation(t *testing.T, fl *eos.Fluid, train cvd.Train, z []float64, 
 	}
 	within(t, "Σ oil composition", sum(r.Oil), 1, 1e-13, "mole fractions")
 	withinRel(t, "oil molar mass", r.OilM, fl.MolarMass(r.Oil), 1e-12, "definition")
-	withinRel(t, "oil SG = ρ/ρ_water(60 °F)", r.OilSG, r.OilDensity/cvd.WaterDensity60F, 1e-14, "definition of 60/60 °F specific gravity")
+	rho60, _ := fl.Props(cvd.StandardField.T, cvd.StandardField.P, r.Oil)
+	withinRel(t, "oil density at 60 °F and 14.696 psia", r.OilRho60F, rho60.Rho, 1e-14, "the same liquid at 60 °F")
+	withinRel(t, "oil SG = ρ(60 °F)/ρ_water(60 °F)", r.OilSG, r.OilRho60F/cvd.WaterDensity60F, 1e-14, "definition of 60/60 °F specific gravity")
 	withinRel(t, "API = 141.5/SG − 131.5", r.API, 141.5/r.OilSG-131.5, 1e-12, "API gravity, METHODS 5.1")
 	withinRel(t, "oil volume = n M/ρ", r.OilVolume, r.OilMoles*r.OilM/r.OilDensity, 1e-12, "definition")
 	withinRel(t, "GOR", r.GOR, r.GasVolume/r.OilVolume, 1e-14, "definition, METHODS 5.6")
@@ -246,5 +248,70 @@ func TestSeparatorBadTrain(t *testing.T) {
 	}
 	if _, err := cvd.NewSeparator(fl, cvd.Train{Standard: cvd.Conditions{T: -1, P: 101325}}, nil); !errors.Is(err, cvd.ErrBadTrain) {
 		t.Errorf("standard conditions at -1 K: error %v, want ErrBadTrain", err)
+	}
+}
+
+// TestSeparatorGravityAt60F: specific gravity and API gravity are defined at
+// 60 °F whatever the stock-tank conditions: API gravity at 60 °F =
+// 141.5/(relative density 60/60 °F) − 131.5 (METHODS 5.1; IADC drilling
+// glossary, "API gravity"), the relative density being the oil's density at
+// 60 °F over that of water at 60 °F. A dead oil (nC5, nC6 and a heavy pseudo-component, whose
+// bubble point at 15 °C lies well below one atmosphere) gives the same
+// stock-tank liquid in a tank at 60 °F and 14.696 psia and in one at 15 °C
+// and 101.325 kPa, so its gravities must agree; its density at standard
+// conditions must not, since the liquid expands between 15 °C and 60 °F.
+func TestSeparatorGravityAt60F(t *testing.T) {
+	// Water at 60 °F (15.5556 °C): the Thiesen-type equation of Tanaka,
+	// Girard, Davis, Peuto and Bignell (2001), "Recommended table for the
+	// density of water between 0 °C and 40 °C", Metrologia 38, 301–309,
+	// with their recommended constants a1…a5 (air-free water at
+	// 101.325 kPa, as the chempy library implements it), gives
+	// 999.0170 kg/m³. The trade's 999.016 differs by 0.001 kg/m³, about the
+	// uncertainty of such tables (from memory); the tolerance allows that.
+	tw := (60 - 32) / 1.8
+	a1, a2, a3, a4, a5 := -3.983035, 301.797, 522528.9, 69.34881, 999.974950
+	rhoW := a5 * (1 - (tw+a1)*(tw+a1)*(tw+a2)/(a3*(tw+a4)))
+	within(t, "WaterDensity60F (kg/m³)", cvd.WaterDensity60F, rhoW, 0.0015, "Tanaka et al. (2001) eq. (1) at 60 °F")
+
+	heavy, err := eos.PseudoComponent("C10+", 0.200, 0.82, eos.Characterization{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c5, _ := eos.LibraryComponent("nC5")
+	c6, _ := eos.LibraryComponent("nC6")
+	comps := []eos.Component{c5, c6, heavy}
+	fl, err := eos.NewFluid(comps, eos.DefaultKij(comps, eos.ChuehPrausnitz{}), eos.Options{VolumeShift: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	z := []float64{0.2, 0.3, 0.5}
+	results := map[string]cvd.SeparatorResult{}
+	for name, std := range map[string]cvd.Conditions{"field": cvd.StandardField, "metric": cvd.StandardMetric} {
+		sep, err := cvd.NewSeparator(fl, cvd.Train{Standard: std}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := sep.Separate(z)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r.GasMoles != 0 || r.OilMoles != 1 {
+			t.Fatalf("%s tank: gas %g, oil %g moles; want the dead oil to stay liquid", name, r.GasMoles, r.OilMoles)
+		}
+		rho60, _ := fl.Props(cvd.StandardField.T, cvd.StandardField.P, z)
+		withinRel(t, name+" tank: SG = ρ(60 °F, 14.696 psia)/ρ_water(60 °F)", r.OilSG, rho60.Rho/cvd.WaterDensity60F, 1e-14, "definition of the 60/60 °F specific gravity")
+		withinRel(t, name+" tank: API = 141.5/SG − 131.5", r.API, 141.5/r.OilSG-131.5, 1e-14, "API gravity, METHODS 5.1")
+		rhoStd, _ := fl.Props(std.T, std.P, z)
+		withinRel(t, name+" tank: density at standard conditions", r.OilDensity, rhoStd.Rho, 1e-14, "the standard volumes stay at the train's standard conditions")
+		results[name] = r
+	}
+	f, m := results["field"], results["metric"]
+	withinRel(t, "API gravity, metric tank against field tank", m.API, f.API, 1e-12, "the same liquid at 60 °F")
+	// The liquid is denser at 15 °C than at 60 °F: a volume that does not
+	// follow the standard temperature would hide that (the thermal
+	// expansion of a light oil is about 5e-4 per °F; common practice, no
+	// published source).
+	if !(m.OilDensity > f.OilDensity*(1+1e-4)) {
+		t.Errorf("density at 15 °C %g kg/m³, at 60 °F %g kg/m³; want the liquid denser at 15 °C", m.OilDensity, f.OilDensity)
 	}
 }

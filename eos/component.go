@@ -207,6 +207,16 @@ func (f *Fluid) Component(i int) Component { return f.comps[i] }
 // Kij returns the interaction coefficient of components i and j.
 func (f *Fluid) Kij(i, j int) float64 { return f.kij[i*f.n+j] }
 
+// CriticalVolume returns the critical volume (m³/mol) the fluid uses for
+// component i, in the Lohrenz–Bray–Clark viscosity: the component's Vc, or,
+// when that is zero (unknown), the estimate Zc R Tc/Pc with
+// Zc = 0.2918 − 0.0928 ω (Reid, Prausnitz and Sherwood 1977, see
+// estimateVc), in which case estimated is true. The Chueh–Prausnitz
+// coefficients of DefaultKij use the component's own Vc, not the estimate.
+func (f *Fluid) CriticalVolume(i int) (vc float64, estimated bool) {
+	return f.vc[i], f.comps[i].Vc == 0
+}
+
 // Options returns the options the fluid was built with.
 func (f *Fluid) Options() Options { return f.opt }
 

@@ -190,6 +190,11 @@ func TestViscosityEstimateVc(t *testing.T) {
 		if fl.vc[0] != c.Vc || fl.vc[1] != estimateVc(c.Tc, c.Pc, c.Omega) {
 			t.Errorf("%s: NewFluid vc = %g, %g; want the given Vc %g, then the estimate", name, fl.vc[0], fl.vc[1], c.Vc)
 		}
+		v0, est0 := fl.CriticalVolume(0)
+		v1, est1 := fl.CriticalVolume(1)
+		if v0 != c.Vc || est0 || v1 != fl.vc[1] || !est1 {
+			t.Errorf("%s: CriticalVolume = (%g, %v), (%g, %v); want the given Vc %g, then the estimate %g marked as such", name, v0, est0, v1, est1, c.Vc, fl.vc[1])
+		}
 	}
 }
 

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -36,7 +37,7 @@ const (
 // run runs the command line args and returns the exit code.
 func run(args []string, stdout, stderr io.Writer) int {
 	app := newApp(stdout, stderr)
-	err := app.Run(args)
+	err := app.Run(flagsFirst(app, args))
 	if err == nil {
 		return 0
 	}
@@ -50,13 +51,68 @@ func run(args []string, stdout, stderr io.Writer) int {
 	return exitFailed // the computation failed, e.g. errors.Is(err, eos.ErrNoConvergence)
 }
 
+// flagsFirst moves the flags of a command, with their values, ahead of its
+// arguments, so that flags may follow the study file as well as precede it:
+// the command-line parser stops reading flags at the first argument.
+// "dewcell flash study.toml --pressure 3000psia" becomes
+// "dewcell flash --pressure 3000psia -- study.toml". A flag is a word that
+// starts with "-" and is longer than "-"; its value is the next word unless
+// the flag is written --name=value or takes no value (a boolean flag).
+// Everything after "--" is an argument. A flag the command does not have
+// is moved too, and the parser reports it. With --help (or -h) the
+// arguments are dropped: the command's help is shown whatever follows.
+func flagsFirst(app *cli.App, args []string) []string {
+	if len(args) < 3 {
+		return args
+	}
+	cmd := app.Command(args[1])
+	if cmd == nil || cmd.Name == "help" {
+		return args
+	}
+	takesValue := map[string]bool{}
+	for _, f := range cmd.Flags {
+		tv, ok := f.(interface{ TakesValue() bool })
+		for _, name := range f.Names() {
+			takesValue[name] = ok && tv.TakesValue()
+		}
+	}
+	var flags, params []string
+	rest := args[2:]
+	for i := 0; i < len(rest); i++ {
+		a := rest[i]
+		switch {
+		case a == "--":
+			params = append(params, rest[i+1:]...)
+			i = len(rest)
+		case len(a) < 2 || a[0] != '-':
+			params = append(params, a)
+		default:
+			flags = append(flags, a)
+			name := strings.TrimLeft(a, "-")
+			if name == "help" || name == "h" {
+				return []string{args[0], args[1], "--help"}
+			}
+			if !strings.Contains(name, "=") && takesValue[name] && i+1 < len(rest) {
+				flags = append(flags, rest[i+1])
+				i++
+			}
+		}
+	}
+	out := append(append([]string(nil), args[:2]...), flags...)
+	if len(params) > 0 {
+		out = append(append(out, "--"), params...)
+	}
+	return out
+}
+
 func newApp(stdout, stderr io.Writer) *cli.App {
 	app := &cli.App{
 		Name:      "dewcell",
 		Usage:     "Peng–Robinson fluid model for gas-condensate reservoirs",
 		UsageText: "dewcell COMMAND [flags] STUDY.toml",
-		Description: "Flags go before the study file. Temperatures and pressures carry their unit, " +
-			`as in the study file: --pressure "3000 psia", --temperature "220 degF".`,
+		Description: "Flags may come before or after the study file; after \"--\" every word is an argument. " +
+			"Temperatures and pressures carry their unit, as in the study file: " +
+			`--pressure "3000 psia", --temperature "220 degF" (also °F or F, degC, °C or C, K, degR, °R or R).`,
 		HideVersion:    true,
 		Writer:         stdout,
 		ErrWriter:      stderr,
@@ -129,7 +185,7 @@ func sharedFlags() []cli.Flag {
 		},
 		&cli.StringFlag{
 			Name:  flagOutput,
-			Usage: "write the result to `FILE`, in full or not at all, instead of standard output",
+			Usage: "write the result to `FILE`, in full or not at all, instead of standard output (\"-\": standard output)",
 		},
 	}
 }
@@ -138,7 +194,9 @@ func sharedFlags() []cli.Flag {
 type options struct {
 	sys    units.System
 	format string
-	output string // "" for standard output
+	output string // --output as given; "" for standard output
+	target string // the file written: output, its symbolic links resolved
+	direct bool   // target is a device or a named pipe, written in place
 	study  string // path of the study file, "" for commands without one
 	stdout io.Writer
 	stderr io.Writer
@@ -160,42 +218,83 @@ func commonOptions(c *cli.Context, wantStudy bool) (*options, error) {
 	case wantStudy && len(args) == 0:
 		return nil, cli.Exit(fmt.Sprintf("%s needs a study file; %s", c.Command.Name, usage), exitUsage)
 	case wantStudy && len(args) > 1:
-		return nil, cli.Exit(fmt.Sprintf("%s takes one study file, got %d arguments (%s); flags go before the study file; %s",
+		return nil, cli.Exit(fmt.Sprintf("%s takes one study file, got %d arguments (%s); %s",
 			c.Command.Name, len(args), strings.Join(args, " "), usage), exitUsage)
 	case wantStudy:
 		o.study = args[0]
 	}
+	if o.output == "-" { // the usual name of standard output
+		o.output = ""
+	}
 	if o.output != "" {
-		if err := checkOutput(o.output, o.study); err != nil {
+		var err error
+		if o.target, o.direct, err = checkOutput(o.output, o.study); err != nil {
 			return nil, cli.Exit("--output: "+err.Error(), exitUsage)
 		}
 	}
 	return o, nil
 }
 
-// checkOutput refuses an output path that is the study file, a directory, or
-// in a directory that does not exist.
-func checkOutput(out, studyPath string) error {
+// checkOutput refuses, before anything is computed, an output path that is
+// the study file, a folder, a symbolic link to nowhere, or in a folder that
+// does not exist or where no file can be created (a file is created there
+// and removed). It returns the file to write, the path with its symbolic
+// links resolved, and whether that is a device or a named pipe, which is
+// written in place rather than replaced.
+func checkOutput(out, studyPath string) (target string, direct bool, err error) {
 	if studyPath != "" {
 		a, errA := filepath.Abs(out)
 		b, errB := filepath.Abs(studyPath)
 		if errA == nil && errB == nil && a == b {
-			return fmt.Errorf("%s is the study file; refusing to overwrite it", out)
+			return "", false, fmt.Errorf("%s is the study file; refusing to overwrite it", out)
 		}
 		fo, errO := os.Stat(out)
-		fs, errS := os.Stat(studyPath)
-		if errO == nil && errS == nil && os.SameFile(fo, fs) {
-			return fmt.Errorf("%s is the study file; refusing to overwrite it", out)
+		fst, errS := os.Stat(studyPath)
+		if errO == nil && errS == nil && os.SameFile(fo, fst) {
+			return "", false, fmt.Errorf("%s is the study file; refusing to overwrite it", out)
 		}
 	}
-	if fi, err := os.Stat(out); err == nil && fi.IsDir() {
-		return fmt.Errorf("%s is a directory", out)
+	target = out
+	if li, err := os.Lstat(out); err == nil && li.Mode()&fs.ModeSymlink != 0 {
+		if target, err = filepath.EvalSymlinks(out); err != nil {
+			return "", false, fmt.Errorf("%s is a symbolic link that cannot be followed (%v)", out, cause(err))
+		}
 	}
-	dir := filepath.Dir(out)
-	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
-		return fmt.Errorf("directory %s does not exist", dir)
+	fi, err := os.Stat(target)
+	switch {
+	case err == nil && fi.IsDir():
+		return "", false, fmt.Errorf("%s is a folder; give a file name", out)
+	case err == nil && !fi.Mode().IsRegular():
+		return target, true, nil // a device (/dev/null) or a named pipe: written as it is
+	case err != nil && !errors.Is(err, fs.ErrNotExist):
+		return "", false, fmt.Errorf("cannot use %s (%v)", out, cause(err))
 	}
-	return nil
+	dir := filepath.Dir(target)
+	if di, err := os.Stat(dir); err != nil || !di.IsDir() {
+		return "", false, fmt.Errorf("the folder %s does not exist", dir)
+	}
+	probe, err := os.CreateTemp(dir, ".dewcell-*.tmp")
+	if err != nil {
+		return "", false, fmt.Errorf("cannot create %s: no file can be made in the folder %s (%v); choose another --output", out, dir, cause(err))
+	}
+	probe.Close()
+	os.Remove(probe.Name())
+	return target, false, nil
+}
+
+// cause is the reason of a file-system error without the operation and the
+// path it repeats: "permission denied" for "open /x/.y.tmp: permission
+// denied", so that no message names a temporary file.
+func cause(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	var le *os.LinkError
+	if errors.As(err, &le) {
+		return le.Err
+	}
+	return err
 }
 
 // loadStudy reads the study file, printing its warnings to standard error;
@@ -247,13 +346,14 @@ func (o *options) warn(msgs ...string) {
 	}
 }
 
-// quantityFlag reads a flag holding a quantity with its unit; ok is false
+// quantityFlag reads a flag holding the pressure or temperature of a state
+// with its unit (units.ParseState: out of range is an error); ok is false
 // when the flag was not given.
 func quantityFlag(c *cli.Context, name string, kind units.Kind, atm float64) (v float64, ok bool, err error) {
 	if !c.IsSet(name) {
 		return 0, false, nil
 	}
-	v, err = units.Parse(c.String(name), kind, atm)
+	v, err = units.ParseState(c.String(name), kind, atm)
 	if err != nil {
 		return 0, false, cli.Exit(fmt.Sprintf("--%s: %v", name, err), exitUsage)
 	}
@@ -268,17 +368,40 @@ func (o *options) emit(reports ...*Report) error {
 	if err := render(&buf, o.format, reports...); err != nil {
 		return err
 	}
-	if o.output == "" {
+	switch {
+	case o.output == "":
 		if _, err := o.stdout.Write(buf.Bytes()); err != nil {
 			return err
 		}
-	} else if err := writeAtomic(o.output, buf.Bytes()); err != nil {
-		return fmt.Errorf("--output: %w", err)
+	case o.direct:
+		if err := writeInPlace(o.target, buf.Bytes()); err != nil {
+			return fmt.Errorf("--output: cannot write %s: %v", o.output, cause(err))
+		}
+	default:
+		if err := writeAtomic(o.target, buf.Bytes()); err != nil {
+			return fmt.Errorf("--output: cannot write %s: %v", o.output, cause(err))
+		}
 	}
 	fmt.Fprintln(o.stderr, caution)
 	return nil
 }
 
+// writeInPlace writes data to an existing device or named pipe.
+func writeInPlace(path string, data []byte) error {
+	f, err := os.OpenFile(path, os.O_WRONLY, 0)
+	if err != nil {
+		return err
+	}
+	if _, err := f.Write(data); err != nil {
+		f.Close()
+		return err
+	}
+	return f.Close()
+}
+
+// writeAtomic writes data to a temporary file beside path and renames it
+// into place. Its errors come from the file system and may name the
+// temporary file; callers report cause(err) with the path.
 func writeAtomic(path string, data []byte) (err error) {
 	dir, base := filepath.Split(path)
 	if dir == "" {

@@ -3,11 +3,14 @@ package main
 import (
 	"bufio"
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io/fs"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"github.com/urfave/cli/v2"
@@ -25,8 +28,9 @@ const (
 	flagDir        = "dir"
 	defaultDemoDir = "dewcell-demo"
 	// demoMarker is the file that says a folder holds the output of demo,
-	// and lists the files demo wrote there. demo replaces such a folder,
-	// and no other.
+	// and lists the files demo wrote there with their sizes and SHA-256
+	// sums. demo replaces such a folder while it holds just those files,
+	// unchanged, and no other.
 	demoMarker = "dewcell-demo.txt"
 	// demoSignature is the first line of demoMarker.
 	demoSignature = "dewcell demo output"
@@ -56,6 +60,15 @@ func demoCommand() *cli.Command {
 			if err := checkDemoDir(dir); err != nil {
 				return cli.Exit(fmt.Sprintf("--%s: %v", flagDir, err), exitUsage)
 			}
+			// The new folder is made beside dir: check, before computing,
+			// that a folder can be made there.
+			parent := filepath.Dir(filepath.Clean(dir))
+			probe, err := os.MkdirTemp(parent, ".dewcell-*.tmp")
+			if err != nil {
+				return cli.Exit(fmt.Sprintf("--%s: cannot write %s: no folder can be made in %s (%v); choose another with --%s",
+					flagDir, dir, parent, cause(err), flagDir), exitUsage)
+			}
+			os.Remove(probe)
 			st, err := study.Parse("examples/"+examples.StudyName, examples.Study)
 			if err != nil {
 				return fmt.Errorf("the bundled example: %w", err) // a defect, not the user's input
@@ -66,8 +79,16 @@ func demoCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
-			if err := writeDemoDir(dir, files); err != nil {
-				return fmt.Errorf("--%s: %w", flagDir, err)
+			note, err := writeDemoDir(dir, files)
+			if err != nil {
+				var refused *demoRefusal
+				if errors.As(err, &refused) { // the folder changed while demo ran
+					return cli.Exit(fmt.Sprintf("--%s: %v", flagDir, err), exitUsage)
+				}
+				return fmt.Errorf("--%s: cannot write %s: %v", flagDir, dir, cause(err))
+			}
+			if note != "" {
+				o.warn(note)
 			}
 			abs, err := filepath.Abs(dir)
 			if err != nil {
@@ -186,51 +207,145 @@ func demoReports(o *options, st *study.Study) ([]*Report, []demoFile, error) {
 	return out, files, nil
 }
 
+// A demoRefusal says why demo will not replace a folder.
+type demoRefusal struct{ msg string }
+
+func (e *demoRefusal) Error() string { return e.msg }
+
+func refuse(format string, args ...any) error { return &demoRefusal{fmt.Sprintf(format, args...)} }
+
 // checkDemoDir refuses a folder demo must not write into: an existing file,
-// a folder holding anything but an earlier demo's output, or a folder whose
-// parent does not exist.
+// a symbolic link, a folder holding anything but an earlier demo's output as
+// that demo wrote it (each file listed in the marker, a regular file of the
+// recorded size and SHA-256 sum), or a folder whose parent does not exist.
+// What is there is checked, not only the names.
 func checkDemoDir(dir string) error {
 	if strings.TrimSpace(dir) == "" {
-		return errors.New("empty folder name")
+		return refuse("empty folder name")
 	}
 	parent := filepath.Dir(filepath.Clean(dir))
 	if fi, err := os.Stat(parent); err != nil || !fi.IsDir() {
-		return fmt.Errorf("the folder %s, in which %s would be made, does not exist", parent, dir)
+		return refuse("the folder %s, in which %s would be made, does not exist", parent, dir)
 	}
-	fi, err := os.Stat(dir)
+	fi, err := os.Lstat(dir)
 	switch {
 	case errors.Is(err, fs.ErrNotExist):
 		return nil
 	case err != nil:
-		return err
+		return refuse("cannot use %s (%v)", dir, cause(err))
+	case fi.Mode()&fs.ModeSymlink != 0:
+		return refuse("%s is a symbolic link; refusing to replace it; give the folder it points to, or another folder, with --%s", dir, flagDir)
 	case !fi.IsDir():
-		return fmt.Errorf("%s is a file, not a folder; refusing to replace it", dir)
+		return refuse("%s is a file, not a folder; refusing to replace it", dir)
 	}
 	entries, err := os.ReadDir(dir)
 	if err != nil {
-		return err
+		return refuse("cannot read the folder %s (%v)", dir, cause(err))
 	}
 	if len(entries) == 0 {
 		return nil
 	}
+	if mi, err := os.Lstat(filepath.Join(dir, demoMarker)); err == nil && !mi.Mode().IsRegular() {
+		kind := fileKind(mi.Mode())
+		switch {
+		case mi.IsDir():
+			kind = "a folder"
+		case mi.Mode()&fs.ModeSymlink != 0:
+			kind = "a symbolic link"
+		}
+		return refuse("%s holds %s, which is %s, not the file an earlier demo wrote; refusing to replace the folder; choose another with --%s",
+			dir, demoMarker, kind, flagDir)
+	}
 	listed, ok := readDemoMarker(dir)
 	if !ok {
-		return fmt.Errorf("%s is a folder that holds other files (%s); demo writes only to a new or empty folder, or to one an earlier demo wrote; choose another with --%s",
+		return refuse("%s is a folder that holds other files (%s); demo writes only to a new or empty folder, or to one an earlier demo wrote; choose another with --%s",
 			dir, entries[0].Name(), flagDir)
 	}
 	for _, e := range entries {
-		if e.Name() != demoMarker && !listed[e.Name()] {
-			return fmt.Errorf("%s was written by an earlier demo, but %s has been added to it since; refusing to replace the folder; move that file, or choose another folder with --%s",
-				dir, e.Name(), flagDir)
+		name := e.Name()
+		if name == demoMarker {
+			continue // readDemoMarker checked it is a regular file
+		}
+		want, isListed := listed[name]
+		if !isListed {
+			return refuse("%s was written by an earlier demo, but %s has been added to it since; refusing to replace the folder; move that file, or choose another folder with --%s",
+				dir, name, flagDir)
+		}
+		if !want.known {
+			return refuse("%s was written by an earlier demo whose %s does not record the files' contents, so demo cannot tell whether %s is still its own; refusing to replace the folder; delete it yourself, or choose another with --%s",
+				dir, demoMarker, name, flagDir)
+		}
+		if what := demoFileChange(filepath.Join(dir, name), want); what != "" {
+			return refuse("%s was written by an earlier demo, but %s %s; refusing to replace the folder; move it, or choose another folder with --%s",
+				dir, name, what, flagDir)
 		}
 	}
 	return nil
 }
 
-// readDemoMarker reads the marker of an earlier demo in dir: the files it
-// lists, and whether there is such a marker.
-func readDemoMarker(dir string) (map[string]bool, bool) {
-	data, err := os.ReadFile(filepath.Join(dir, demoMarker))
+// A demoEntry is what the marker records of one file.
+type demoEntry struct {
+	size  int64
+	sum   string // SHA-256, lower-case hex
+	known bool   // size and sum recorded
+}
+
+func entryOf(data []byte) demoEntry {
+	s := sha256.Sum256(data)
+	return demoEntry{size: int64(len(data)), sum: hex.EncodeToString(s[:]), known: true}
+}
+
+// demoFileChange says how the file at path differs from what demo wrote
+// ("is now a folder", "has been changed"), or "" if it does not.
+func demoFileChange(path string, want demoEntry) string {
+	fi, err := os.Lstat(path)
+	switch {
+	case err != nil:
+		return fmt.Sprintf("cannot be read (%v)", cause(err))
+	case fi.IsDir():
+		return "is now a folder"
+	case fi.Mode()&fs.ModeSymlink != 0:
+		return "is now a symbolic link"
+	case !fi.Mode().IsRegular():
+		return "is now " + fileKind(fi.Mode())
+	case fi.Size() != want.size:
+		return "has been changed since"
+	}
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return fmt.Sprintf("cannot be read (%v)", cause(err))
+	}
+	if entryOf(data).sum != want.sum {
+		return "has been changed since"
+	}
+	return ""
+}
+
+// fileKind names a kind of file that is neither regular, a folder nor a
+// symbolic link.
+func fileKind(m fs.FileMode) string {
+	switch {
+	case m&fs.ModeNamedPipe != 0:
+		return "a named pipe"
+	case m&fs.ModeSocket != 0:
+		return "a socket"
+	case m&fs.ModeDevice != 0:
+		return "a device"
+	}
+	return "a special file"
+}
+
+// readDemoMarker reads the marker of an earlier demo in dir, which must be a
+// regular file that starts with demoSignature: what it records of each
+// file, and whether there is such a marker. A line "  NAME SIZE SHA256"
+// records a file; a line "  NAME" (an older marker) names one without its
+// contents.
+func readDemoMarker(dir string) (map[string]demoEntry, bool) {
+	path := filepath.Join(dir, demoMarker)
+	if fi, err := os.Lstat(path); err != nil || !fi.Mode().IsRegular() {
+		return nil, false
+	}
+	data, err := os.ReadFile(path)
 	if err != nil {
 		return nil, false
 	}
@@ -238,10 +353,23 @@ func readDemoMarker(dir string) (map[string]bool, bool) {
 	if !sc.Scan() || sc.Text() != demoSignature {
 		return nil, false
 	}
-	listed := map[string]bool{}
+	listed := map[string]demoEntry{}
 	for sc.Scan() {
-		if name, ok := strings.CutPrefix(sc.Text(), "  "); ok && name != "" {
-			listed[name] = true
+		line, ok := strings.CutPrefix(sc.Text(), "  ")
+		if !ok {
+			continue
+		}
+		f := strings.Fields(line)
+		switch {
+		case len(f) == 1:
+			listed[f[0]] = demoEntry{}
+		case len(f) == 3:
+			size, err := strconv.ParseInt(f[1], 10, 64)
+			if err != nil || len(f[2]) != 2*sha256.Size {
+				listed[f[0]] = demoEntry{}
+				continue
+			}
+			listed[f[0]] = demoEntry{size: size, sum: f[2], known: true}
 		}
 	}
 	return listed, true
@@ -254,10 +382,11 @@ func demoMarkerText(files []demoFile) []byte {
 	fmt.Fprintf(&b, "\nThese tables were written by `dewcell demo` from the bundled example study, examples/%s\n", examples.StudyName)
 	fmt.Fprintln(&b, "(an invented field). Each table is given as CSV and as JSON, with the unit at the end of")
 	fmt.Fprintln(&b, "every column name. The next `dewcell demo` into this folder replaces it, as long as it")
-	fmt.Fprintln(&b, "holds only these files:")
+	fmt.Fprintln(&b, "holds only these files, unchanged (name, size in bytes, SHA-256):")
 	fmt.Fprintln(&b)
 	for _, f := range files {
-		fmt.Fprintf(&b, "  %s\n", f.name)
+		e := entryOf(f.data)
+		fmt.Fprintf(&b, "  %s %d %s\n", f.name, e.size, e.sum)
 	}
 	return b.Bytes()
 }
@@ -265,8 +394,11 @@ func demoMarkerText(files []demoFile) []byte {
 // writeDemoDir writes files and the marker into a temporary folder beside
 // dir, then puts it in dir's place, so that dir holds either the previous
 // content or the whole new one. checkDemoDir is repeated just before the
-// swap; a previous demo folder is removed only after the new one is in place.
-func writeDemoDir(dir string, files []demoFile) (err error) {
+// swap (an error it gives is a *demoRefusal). The previous folder is
+// emptied afterwards of the files its marker lists, and removed if that
+// leaves it empty; anything else that appeared in it meanwhile is kept, and
+// note says where.
+func writeDemoDir(dir string, files []demoFile) (note string, err error) {
 	dir = filepath.Clean(dir)
 	parent, base := filepath.Split(dir)
 	if parent == "" {
@@ -274,11 +406,11 @@ func writeDemoDir(dir string, files []demoFile) (err error) {
 	}
 	tmp, err := os.MkdirTemp(parent, "."+base+".*.tmp")
 	if err != nil {
-		return err
+		return "", err
 	}
 	defer func() {
 		if err != nil {
-			os.RemoveAll(tmp)
+			os.RemoveAll(tmp) // the folder demo made, with what demo wrote
 		}
 	}()
 	write := func(name string, data []byte) error {
@@ -297,44 +429,49 @@ func writeDemoDir(dir string, files []demoFile) (err error) {
 		return f.Close()
 	}
 	for _, f := range files {
-		if f.name == demoMarker || strings.ContainsAny(f.name, `/\`) {
-			return fmt.Errorf("internal error: demo file name %q", f.name)
+		if f.name == demoMarker || f.name == "" || strings.ContainsAny(f.name, "/\\ \t\n\x00") {
+			return "", fmt.Errorf("internal error: demo file name %q", f.name)
 		}
 		if err = write(f.name, f.data); err != nil {
-			return err
+			return "", err
 		}
 	}
 	if err = write(demoMarker, demoMarkerText(files)); err != nil {
-		return err
+		return "", err
 	}
 	if err = os.Chmod(tmp, 0o755); err != nil {
-		return err
+		return "", err
 	}
 
 	if err = checkDemoDir(dir); err != nil { // it may have changed while demo ran
-		return err
+		return "", err
 	}
-	fi, statErr := os.Stat(dir)
-	if errors.Is(statErr, fs.ErrNotExist) {
-		return os.Rename(tmp, dir)
-	}
-	if statErr != nil {
-		return statErr
-	}
-	if !fi.IsDir() {
-		return fmt.Errorf("%s is a file, not a folder", dir)
+	listed, _ := readDemoMarker(dir) // what the previous demo wrote, checked just now
+	if _, statErr := os.Lstat(dir); errors.Is(statErr, fs.ErrNotExist) {
+		return "", os.Rename(tmp, dir)
 	}
 	old := tmp + ".old"
 	if err = os.Rename(dir, old); err != nil {
-		return err
+		return "", err
 	}
 	if err = os.Rename(tmp, dir); err != nil {
 		if back := os.Rename(old, dir); back != nil {
-			return fmt.Errorf("%w; the previous folder is now %s (%v)", err, old, back)
+			return "", fmt.Errorf("%w; the previous folder is now %s (%v)", err, old, back)
 		}
-		return err
+		return "", err
 	}
-	return os.RemoveAll(old) // an earlier demo's files, or an empty folder
+	// Remove what the previous demo wrote, and nothing else.
+	for name := range listed {
+		p := filepath.Join(old, name)
+		if fi, err := os.Lstat(p); err == nil && fi.Mode().IsRegular() {
+			os.Remove(p)
+		}
+	}
+	os.Remove(filepath.Join(old, demoMarker))
+	if err := os.Remove(old); err != nil && !errors.Is(err, fs.ErrNotExist) {
+		return fmt.Sprintf("the previous demo folder, moved to %s, was kept: it holds files demo did not write", old), nil
+	}
+	return "", nil
 }
 
 // noteMargin says on standard error how far the initial pressure lies above

@@ -3,6 +3,8 @@ package main
 import (
 	"encoding/csv"
 	"encoding/json"
+	"io/fs"
+	"maps"
 	"os"
 	"path/filepath"
 	"slices"
@@ -63,18 +65,52 @@ func TestDemoFolder(t *testing.T) {
 	}
 
 	// A second run replaces the folder of the first.
-	stale := filepath.Join(dir, "history.csv")
-	if err := os.WriteFile(stale, []byte("stale"), 0o644); err != nil {
-		t.Fatal(err)
-	}
 	if code, _, stderr = dewcell("demo", "--units", "metric", "--format", "json", "--dir", dir); code != 0 {
 		t.Fatalf("second demo into %s: exit %d: %s", dir, code, stderr)
 	}
-	if data, _ := os.ReadFile(stale); string(data) == "stale" {
-		t.Error("the second demo did not replace history.csv")
+	if data, _ := os.ReadFile(filepath.Join(dir, "in_place.csv")); !strings.Contains(string(data), "_1e6sm3") {
+		t.Error("the second demo, in metric units, did not replace in_place.csv")
 	}
 	checkDemoFiles(t, dir, want)
 	onlyFile(t, parent, "out") // no temporary folders left beside it
+
+	// One of demo's files replaced by a folder of the user's: refused, and
+	// the folder and what it holds stay.
+	hist := filepath.Join(dir, "history.csv")
+	if err := os.Remove(hist); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Mkdir(hist, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	mine := filepath.Join(hist, "mine.txt")
+	if err := os.WriteFile(mine, []byte("mine"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, stdout, stderr = dewcell("demo", "--dir", dir)
+	if code != 2 || stdout != "" || !strings.Contains(stderr, "history.csv") || !strings.Contains(stderr, "folder") {
+		t.Errorf("demo into a demo folder whose history.csv is now a folder: exit %d, stderr %q; want 2 and a refusal naming history.csv", code, stderr)
+	}
+	if data, err := os.ReadFile(mine); err != nil || string(data) != "mine" {
+		t.Errorf("the user's %s: %q, %v; want it untouched", mine, data, err)
+	}
+	onlyFile(t, parent, "out")
+	if err := os.RemoveAll(hist); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(hist, []byte("restored"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if code, _, stderr = dewcell("demo", "--dir", dir); code != 2 || !strings.Contains(stderr, "history.csv") || !strings.Contains(stderr, "changed") {
+		t.Errorf("demo into a demo folder whose history.csv was rewritten: exit %d, stderr %q; want 2 and a refusal naming history.csv", code, stderr)
+	}
+	if data, _ := os.ReadFile(hist); string(data) != "restored" {
+		t.Error("the rewritten history.csv changed")
+	}
+	if err := os.Remove(hist); err != nil {
+		t.Fatal(err)
+	}
+	want = slices.DeleteFunc(want, func(s string) bool { return s == "history.csv" })
 
 	// A file the user added: the folder is no longer the demo's alone.
 	notes := filepath.Join(dir, "notes.txt")
@@ -167,25 +203,154 @@ func TestDemoWriteFails(t *testing.T) {
 	parent := t.TempDir()
 	dir := filepath.Join(parent, "out")
 	good := []demoFile{{"a.csv", []byte("x\n1\n")}, {"a.json", []byte("{}\n")}}
-	if err := writeDemoDir(dir, good); err != nil {
+	if _, err := writeDemoDir(dir, good); err != nil {
 		t.Fatal(err)
 	}
 	bad := []demoFile{{"b.csv", []byte("y\n2\n")}, {"sub/b.json", []byte("{}\n")}}
-	if err := writeDemoDir(dir, bad); err == nil {
+	if _, err := writeDemoDir(dir, bad); err == nil {
 		t.Fatal("a file name with a slash was written")
 	}
 	onlyFile(t, parent, "out")
 	checkDemoFiles(t, dir, []string{"a.csv", "a.json"})
-	if err := writeDemoDir(filepath.Join(parent, "new"), []demoFile{{"c.csv", nil}, {"bad\x00name.json", nil}}); err == nil {
+	if _, err := writeDemoDir(filepath.Join(parent, "new"), []demoFile{{"c.csv", nil}, {"bad\x00name.json", nil}}); err == nil {
 		t.Fatal("a file name with a NUL byte was written")
 	}
 	onlyFile(t, parent, "out")
 
-	// The marker lists the files, and a folder of them is the demo's.
+	// The marker lists the files with their sizes and SHA-256 sums (of
+	// "x\n1\n" and "{}\n", as GNU coreutils sha256sum prints them), and a folder of them
+	// is the demo's.
 	listed, ok := readDemoMarker(dir)
-	if !ok || !listed["a.csv"] || !listed["a.json"] || len(listed) != 2 {
-		t.Errorf("marker lists %v (%v), want a.csv and a.json", listed, ok)
+	wantSums := map[string]demoEntry{
+		"a.csv":  {size: 4, sum: "daff832f802000e645771a60983c76c963f6ee602a6230e45237bd360e91cc1a", known: true},
+		"a.json": {size: 3, sum: "ca3d163bab055381827226140568f3bef7eaac187cebd76878e0b63e9e442356", known: true},
 	}
+	if !ok || !maps.Equal(listed, wantSums) {
+		t.Errorf("marker lists %v (%v), want %v", listed, ok, wantSums)
+	}
+}
+
+// TestDemoUserFiles: demo replaces a folder only when everything in it is
+// what an earlier demo wrote, checked by kind, size and SHA-256 against its
+// marker; a file replaced by a folder, a symbolic link, a changed file, a
+// marker that is a link or that records no contents, and a folder that is
+// itself a symbolic link are refused, and nothing of the user's is removed.
+func TestDemoUserFiles(t *testing.T) {
+	good := []demoFile{{"a.csv", []byte("x\n1\n")}, {"a.json", []byte("{}\n")}}
+	setup := func(t *testing.T) (parent, dir string) {
+		parent = t.TempDir()
+		dir = filepath.Join(parent, "out")
+		if _, err := writeDemoDir(dir, good); err != nil {
+			t.Fatal(err)
+		}
+		if err := checkDemoDir(dir); err != nil {
+			t.Fatalf("a folder demo wrote is refused: %v", err)
+		}
+		return parent, dir
+	}
+	elsewhere := filepath.Join(t.TempDir(), "mine.txt")
+	if err := os.WriteFile(elsewhere, []byte("x\n1\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name   string
+		change func(t *testing.T, dir string)
+		msg    string
+	}{
+		{"file replaced by a folder", func(t *testing.T, dir string) {
+			must(t, os.Remove(filepath.Join(dir, "a.csv")))
+			must(t, os.Mkdir(filepath.Join(dir, "a.csv"), 0o755))
+			must(t, os.WriteFile(filepath.Join(dir, "a.csv", "keep.txt"), []byte("mine"), 0o644))
+		}, "a.csv is now a folder"},
+		{"file replaced by a symbolic link", func(t *testing.T, dir string) {
+			must(t, os.Remove(filepath.Join(dir, "a.csv")))
+			must(t, os.Symlink(elsewhere, filepath.Join(dir, "a.csv")))
+		}, "a.csv is now a symbolic link"},
+		{"file changed, same size", func(t *testing.T, dir string) {
+			must(t, os.WriteFile(filepath.Join(dir, "a.csv"), []byte("x\n2\n"), 0o644))
+		}, "a.csv has been changed"},
+		{"file changed, other size", func(t *testing.T, dir string) {
+			must(t, os.WriteFile(filepath.Join(dir, "a.json"), []byte("{\"mine\": 1}\n"), 0o644))
+		}, "a.json has been changed"},
+		{"marker replaced by a symbolic link", func(t *testing.T, dir string) {
+			m := filepath.Join(dir, demoMarker)
+			data, err := os.ReadFile(m)
+			must(t, err)
+			other := filepath.Join(t.TempDir(), "marker")
+			must(t, os.WriteFile(other, data, 0o644))
+			must(t, os.Remove(m))
+			must(t, os.Symlink(other, m))
+		}, demoMarker},
+		{"marker without contents", func(t *testing.T, dir string) {
+			must(t, os.WriteFile(filepath.Join(dir, demoMarker), []byte(demoSignature+"\n\n  a.csv\n  a.json\n"), 0o644))
+		}, "does not record"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			parent, dir := setup(t)
+			c.change(t, dir)
+			before := snapshot(t, dir)
+			err := checkDemoDir(dir)
+			if err == nil || !strings.Contains(err.Error(), c.msg) {
+				t.Errorf("checkDemoDir: %v; want a refusal mentioning %q", err, c.msg)
+			}
+			if _, werr := writeDemoDir(dir, good); werr == nil {
+				t.Error("writeDemoDir replaced the folder")
+			}
+			if after := snapshot(t, dir); !maps.Equal(before, after) {
+				t.Errorf("the folder changed: %v, now %v", before, after)
+			}
+			onlyFile(t, parent, "out")
+		})
+	}
+	if data, err := os.ReadFile(elsewhere); err != nil || string(data) != "x\n1\n" {
+		t.Errorf("the file a link pointed to: %q, %v", data, err)
+	}
+
+	// The folder itself a symbolic link to a demo folder: refused, the link stays.
+	parent, dir := setup(t)
+	link := filepath.Join(parent, "link")
+	must(t, os.Symlink(dir, link))
+	if err := checkDemoDir(link); err == nil || !strings.Contains(err.Error(), "symbolic link") {
+		t.Errorf("checkDemoDir(a link to a demo folder): %v; want a refusal", err)
+	}
+	if li, err := os.Lstat(link); err != nil || li.Mode()&os.ModeSymlink == 0 {
+		t.Error("the symbolic link was replaced")
+	}
+}
+
+func must(t *testing.T, err error) {
+	t.Helper()
+	if err != nil {
+		t.Fatal(err)
+	}
+}
+
+// snapshot maps every path under dir to its kind and content.
+func snapshot(t *testing.T, dir string) map[string]string {
+	t.Helper()
+	m := map[string]string{}
+	err := filepath.WalkDir(dir, func(path string, d fs.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		switch {
+		case d.Type()&fs.ModeSymlink != 0:
+			target, err := os.Readlink(path)
+			m[path] = "link " + target
+			return err
+		case d.IsDir():
+			m[path] = "folder"
+		default:
+			data, err := os.ReadFile(path)
+			m[path] = "file " + string(data)
+			return err
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return m
 }
 
 // TestDemoJSON: with --format json the summaries come as one object keyed by

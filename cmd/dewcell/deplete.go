@@ -61,7 +61,7 @@ func parsePressures(c *cli.Context, name string, atm float64) ([]float64, error)
 		if strings.TrimSpace(item) == "" {
 			return nil, cli.Exit(fmt.Sprintf(`--%s: item %d is empty; want pressures with their units separated by commas, such as "3500 psia, 3000 psia"`, name, i+1), exitUsage)
 		}
-		p, err := units.Parse(item, units.Pressure, atm)
+		p, err := units.ParseState(item, units.Pressure, atm)
 		if err != nil {
 			return nil, cli.Exit(fmt.Sprintf("--%s: item %d: %v", name, i+1, err), exitUsage)
 		}

@@ -16,7 +16,9 @@ func fluidCommand() *cli.Command {
 }
 
 // fluidReport tabulates the components of the study's fluid and their
-// interaction coefficients.
+// interaction coefficients. The column estimated says how the properties the
+// study does not give were obtained, such as a user component's critical
+// volume.
 func fluidReport(st *study.Study, sys units.System) *Report {
 	fl := st.Fluid
 	tU, pU, vU := sys.Unit(units.Temperature), sys.Unit(units.Pressure), sys.Unit(units.MolarVolume)
@@ -32,14 +34,16 @@ func fluidReport(st *study.Study, sys units.System) *Report {
 			{Name: "acentric_factor"},
 			{Name: "volume_shift"},
 			{Name: "critical_volume", Unit: vU},
+			{Name: "estimated"},
 		},
 	}
 	n := fl.N()
 	m := &Matrix{Name: "kij", Title: "binary interaction coefficients kij", Labels: make([]string, n), Values: make([][]float64, n)}
 	for i, c := range fl.Components() {
-		vc := any(vU.FromSI(c.Vc))
-		if c.Vc == 0 {
-			vc = nil // unknown
+		vc, _ := fl.CriticalVolume(i) // the estimate, when the study gives none
+		est := ""
+		if i < len(st.Estimates) {
+			est = st.Estimates[i]
 		}
 		t.Rows = append(t.Rows, []any{
 			c.Name,
@@ -49,7 +53,8 @@ func fluidReport(st *study.Study, sys units.System) *Report {
 			pU.FromSI(c.Pc),
 			c.Omega,
 			c.Shift,
-			vc,
+			vU.FromSI(vc),
+			est,
 		})
 		m.Labels[i] = c.Name
 		m.Values[i] = make([]float64, n)

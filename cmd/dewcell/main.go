@@ -4,8 +4,10 @@
 //
 // Usage:
 //
-//	dewcell COMMAND [flags] STUDY.toml
+//	dewcell COMMAND [flags] STUDY.toml [flags]
 //
+// Flags may come before or after the study file; after "--" every word is an
+// argument.
 // Run `dewcell help` for the commands and `dewcell help COMMAND` for the
 // flags of one. Results go to standard output as a table, CSV or JSON;
 // warnings and cautions go to standard error. The exit code is 0 on success,

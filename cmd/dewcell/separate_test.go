@@ -127,3 +127,41 @@ func TestSeparateFormats(t *testing.T) {
 		t.Errorf("separate --pressure: exit %d, %q; want 2: separate takes no pressure", code, stderr)
 	}
 }
+
+// TestSeparateGravityUnits: the stock-tank oil's specific gravity (60/60 degF)
+// and API gravity, 141.5/SG - 131.5 (METHODS 5.1; IADC drilling glossary,
+// "API gravity at 60 degF"), are defined at 60 degF whatever the standard
+// conditions of the output. The dead oil of testdata/dead-oil.toml gives the
+// same liquid in the field stock tank (60 degF, 14.696 psia) and in the
+// metric one (15 degC, 101.325 kPa), so both unit systems must print the
+// same gravities; its density at standard conditions differs, the liquid
+// being denser at 15 degC.
+func TestSeparateGravityUnits(t *testing.T) {
+	const study = "testdata/dead-oil.toml"
+	field, metric := runJSON(t, "separate", study), runJSON(t, "separate", "--units", "metric", study)
+	for _, k := range []string{"api_gravity", "stock_tank_oil_specific_gravity"} {
+		checkRel(t, k+" (metric against field)", num(t, metric, k), num(t, field, k), 1e-12, "the same liquid at 60 degF")
+	}
+	sg := num(t, field, "stock_tank_oil_specific_gravity")
+	checkRel(t, "api_gravity", num(t, field, "api_gravity"), 141.5/sg-131.5, 1e-12, "API gravity = 141.5/SG - 131.5")
+	// 1 lb/ft3 = 16.018463373960139 kg/m3 (NIST SP 811, from the pound and foot)
+	rhoF, rhoM := num(t, field, "stock_tank_oil_density_lb_ft3")*16.018463373960139, num(t, metric, "stock_tank_oil_density_kg_m3")
+	checkRel(t, "specific gravity from the 60 degF density", sg, rhoF/cvd.WaterDensity60F, 1e-9, "SG definition, water 999.016 kg/m3 at 60 degF")
+	if !(rhoM > rhoF) {
+		t.Errorf("stock-tank oil density %g kg/m3 at 15 degC, %g at 60 degF; want it denser at 15 degC", rhoM, rhoF)
+	}
+	// As people read them: the tables print the same API gravity.
+	_, tf, _ := dewcell("separate", study)
+	_, tm, _ := dewcell("separate", "--units", "metric", study)
+	line := func(out string) string {
+		for _, l := range strings.Split(out, "\n") {
+			if strings.Contains(l, "api gravity") {
+				return l
+			}
+		}
+		return ""
+	}
+	if lf, lm := line(tf), line(tm); lf == "" || lf != lm {
+		t.Errorf("API gravity line: field %q, metric %q; want the same", lf, lm)
+	}
+}

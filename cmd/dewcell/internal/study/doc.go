@@ -19,12 +19,16 @@
 //	acentric           = "kesler-lee"  # or "edmister": acentric factors of the pseudo-components
 //
 //	[fluid.properties.NAME]
-//	critical_volume = "0.0986 m3/kmol" # optional, used by the Chueh–Prausnitz interaction coefficients
+//	critical_volume = "0.0986 m3/kmol" # optional, used by the Chueh–Prausnitz interaction coefficients and the viscosity;
+//	                                   # absent: estimated for the viscosity, with a warning (Study.Estimates)
 //	boiling_point   = "-258.7 degF"    # optional
 //	specific_gravity = 0.3             # optional, 60/60 degF
 //
 // Dimensional values are strings with their unit; molar masses and mole
-// percents are bare numbers (g/mol, mol %). `volume_shift` in [fluid] defaults
+// percents are bare numbers (g/mol, mol %). The pressures and temperatures of
+// a state (reservoir, separator, depletion, standard conditions, history)
+// must lie in the range of units.ParseState: 1 kPa to 400 MPa, 100 K to
+// 1500 K. `volume_shift` in [fluid] defaults
 // to false: the plain Peng–Robinson volumes, as eos.Options does.
 //
 // Component names are case-sensitive and are library names (eos.LibraryComponent),

@@ -39,7 +39,13 @@ type spec struct {
 	comp  eos.Component // library or user component; canonical library name
 	first int           // index of its first component in the fluid
 	count int           // number of components it became
+	// A user component's optional properties the file does not give.
+	noVc, noShift bool
 }
+
+// vcEstimate names the estimate of a critical volume the file does not give
+// (eos.Fluid.CriticalVolume).
+const vcEstimate = "Zc R Tc/Pc, Zc = 0.2918 − 0.0928 ω (Reid, Prausnitz and Sherwood 1977)"
 
 func (r *reader) fluid(s *Study, f *fileFluid, md toml.MetaData) {
 	if f == nil {
@@ -124,6 +130,56 @@ func (r *reader) fluid(s *Study, f *fileFluid, md toml.MetaData) {
 		return
 	}
 	s.Fluid, s.Z = fl, z
+	s.Estimates = r.estimates(specs, plus, n, opt)
+}
+
+// estimates says, per component, how the properties the file does not give
+// were obtained, and warns of each estimate or default of a user component.
+func (r *reader) estimates(specs []spec, plus plusSpec, n int, opt eos.Options) []string {
+	est := make([]string, n)
+	for _, sp := range specs {
+		if sp.plus {
+			note := pseudoNote(sp.name, plus.c)
+			for j := range sp.count {
+				est[sp.first+j] = note
+			}
+			continue
+		}
+		var notes []string
+		k := key("fluid", "properties", sp.name)
+		if sp.noVc {
+			notes = append(notes, "critical volume estimated as "+vcEstimate)
+			r.warnings = append(r.warnings, fmt.Sprintf("%s: %s gives no critical_volume: the viscosity (Lohrenz–Bray–Clark) uses one estimated as %s, "+
+				"and the Chueh–Prausnitz coefficients of %s with hydrocarbons, which need a critical volume, are 0 where [fluid.interaction] does not set them; "+
+				"give critical_volume to use a known value", r.file, k, vcEstimate, sp.name))
+		}
+		if sp.noShift && opt.VolumeShift {
+			notes = append(notes, "volume shift not given: 0")
+			r.warnings = append(r.warnings, fmt.Sprintf("%s: %s gives no volume_shift: its volumes are not shifted (s = 0) although fluid.volume_shift is true; give volume_shift to shift them",
+				r.file, k))
+		}
+		est[sp.first] = strings.Join(notes, "; ")
+	}
+	return est
+}
+
+// pseudoNote says how the properties of a pseudo-component split from the
+// plus fraction name were obtained, in the words of the study file's keys
+// (eos.PseudoComponent lists the correlations each one means).
+func pseudoNote(name string, c eos.Characterization) string {
+	split := map[eos.SplitMethod]string{eos.SplitGammaQuadrature: "gamma-quadrature", eos.SplitExponential: "exponential", eos.SplitNone: "none"}[c.Split]
+	if split == "" {
+		split = "gamma"
+	}
+	corr := map[eos.CritCorrelation]string{eos.RiaziDaubert: "riazi-daubert", eos.RiaziDaubert1987: "riazi-daubert-1987", eos.Twu: "twu"}[c.Correlation]
+	if corr == "" {
+		corr = "kesler-lee"
+	}
+	acentric := "kesler-lee"
+	if c.Acentric == eos.AcentricEdmister {
+		acentric = "edmister"
+	}
+	return fmt.Sprintf("from the %s split: split %s, correlation %s, acentric %s", name, split, corr, acentric)
 }
 
 // normalise scales z to sum to 1, then nudges its largest entry until the
@@ -395,12 +451,16 @@ func (r *reader) properties(f *fileFluid, specs []spec, order []string) {
 		}
 		if v, ok := r.between(k("volume_shift"), fp.VolumeShift, "a dimensionless Peneloux shift s = c/b", false, -1, 1, true, true); ok {
 			c.Shift = v
+		} else if !isLib {
+			sp.noShift = true
 		}
 		if v, ok := r.quantity(k("critical_volume"), fp.CriticalVolume, units.MolarVolume, false); ok {
 			if v <= 0 {
 				r.failf(k("critical_volume"), "must be above zero")
 			}
 			c.Vc = v
+		} else if !isLib {
+			sp.noVc = true
 		}
 		if v, ok := r.quantity(k("boiling_point"), fp.BoilingPoint, units.Temperature, false); ok {
 			c.Tb = v

@@ -157,6 +157,17 @@ func (r *reader) missing(k, want string) {
 // quantity reads a string with a unit of kind kd, in SI. An absent optional
 // value is 0 with ok false.
 func (r *reader) quantity(k string, v value, kd units.Kind, required bool) (x float64, ok bool) {
+	return r.quantityBy(units.Parse, k, v, kd, required)
+}
+
+// state reads the pressure or temperature of a fluid's state (reservoir,
+// separator, standard conditions, history), which must lie within the range
+// of units.ParseState.
+func (r *reader) state(k string, v value, kd units.Kind, required bool) (x float64, ok bool) {
+	return r.quantityBy(units.ParseState, k, v, kd, required)
+}
+
+func (r *reader) quantityBy(parse func(string, units.Kind, float64) (float64, error), k string, v value, kd units.Kind, required bool) (x float64, ok bool) {
 	if !v.set {
 		if required {
 			r.missing(k, fmt.Sprintf("a %s such as %s", kd, kd.Examples()))
@@ -173,7 +184,7 @@ func (r *reader) quantity(k string, v value, kd units.Kind, required bool) (x fl
 		}
 		return 0, false
 	}
-	x, err := units.Parse(s, kd, r.atm)
+	x, err := parse(s, kd, r.atm)
 	if err != nil {
 		r.failf(k, "%v", err)
 		return 0, false

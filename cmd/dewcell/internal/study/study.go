@@ -3,6 +3,8 @@ package study
 import (
 	"errors"
 	"fmt"
+	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -22,6 +24,11 @@ type Study struct {
 
 	Fluid *eos.Fluid
 	Z     []float64 // feed mole fractions in the order of Fluid's components; they sum to 1
+	// Estimates say, per component of Fluid, how the properties the file
+	// does not give were obtained ("" when it gives them all, or the
+	// library does): a user component's critical volume, the
+	// pseudo-components' correlations.
+	Estimates []string
 
 	Separator []Stage   // in order, the stock tank (standard conditions) follows the last
 	Depletion []float64 // depletion pressures, Pa, falling; nil when not given
@@ -106,13 +113,65 @@ func (s *Study) StandardConditions(sys units.System) units.Conditions {
 	return c
 }
 
-// Read reads and checks the study file at path and builds its fluid.
+// Read reads and checks the study file at path and builds its fluid. The
+// path must name a regular file (or a symbolic link to one): a named pipe,
+// a device or a folder is refused before it is opened, since reading a pipe
+// would wait for a writer.
 func Read(path string) (*Study, error) {
-	data, err := os.ReadFile(path)
+	fail := func(err error) (*Study, error) {
+		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read the study file: %v", pathCause(err)), Err: err}
+	}
+	fi, err := os.Stat(path)
 	if err != nil {
-		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read the study file: %v", errors.Unwrap(err)), Err: err}
+		return fail(err)
+	}
+	if !fi.Mode().IsRegular() {
+		return nil, &Error{File: path, Msg: fmt.Sprintf("is %s, not a regular file; give the path of a study file (TOML)", fileKind(fi.Mode()))}
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return fail(err)
+	}
+	defer f.Close()
+	if fi, err = f.Stat(); err != nil {
+		return fail(err)
+	}
+	if !fi.Mode().IsRegular() { // replaced since the check above
+		return nil, &Error{File: path, Msg: fmt.Sprintf("is %s, not a regular file; give the path of a study file (TOML)", fileKind(fi.Mode()))}
+	}
+	data, err := io.ReadAll(f)
+	if err != nil {
+		return fail(err)
 	}
 	return Parse(path, data)
+}
+
+// pathCause is the reason of a file-system error without the operation and
+// path it repeats ("no such file or directory" for "open x: no such file
+// or directory").
+func pathCause(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+// fileKind names a kind of file that is not a regular one, for messages.
+func fileKind(m fs.FileMode) string {
+	switch {
+	case m.IsDir():
+		return "a folder"
+	case m&fs.ModeNamedPipe != 0:
+		return "a named pipe (FIFO)"
+	case m&fs.ModeSocket != 0:
+		return "a socket"
+	case m&fs.ModeDevice != 0:
+		return "a device"
+	case m&fs.ModeSymlink != 0:
+		return "a symbolic link"
+	}
+	return "a special file"
 }
 
 // Parse checks the study in data, read from the file called name (which
@@ -184,17 +243,17 @@ func (r *reader) standard(s *Study, f *fileStandard) {
 		return
 	}
 	r.atm = 0 // the atmospheric pressure itself cannot be a gauge value
-	if p, ok := r.quantity("standard_conditions.atmospheric_pressure", f.Atmospheric, units.Pressure, false); ok {
+	if p, ok := r.state("standard_conditions.atmospheric_pressure", f.Atmospheric, units.Pressure, false); ok {
 		if p <= 0 {
 			r.failf("standard_conditions.atmospheric_pressure", "must be above zero")
 		}
 		s.Atmospheric = p
 	}
 	r.atm = s.Atmospheric
-	if t, ok := r.quantity("standard_conditions.temperature", f.Temperature, units.Temperature, false); ok {
+	if t, ok := r.state("standard_conditions.temperature", f.Temperature, units.Temperature, false); ok {
 		s.standard.T, s.standardSet[0] = t, true
 	}
-	if p, ok := r.quantity("standard_conditions.pressure", f.Pressure, units.Pressure, false); ok {
+	if p, ok := r.state("standard_conditions.pressure", f.Pressure, units.Pressure, false); ok {
 		if p <= 0 {
 			r.failf("standard_conditions.pressure", "must be above zero")
 		}
@@ -202,8 +261,9 @@ func (r *reader) standard(s *Study, f *fileStandard) {
 	}
 }
 
+// positivePressure reads the pressure of a state (units.ParseState).
 func (r *reader) positivePressure(k string, v value, required bool) float64 {
-	p, ok := r.quantity(k, v, units.Pressure, required)
+	p, ok := r.state(k, v, units.Pressure, required)
 	if ok && p <= 0 {
 		r.failf(k, "must be above zero absolute pressure")
 	}
@@ -216,7 +276,7 @@ func (r *reader) reservoir(s *Study, f *fileReservoir) {
 		return
 	}
 	res := &s.Reservoir
-	res.Temperature, _ = r.quantity("reservoir.temperature", f.Temperature, units.Temperature, true)
+	res.Temperature, _ = r.state("reservoir.temperature", f.Temperature, units.Temperature, true)
 	res.InitialPressure = r.positivePressure("reservoir.initial_pressure", f.InitialPressure, false)
 	res.AbandonmentPressure = r.positivePressure("reservoir.abandonment_pressure", f.AbandonmentPressure, false)
 	if res.InitialPressure > 0 && res.AbandonmentPressure >= res.InitialPressure {
@@ -260,7 +320,7 @@ func (r *reader) separator(s *Study, f *fileSeparator) {
 	for i, st := range f.Stage {
 		k := fmt.Sprintf("separator.stage[%d]", i+1)
 		p := r.positivePressure(k+".pressure", st.Pressure, true)
-		t, _ := r.quantity(k+".temperature", st.Temperature, units.Temperature, true)
+		t, _ := r.state(k+".temperature", st.Temperature, units.Temperature, true)
 		if i > 0 && p >= s.Separator[i-1].Pressure && r.err == nil {
 			r.failf(k+".pressure", "must be below the pressure of stage %d: the separator pressures fall along the train", i)
 		}
@@ -314,9 +374,9 @@ func (r *reader) lab(s *Study, f *fileLab, dir string) {
 		fi, err := os.Stat(p)
 		switch {
 		case err != nil:
-			r.failf(k, "cannot use %s: %v", p, errors.Unwrap(err))
-		case fi.IsDir():
-			r.failf(k, "%s is a directory; want a CSV file", p)
+			r.failf(k, "cannot use %s: %v", p, pathCause(err))
+		case !fi.Mode().IsRegular(): // a named pipe would make the reader wait
+			r.failf(k, "%s is %s, not a regular file; want a CSV file", p, fileKind(fi.Mode()))
 		}
 		return p
 	}

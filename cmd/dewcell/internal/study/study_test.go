@@ -2,6 +2,7 @@ package study
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -111,6 +112,15 @@ var badStudies = []struct {
 	{"ambiguous pressure", `initial_pressure = "5200 psia"`, `initial_pressure = "5200 psi"`, "reservoir.initial_pressure", "psig"},
 	{"below absolute zero", `temperature = "245 degF"`, `temperature = "-500 degF"`, "reservoir.temperature", "absolute zero"},
 	{"not finite", `initial_pressure = "5200 psia"`, `initial_pressure = "Inf psia"`, "reservoir.initial_pressure", "finite"},
+	// The range of a state: 1 kPa to 400 MPa (0.145038 to 58015.1 psia), 100 K to 1500 K
+	// (-279.67 to 2240.33 degF), given in the unit of the input (units.ParseState).
+	{"absurd pressure", `initial_pressure = "5200 psia"`, `initial_pressure = "1e30 psia"`, "reservoir.initial_pressure", "out of range; want a pressure from 0.145038 psia to 58015.1 psia"},
+	{"tiny pressure", `abandonment_pressure = "700 psia"`, `abandonment_pressure = "1e-30 psia"`, "reservoir.abandonment_pressure", "from 0.145038 psia"},
+	{"absurd temperature", `temperature = "245 degF"`, `temperature = "1e9 degF"`, "reservoir.temperature", "out of range; want a temperature from -279.67 degF to 2240.33 degF"},
+	{"absurd separator pressure", `pressure = "815 psia"`, `pressure = "5000 bara"`, "separator.stage[1].pressure", "from 0.01 bara to 4000 bara"},
+	{"absurd separator temperature", `temperature = "75 degF"`, `temperature = "50 K"`, "separator.stage[1].temperature", "from 100 K to 1500 K"},
+	{"absurd depletion pressure", `pressures = ["4000 psia"`, `pressures = ["1e30 psia"`, "depletion.pressures[1]", "out of range"},
+	{"absurd standard temperature", "[[separator.stage]]", "[standard_conditions]\ntemperature = \"2000 degC\"\n\n[[separator.stage]]", "standard_conditions.temperature", "from -173.15 degC to 1226.85 degC"},
 	{"missing temperature", "temperature = \"245 degF\"\ninitial", "initial", "reservoir.temperature", "missing"},
 	{"missing reservoir", "[reservoir]\ntemperature = \"245 degF\"\ninitial_pressure = \"5200 psia\"\narea = \"2400 acre\"\nnet_thickness = \"85 ft\"\nporosity = 0.17\nwater_saturation = 0.22\nabandonment_pressure = \"700 psia\"\n", "", "reservoir", "missing section"},
 	{"porosity as string", "porosity = 0.17", `porosity = "0.17"`, "reservoir.porosity", "bare number"},
@@ -204,6 +214,79 @@ critical_pressure = "380 psia"
 	if !errors.As(err, &se) || se.Key != "fluid.properties.F1.acentric_factor" || !strings.Contains(err.Error(), "missing") {
 		t.Errorf("user component without acentric factor: %v, want a missing fluid.properties.F1.acentric_factor", err)
 	}
+}
+
+// TestUserComponentEstimates: what a user component does not give is said,
+// not filled in silently. Without critical_volume the viscosity uses
+// Zc R Tc/Pc with Zc = 0.2918 − 0.0928 ω (Reid, Prausnitz and Sherwood
+// 1977, as eos.Fluid.CriticalVolume documents); without volume_shift, while
+// volume shifts are applied, the shift is 0. Both appear in Estimates and as
+// a warning naming the component and the method; the plus fraction's
+// pseudo-components name their split and correlations.
+func TestUserComponentEstimates(t *testing.T) {
+	props := `[fluid.properties.F1]
+molar_mass = 110.0
+critical_temperature = "560 degF"
+critical_pressure = "380 psia"
+acentric_factor = 0.3
+%s
+[[separator.stage]]`
+	data := edit(t, "C3 = 4.0", "F1 = 4.0")
+	data = strings.Replace(data, "equation = \"PR78\"", "equation = \"PR78\"\nvolume_shift = true", 1)
+	bare := strings.Replace(data, "[[separator.stage]]", fmt.Sprintf(props, ""), 1)
+	st, err := Parse("case.toml", []byte(bare))
+	if err != nil {
+		t.Fatal(err)
+	}
+	i := index(t, st, "F1")
+	est := st.Estimates[i]
+	for _, want := range []string{"critical volume", "0.2918 − 0.0928 ω", "Reid, Prausnitz and Sherwood 1977", "volume shift not given: 0"} {
+		if !strings.Contains(est, want) {
+			t.Errorf("estimate of F1 %q lacks %q", est, want)
+		}
+	}
+	warned := strings.Join(st.Warnings, "\n")
+	for _, want := range []string{"case.toml: fluid.properties.F1 gives no critical_volume", "0.2918 − 0.0928 ω", "fluid.properties.F1 gives no volume_shift"} {
+		if !strings.Contains(warned, want) {
+			t.Errorf("warnings %q lack %q", st.Warnings, want)
+		}
+	}
+	if vc, estimated := st.Fluid.CriticalVolume(i); !estimated || !(vc > 0) {
+		t.Errorf("F1 critical volume %g (estimated %v), want an estimate", vc, estimated)
+	}
+	for j, c := range st.Fluid.Components() {
+		_, isLib := eos.LibraryComponent(c.Name)
+		switch {
+		case j != i && !isLib: // a pseudo-component
+			if !strings.Contains(st.Estimates[j], "C7+ split") || !strings.Contains(st.Estimates[j], "kesler-lee") {
+				t.Errorf("pseudo-component %s: estimate %q, want the split and its correlation", c.Name, st.Estimates[j])
+			}
+		case j != i && st.Estimates[j] != "":
+			t.Errorf("library component %s: estimate %q, want none", c.Name, st.Estimates[j])
+		}
+	}
+
+	// Given, nothing is estimated or warned of.
+	full := strings.Replace(data, "[[separator.stage]]", fmt.Sprintf(props, "critical_volume = \"0.45 m3/kmol\"\nvolume_shift = 0.02\n"), 1)
+	if st, err = Parse("case.toml", []byte(full)); err != nil {
+		t.Fatal(err)
+	}
+	i = index(t, st, "F1")
+	if vc, estimated := st.Fluid.CriticalVolume(i); st.Estimates[i] != "" || len(st.Warnings) != 0 || estimated || vc != 0.45e-3 {
+		t.Errorf("F1 with its critical volume: estimate %q, warnings %q, Vc %g (estimated %v); want none, 0.45 m3/kmol", st.Estimates[i], st.Warnings, vc, estimated)
+	}
+}
+
+// index is the position of the component name in the study's fluid.
+func index(t *testing.T, st *Study, name string) int {
+	t.Helper()
+	for i, c := range st.Fluid.Components() {
+		if c.Name == name {
+			return i
+		}
+	}
+	t.Fatalf("no component %s", name)
+	return -1
 }
 
 func TestReadMissingFile(t *testing.T) {

@@ -77,7 +77,7 @@ var kindNames = [...]string{
 // kindExamples show a user what to write for each kind.
 var kindExamples = [...]string{
 	Dimensionless:   `a bare number`,
-	Temperature:     `"245 degF", "118 degC", "390 K" or "705 degR"`,
+	Temperature:     `"245 degF", "118 degC", "390 K" or "705 degR" (also °F, F, °C, C, °R, R)`,
 	Pressure:        `"6200 psia", "1200 psig", "427.5 bara", "10 barg", "42.75 MPa", "101.325 kPa", "1e5 Pa" or "1 atm"`,
 	Length:          `"85 ft", "26 m", "2600 cm" or "1.2 km"`,
 	Area:            `"2400 acre", "970 ha", "9.7 km2", "1.05e8 ft2" or "9.7e6 m2"`,
@@ -187,10 +187,12 @@ func defGauge(key string, scale, inv float64, symbols ...string) Unit {
 
 // Units that the output systems use, and Percent for composition columns.
 var (
+	// The temperature scales accept their usual spellings: degF, °F or F;
+	// degC, °C or C; degR, °R or R; K. Output uses the first.
 	Kelvin    = def(Temperature, "K", 1, 1, 0, "K")
-	DegC      = def(Temperature, "degC", 1, 1, KAt0C, "degC", "°C")
-	DegF      = def(Temperature, "degF", KPerDegR, 1/KPerDegR, DegRAt0F, "degF", "°F")
-	DegR      = def(Temperature, "degR", KPerDegR, 1/KPerDegR, 0, "degR", "°R")
+	DegC      = def(Temperature, "degC", 1, 1, KAt0C, "degC", "°C", "C")
+	DegF      = def(Temperature, "degF", KPerDegR, 1/KPerDegR, DegRAt0F, "degF", "°F", "F")
+	DegR      = def(Temperature, "degR", KPerDegR, 1/KPerDegR, 0, "degR", "°R", "R")
 	Pascal    = def(Pressure, "Pa", 1, 1, 0, "Pa")
 	KPa       = def(Pressure, "kPa", 1e3, 1/1e3, 0, "kPa")
 	MPa       = def(Pressure, "MPa", 1e6, 1/1e6, 0, "MPa")
@@ -247,8 +249,8 @@ func init() {
 // ambiguous lists symbols we refuse because they do not say whether the
 // pressure is absolute or gauge.
 var ambiguous = map[string]string{
-	"psi": `write "psia" (absolute) or "psig" (gauge)`,
-	"bar": `write "bara" (absolute) or "barg" (gauge)`,
+	"psi": `write "psia" for an absolute pressure or "psig" for a gauge one`,
+	"bar": `write "bara" for an absolute pressure or "barg" for a gauge one`,
 }
 
 // Lookup returns the input unit with the given symbol.
@@ -267,6 +269,25 @@ var (
 	ErrNotFinite   = errors.New("not a finite number")
 	ErrNegative    = errors.New("below zero")
 	ErrNoAtm       = errors.New("gauge pressure without an atmospheric pressure")
+	ErrOutOfRange  = errors.New("outside the accepted range")
+)
+
+// The range of the pressures and temperatures of a fluid's state (the
+// reservoir, a separator stage, the standard conditions, a flash) that
+// ParseState accepts.
+//
+// The pressures are those the equation-of-state solvers search: saturation
+// points are sought from 400 MPa (58,015 psia) down to 1 kPa (0.145 psia),
+// and no reservoir or surface state lies outside. The temperatures reach
+// well beyond any reservoir or process plant, from 100 K (−279.67 °F, below
+// the coldest cryogenic gas plant) to 1500 K (2240.33 °F), where the
+// component properties and correlations long stop meaning anything (common
+// practice, no published source).
+const (
+	MinStatePressure    = 1e3   // Pa
+	MaxStatePressure    = 400e6 // Pa
+	MinStateTemperature = 100.0 // K
+	MaxStateTemperature = 1500  // K
 )
 
 // Error describes why a string could not be read as a quantity, in the manner
@@ -331,6 +352,47 @@ func Parse(s string, want Kind, atm float64) (float64, error) {
 	return si, nil
 }
 
+// ParseState reads s as Parse does and, for a pressure or a temperature,
+// checks that it lies within the range of a fluid's state
+// (MinStatePressure to MaxStatePressure, MinStateTemperature to
+// MaxStateTemperature), a value outside being ErrOutOfRange with the range
+// given in the unit of s. Other kinds are read as Parse reads them.
+func ParseState(s string, want Kind, atm float64) (float64, error) {
+	si, err := Parse(s, want, atm)
+	if err != nil {
+		return 0, err
+	}
+	var lo, hi float64
+	switch want {
+	case Pressure:
+		lo, hi = MinStatePressure, MaxStatePressure
+	case Temperature:
+		lo, hi = MinStateTemperature, MaxStateTemperature
+	default:
+		return si, nil
+	}
+	if si >= lo && si <= hi {
+		return si, nil
+	}
+	u, _, _ := parse(s, want) // it parsed above
+	in := func(x float64) string {
+		if u.gauge {
+			x -= atm
+		}
+		return strconv.FormatFloat(u.FromSI(x), 'g', 6, 64) + " " + u.Symbol
+	}
+	why := fmt.Sprintf("%g K to %g K", lo, hi)
+	if want == Pressure {
+		why = fmt.Sprintf("%g kPa to %g MPa, the pressures the equation-of-state solvers search", lo/1e3, hi/1e6)
+	}
+	what := "out of range"
+	if want == Pressure && si <= 0 {
+		what = "out of range: an absolute pressure must be above zero"
+	}
+	return 0, &Error{Input: s, Want: want, Err: ErrOutOfRange,
+		msg: fmt.Sprintf("%s; want a %s from %s to %s (%s)", what, want, in(lo), in(hi), why)}
+}
+
 // parse splits s into a number and a unit of kind want.
 func parse(s string, want Kind) (Unit, float64, error) {
 	fail := func(e error, format string, args ...any) (Unit, float64, error) {
@@ -352,7 +414,7 @@ func parse(s string, want Kind) (Unit, float64, error) {
 		return fail(ErrNoUnit, "missing unit; want a %s such as %s", want, want.Examples())
 	}
 	if hint, ok := ambiguous[sym]; ok && want == Pressure {
-		return fail(ErrAmbiguous, "%q does not say whether the pressure is absolute or gauge: %s", sym, hint)
+		return fail(ErrAmbiguous, "%sa or %sg? %q does not say whether the pressure is absolute or gauge; %s", sym, sym, sym, hint)
 	}
 	u, ok := table[sym]
 	if alt, isAlt := alias[want][sym]; isAlt {

@@ -33,6 +33,14 @@ var parseTests = []struct {
 	{"491.67 °R", Temperature, 0, 273.15, 1e-15, "definition: 32 degF = 491.67 degR = 273.15 K"},
 	{"-40 °F", Temperature, 0, 233.15, 1e-14, "-40 degF = -40 degC: the scales cross there (definitions)"},
 	{"245degF", Temperature, 0, (245 + 459.67) / 1.8, 1e-15, "definition; the space is optional"},
+	// The usual spellings of the scales: F, C and R alone (NIST SP 811 writes °F, °C and °R).
+	{"245 F", Temperature, 0, (245 + 459.67) / 1.8, 1e-15, "definition: T/K = (t/°F + 459.67)/1.8"},
+	{"-40 F", Temperature, 0, 233.15, 1e-14, "-40 °F = -40 °C (definitions)"},
+	{"118 C", Temperature, 0, 391.15, 1e-15, "definition: T/K = t/°C + 273.15"},
+	{"118C", Temperature, 0, 391.15, 1e-15, "definition; the space is optional"},
+	{"700 R", Temperature, 0, 700 / 1.8, 1e-15, "definition: 1 °R = 5/9 K (NIST SP 811, B.9)"},
+	{"491.67 R", Temperature, 0, 273.15, 1e-15, "definition: 491.67 °R = 273.15 K"},
+	{"390 K", Temperature, 0, 390, 0, "SI"},
 
 	// Pressures against the psia and Pa columns of pr-open.md.
 	{"1000 psia", Pressure, 0, 6894757.293, 1e-10, "pr-open.md part B: 1000 psia = 6894757.293 Pa"},
@@ -113,8 +121,10 @@ var parseErrors = []struct {
 	{"6200 furlongs", Pressure, 0, ErrUnknownUnit, `unknown unit "furlongs"`},
 	{"6200 PSIA", Pressure, 0, ErrUnknownUnit, `did you mean "psia"`},
 	{"42 mpa", Pressure, 0, ErrUnknownUnit, `"MPa"`},
-	{"6200 psi", Pressure, 0, ErrAmbiguous, "psig"},
-	{"300 bar", Pressure, 0, ErrAmbiguous, "barg"},
+	{"6200 psi", Pressure, 0, ErrAmbiguous, "psia or psig?"},
+	{"300 bar", Pressure, 0, ErrAmbiguous, "bara or barg?"},
+	{"245 f", Temperature, 0, ErrUnknownUnit, `did you mean "F"`},
+	{"245 F", Pressure, 0, ErrWrongKind, "temperature"},
 	{"85 ft", Pressure, 0, ErrWrongKind, "length"},
 	{"245 degF", Pressure, 0, ErrWrongKind, "temperature"},
 	{"6200 psia", Temperature, 0, ErrWrongKind, "pressure"},
@@ -219,5 +229,55 @@ func TestStandard(t *testing.T) {
 	}
 	if _, err := ParseSystem("imperial"); err == nil {
 		t.Error("ParseSystem(imperial) gave no error")
+	}
+}
+
+// TestParseState: pressures and temperatures of a state outside the
+// documented range (1 kPa to 400 MPa, 100 K to 1500 K) are ErrOutOfRange,
+// the message giving the range in the unit of the input; the limits
+// themselves and values inside are accepted as Parse reads them. The
+// converted limits follow from the definitions: 400 MPa = 58015.1 psia and
+// 1 kPa = 0.145038 psia (1 psi = 6894.757 Pa, NIST SP 811); 100 K =
+// -279.67 degF = -173.15 degC, 1500 K = 2240.33 degF = 1226.85 degC.
+func TestParseState(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		in   string
+		kind Kind
+		msg  string // "" when accepted
+	}{
+		{"1e30 psia", Pressure, "from 0.145038 psia to 58015.1 psia"},
+		{"1e-30 psia", Pressure, "from 0.145038 psia to 58015.1 psia"},
+		{"0 psia", Pressure, "above zero; want a pressure from 0.145038 psia to 58015.1 psia"},
+		{"-14.69 psig", Pressure, "out of range; want a pressure from -14.5509 psig to 58000.4 psig"},
+		{"5000 bara", Pressure, "from 0.01 bara to 4000 bara"},
+		{"500 MPa", Pressure, "from 0.001 MPa to 400 MPa"},
+		{"1e9 psig", Pressure, "from -14.5509 psig to 58000.4 psig"},
+		{"1e9 degF", Temperature, "from -279.67 degF to 2240.33 degF"},
+		{"1300 degC", Temperature, "from -173.15 degC to 1226.85 degC"},
+		{"50 K", Temperature, "from 100 K to 1500 K"},
+		{"-300 F", Temperature, "from -279.67 F to 2240.33 F"},
+		{"400 MPa", Pressure, ""},
+		{"1 kPa", Pressure, ""},
+		{"58000 psia", Pressure, ""},
+		{"100 K", Temperature, ""},
+		{"1500 K", Temperature, ""},
+		{"-250 degF", Temperature, ""},
+		{"1e30 ft", Length, ""}, // no range for other kinds
+	} {
+		got, err := ParseState(c.in, c.kind, PaPerAtm)
+		if c.msg == "" {
+			want, werr := Parse(c.in, c.kind, PaPerAtm)
+			if err != nil || werr != nil || got != want {
+				t.Errorf("ParseState(%q) = %g, %v; want %g as Parse gives", c.in, got, err, want)
+			}
+			continue
+		}
+		if !errors.Is(err, ErrOutOfRange) || got != 0 || !strings.Contains(err.Error(), c.in) || !strings.Contains(err.Error(), c.msg) {
+			t.Errorf("ParseState(%q) = %g, %v; want ErrOutOfRange quoting the input and %q", c.in, got, err, c.msg)
+		}
+	}
+	if _, err := ParseState("6200 psi", Pressure, PaPerAtm); !errors.Is(err, ErrAmbiguous) {
+		t.Errorf("ParseState keeps the errors of Parse: %v", err)
 	}
 }
