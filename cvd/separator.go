@@ -37,7 +37,10 @@ const (
 // the gas of every stage, the stock tank's included, is sales gas.
 type Train struct {
 	Stages   []Conditions
-	Standard Conditions // stock tank and reference of standard volumes; zero means StandardField
+	Standard Conditions // reference of standard volumes; zero means StandardField
+	// Tank is where the stock tank, the last stage, operates; zero means
+	// the Standard conditions.
+	Tank Conditions
 }
 
 func (tr Train) standard() Conditions {
@@ -45,6 +48,13 @@ func (tr Train) standard() Conditions {
 		return StandardField
 	}
 	return tr.Standard
+}
+
+func (tr Train) tank() Conditions {
+	if tr.Tank == (Conditions{}) {
+		return tr.standard()
+	}
+	return tr.Tank
 }
 
 // StageResult is one stage of a separator calculation. Amounts are per mole of
@@ -101,7 +111,7 @@ type Separator struct {
 
 // NewSeparator checks the train and returns a Separator for fluid fl.
 func NewSeparator(fl *eos.Fluid, train Train, s *eos.Settings) (*Separator, error) {
-	for k, st := range append(append([]Conditions(nil), train.Stages...), train.standard()) {
+	for k, st := range append(append([]Conditions(nil), train.Stages...), train.tank(), train.standard()) {
 		if !(st.T > 0 && st.P > 0) || math.IsInf(st.T, 0) || math.IsInf(st.P, 0) {
 			return nil, fmt.Errorf("%w: stage %d at %g K and %g Pa", ErrBadTrain, k+1, st.T, st.P)
 		}
@@ -114,14 +124,14 @@ func NewSeparator(fl *eos.Fluid, train Train, s *eos.Settings) (*Separator, erro
 
 // Separate flashes one mole of well stream z through the train: each stage is
 // an isothermal flash of the liquid of the stage before at the stage's
-// pressure and temperature, the last one the stock tank at standard
-// conditions (Whitson and Brulé 2000, ch. 7). Gas volumes are ideal-gas
-// volumes at standard conditions: n R T_sc / p_sc, 379.49 scf/lbmol at 60 °F
-// and 14.696 psia.
+// pressure and temperature, the last one the stock tank (Whitson and Brulé
+// 2000, ch. 7). Gas volumes are ideal-gas volumes at standard conditions:
+// n R T_sc / p_sc, 379.48 scf/lbmol at 60 °F and 14.696 psia; the stock-tank
+// oil volume is that of the tank's liquid at standard conditions.
 func (s *Separator) Separate(z []float64) (SeparatorResult, error) {
 	n := s.fl.N()
-	std := s.train.standard()
-	stages := append(append([]Conditions(nil), s.train.Stages...), std)
+	std, tk := s.train.standard(), s.train.tank()
+	stages := append(append([]Conditions(nil), s.train.Stages...), tk)
 	var r SeparatorResult
 	copy(s.feed, z)
 	for i := range s.gas {
@@ -178,11 +188,9 @@ func (s *Separator) Separate(z []float64) (SeparatorResult, error) {
 	if r.OilMoles > 0 {
 		r.Oil = tank.Liquid
 		// the stock-tank liquid is evaluated on its own: it is the liquid of
-		// the last flash, at its bubble point at standard conditions
-		var pp eos.PhaseProps
-		if s.res.Phases == 2 {
-			pp = s.res.L
-		} else {
+		// the last flash, at its bubble point in the tank
+		pp := s.res.L
+		if s.res.Phases != 2 || tk != std {
 			pp, _ = s.fl.Props(std.T, std.P, r.Oil)
 		}
 		r.OilM = pp.M

@@ -80,11 +80,12 @@ func surfaceUnitsOf(sys units.System) surfaceUnits {
 	return surfaceUnits{gasPerMol: scfPerLbmol, oilPerMol: stbPerLbmol, gor: scfPerSTB, cgr: stbPerMMscf}
 }
 
-// trainOf is the study's separator train, the stock tank at the study's
-// standard conditions in the output system following the last stage.
+// trainOf is the study's separator train, the stock tank (Study.StockTank)
+// following the last stage, with standard volumes at the study's standard
+// conditions in the output system.
 func trainOf(st *study.Study, sys units.System) cvd.Train {
-	std := st.StandardConditions(sys)
-	tr := cvd.Train{Standard: cvd.Conditions{T: std.T, P: std.P}}
+	std, tank := st.StandardConditions(sys), st.StockTank()
+	tr := cvd.Train{Standard: cvd.Conditions{T: std.T, P: std.P}, Tank: cvd.Conditions{T: tank.T, P: tank.P}}
 	for _, s := range st.Separator {
 		tr.Stages = append(tr.Stages, cvd.Conditions{T: s.Temperature, P: s.Pressure})
 	}
@@ -97,6 +98,8 @@ func standardFields(tr cvd.Train, sys units.System) []Field {
 	return []Field{
 		{Column{Name: "standard_temperature", Unit: tU}, tU.FromSI(tr.Standard.T)},
 		{Column{Name: "standard_pressure", Unit: pU}, pU.FromSI(tr.Standard.P)},
+		{Column{Name: "stock_tank_temperature", Unit: tU}, tU.FromSI(tr.Tank.T)},
+		{Column{Name: "stock_tank_pressure", Unit: pU}, pU.FromSI(tr.Tank.P)},
 		{Column{Name: "separator_stages"}, len(tr.Stages)},
 	}
 }

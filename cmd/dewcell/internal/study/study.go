@@ -113,6 +113,22 @@ func (s *Study) StandardConditions(sys units.System) units.Conditions {
 	return c
 }
 
+// StockTank returns the conditions of the stock tank, the last stage of the
+// separator train: those of [standard_conditions] where the study sets
+// them, else 60 °F and 14.696 psia in either unit system, the conditions
+// at which the stock-tank oil's gravity is defined, so that the oil (and its
+// API gravity) does not depend on the output units.
+func (s *Study) StockTank() units.Conditions {
+	c := units.Field.Standard()
+	if s.standardSet[0] {
+		c.T = s.standard.T
+	}
+	if s.standardSet[1] {
+		c.P = s.standard.P
+	}
+	return c
+}
+
 // Read reads and checks the study file at path and builds its fluid. The
 // path must name a regular file (or a symbolic link to one): a named pipe,
 // a device or a folder is refused before it is opened, since reading a pipe
