@@ -231,7 +231,7 @@ func minTPD(fl *Fluid, t, p float64, z []float64) float64 {
 			w.lnW[i] = math.Log(1e-6 * z[i])
 		}
 		w.lnW[k] = math.Log(z[k] + 0.5)
-		if r := w.trial(p, z, false); r.ok {
+		if r := w.trial(p, z, z, false); r.ok {
 			best = math.Min(best, r.tm)
 		}
 	}

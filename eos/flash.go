@@ -49,10 +49,26 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 		if !liq.ok || !vap.ok {
 			return &SolveError{Op: "Flash", Iter: iter, Residual: math.NaN(), Err: ErrNoConvergence}
 		}
-		w.single(dst, t, p, z, iter)
-		return nil
+		pt, unstable := w.pureTrials(p, z)
+		iter += pt.iter
+		if !unstable {
+			w.single(dst, t, p, z, iter)
+			return nil
+		}
+		// split from the trial phase against the feed
+		sw := 0.0
+		for _, v := range w.W {
+			sw += v
+		}
+		for i, zi := range z {
+			w.lnK[i] = 0
+			if zi > 0 {
+				w.lnK[i] = math.Log(zi / (w.W[i] / sw))
+			}
+		}
+	} else {
+		w.trialK(z, liq, vap)
 	}
-	w.trialK(z, liq, vap)
 	beta, it, res, ok := w.split(t, p, z, true)
 	iter += it
 	if !ok || !(beta > 0 && beta < 1) {
@@ -80,8 +96,166 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 		dst.Iter, dst.Resid = iter, res
 		return &SolveError{Op: "Flash", Iter: iter, Residual: res, Err: ErrNoConvergence}
 	}
+	beta, it, res, three := w.verifySplit(t, p, z, beta, res)
+	iter += it
 	w.twoPhase(dst, t, p, z, beta, iter, res)
+	dst.ThreePhase = three
 	return nil
+}
+
+// verifySplit tests the converged split in w.x and w.y (vapour fraction
+// beta, residual res) for stability against its own tangent plane, the
+// test by which Michelsen (1982b) accepts a phase split: a trial phase of
+// negative tangent-plane distance there proves that the split is not the
+// equilibrium, either because another two-phase split has a lower Gibbs
+// energy or because a third phase would form. Splits of that trial phase
+// with each phase of the current one are converged and the one of lowest
+// Gibbs energy is kept, up to three times. It leaves the best split in w.x
+// and w.y, evaluated in w.pa and w.pb, and reports whether that split is
+// still unstable (a three-phase region: the split is not the equilibrium).
+func (w *work) verifySplit(t, p float64, z []float64, beta, res float64) (float64, int, float64, bool) {
+	iter := 0
+	copy(w.bx, w.x)
+	copy(w.by, w.y)
+	bestG := w.splitGibbs(z, beta)
+	unstable := false
+	for round := 0; ; round++ {
+		found, it := w.splitUnstable(t, p, z)
+		iter += it
+		if !found || round == 3 {
+			unstable = found
+			break
+		}
+		improved := false
+		sw := 0.0
+		for _, v := range w.tw {
+			sw += v
+		}
+		for k := 0; k < 2; k++ {
+			other := w.bx
+			if k == 1 {
+				other = w.by
+			}
+			for i, zi := range z {
+				w.lnK[i] = 0
+				if zi > 0 {
+					w.lnK[i] = math.Log(w.tw[i]/sw) - math.Log(other[i])
+				}
+			}
+			b, it, r, ok := w.split(t, p, z, true)
+			iter += it
+			if !ok || !(b > 0 && b < 1) {
+				continue
+			}
+			if g := w.splitGibbs(z, b); g < bestG-1e-12*(1+math.Abs(bestG)) {
+				bestG, beta, res = g, b, r
+				copy(w.bx, w.x)
+				copy(w.by, w.y)
+				improved = true
+			}
+		}
+		if !improved {
+			unstable = true
+			break
+		}
+	}
+	copy(w.x, w.bx)
+	copy(w.y, w.by)
+	w.fl.evalPhase(&w.pa, &w.ts, p, w.x, rootMinG, 0)
+	w.fl.evalPhase(&w.pb, &w.ts, p, w.y, rootMinG, 0)
+	return beta, iter, res, unstable
+}
+
+// splitGibbs is G/RT of the split of vapour fraction beta held in w.x and
+// w.y, evaluated in w.pa and w.pb (less the ideal-gas reference).
+func (w *work) splitGibbs(z []float64, beta float64) float64 {
+	gl, gv := 0.0, 0.0
+	for i, zi := range z {
+		if zi == 0 {
+			continue
+		}
+		gl += w.x[i] * (math.Log(w.x[i]) + w.pa.lnphi[i])
+		gv += w.y[i] * (math.Log(w.y[i]) + w.pb.lnphi[i])
+	}
+	return beta*gv + (1-beta)*gl
+}
+
+// splitUnstable runs the tangent-plane test against the plane of the split
+// in w.bx and w.by: first the trial phases of the feed's own test (w.wLiq,
+// w.wVap), then a vapour-like trial from the lighter phase and a
+// liquid-like one from the denser, both from Wilson K-values. It reports
+// whether a trial phase of negative tm was found, its mole numbers left in
+// w.tw.
+func (w *work) splitUnstable(t, p float64, z []float64) (bool, int) {
+	fl := w.fl
+	fl.evalPhase(&w.pb, &w.ts, p, w.bx, rootMinG, 0)
+	for i, zi := range z {
+		w.d[i] = math.Inf(-1)
+		if zi > 0 {
+			w.d[i] = math.Log(w.bx[i]) + w.pb.lnphi[i]
+		}
+	}
+	// the feed's trial phases, where they stopped: tm < 0 at any
+	// composition proves instability
+	for _, tr := range [2][]float64{w.wLiq, w.wVap} {
+		if w.tmAt(p, z, tr) < w.tmCut && !sameTrial(z, tr, w.bx) && !sameTrial(z, tr, w.by) {
+			copy(w.tw, tr)
+			return true, 1
+		}
+	}
+	iter := 0
+	w.nearRef = splitNearRef
+	defer func() { w.nearRef = 0 }()
+	for k := 0; k < 2; k++ {
+		ref, sgn := w.by, 1.0
+		if k == 1 {
+			ref, sgn = w.bx, -1
+		}
+		w.wilson(t, p)
+		for i, zi := range z {
+			if zi > 0 {
+				w.lnW[i] = math.Log(ref[i]) + sgn*w.lnK[i]
+			}
+		}
+		r := w.trial(p, z, ref, true)
+		iter += r.iter
+		if r.unstable && !sameTrial(z, w.W, w.bx) && !sameTrial(z, w.W, w.by) {
+			copy(w.tw, w.W)
+			return true, iter
+		}
+	}
+	return false, iter
+}
+
+// splitNearRef: a trial phase testing a split that comes within this squared
+// distance in ln W of the phase it started from, with tm > 0, is taken to
+// fall back onto it: the phases of a converged split are minima of tm.
+const splitNearRef = 1e-3
+
+// tmAt is the tangent-plane distance against w.d of the trial phase of mole
+// numbers W (normalised here).
+func (w *work) tmAt(p float64, z, W []float64) float64 {
+	sw := 0.0
+	for i, zi := range z {
+		if zi > 0 {
+			sw += W[i]
+		}
+	}
+	if !(sw > 0) || math.IsInf(sw, 0) {
+		return math.Inf(1)
+	}
+	for i := range z {
+		w.wn[i] = W[i] / sw
+	}
+	w.fl.evalPhase(&w.pb, &w.ts, p, w.wn, rootMinG, 0)
+	tm := 1.0
+	for i, zi := range z {
+		if zi > 0 {
+			wi := w.wn[i]
+			tm += wi * (math.Log(wi) + w.pb.lnphi[i] - w.d[i] - 1)
+		}
+	}
+	return tm
 }
 
 // trialK sets w.lnK from the trial phase(s) of the last stability test that
@@ -147,6 +321,7 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 		ssMax = w.max
 	}
 	resJump := math.Inf(1) // residual before the last GDEM jump
+	newtons := 0           // Newton stages tried
 	for it := 1; it <= w.max; it++ {
 		iter = it
 		for i := 0; i < n; i++ {
@@ -187,7 +362,8 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 			return beta, iter, res, false // collapsed onto the trivial solution
 		}
 		near := accel && it >= 3 && res < 1e-2 || !accel && res < 1e-6 || it >= ssMax
-		if near && beta > 0 && beta < 1 {
+		if near && beta > 0 && beta < 1 && newtons < splitNewtons {
+			newtons++
 			bn, itn, resn, okn := w.newtonSplit(t, p, z, beta)
 			iter += itn
 			if okn {
@@ -217,6 +393,11 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 	}
 	return beta, iter, res, false
 }
+
+// splitNewtons bounds the Newton stages one split tries: each that fails
+// hands back to substitution, which would otherwise call it again at every
+// step (some states spent 0.1–0.5 s so).
+const splitNewtons = 3
 
 // gdem applies the one-eigenvalue dominant-eigenvalue extrapolation to ln K
 // (Crowe and Nishio 1975, as used by Michelsen 1982b): with Δ_k the last two
@@ -409,7 +590,7 @@ func (w *work) single(dst *FlashResult, t, p float64, z []float64, iter int) {
 	copy(dst.X, z)
 	copy(dst.Y, z)
 	pp := w.fl.props(&w.feed, t, p, z)
-	dst.Phases, dst.Iter, dst.Resid = 1, iter, 0
+	dst.Phases, dst.Iter, dst.Resid, dst.ThreePhase = 1, iter, 0, false
 	dst.Single = w.singleLabel(t, w.feed.vEOS, z)
 	dst.L, dst.V = pp, pp
 	if dst.Single == Liquid {

@@ -58,7 +58,7 @@ func (w *work) stability(p float64, z []float64, early bool) (liq, vap trialResu
 			w.lnW[i] = math.Log(zi) - w.lnK[i]
 		}
 	}
-	liq = w.trial(p, z, early)
+	liq = w.trial(p, z, z, early)
 	copy(w.wLiq, w.W)
 	if early && liq.unstable {
 		return liq, trialResult{}
@@ -69,14 +69,58 @@ func (w *work) stability(p float64, z []float64, early bool) (liq, vap trialResu
 			w.lnW[i] = math.Log(zi) + w.lnK[i]
 		}
 	}
-	vap = w.trial(p, z, early)
+	vap = w.trial(p, z, z, early)
 	copy(w.wVap, w.W)
 	return liq, vap
 }
 
-// trial minimises tm from the start in w.lnW and leaves the normalised trial
-// composition in w.wn.
-func (w *work) trial(p float64, z []float64, early bool) trialResult {
+// pureTrials runs, after stability has found feed z stable from the Wilson
+// starts, two more trials from nearly pure components: the heaviest present
+// (by critical temperature) and the lightest. A dense feed can be unstable
+// towards a liquid that the Wilson starts, both close to the feed at high
+// pressure, never reach (a liquid–liquid split); pure-component trial
+// phases are a common choice for such splits. It returns the first
+// trial that shows instability, its mole numbers left in w.W.
+func (w *work) pureTrials(p float64, z []float64) (trialResult, bool) {
+	hi, lo := -1, -1
+	for i, zi := range z {
+		if zi == 0 {
+			continue
+		}
+		if hi < 0 || w.fl.tc[i] > w.fl.tc[hi] {
+			hi = i
+		}
+		if lo < 0 || w.fl.tc[i] < w.fl.tc[lo] {
+			lo = i
+		}
+	}
+	var last trialResult
+	for _, k := range [2]int{hi, lo} {
+		if k < 0 {
+			break
+		}
+		for i, zi := range z {
+			if zi > 0 {
+				w.lnW[i] = math.Log(1e-6 * zi)
+			}
+		}
+		w.lnW[k] = 0
+		last = w.trial(p, z, z, true)
+		if last.unstable {
+			return last, true
+		}
+		if hi == lo {
+			break
+		}
+	}
+	return last, false
+}
+
+// trial minimises tm from the start in w.lnW against the tangent plane in
+// w.d and leaves the normalised trial composition in w.wn. The trial has
+// collapsed onto the trivial solution when it reaches ref (the feed, or the
+// phase of a split it started from); z marks the components present.
+func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 	n := w.n
 	fl := w.fl
 	ph := &w.pa
@@ -101,7 +145,7 @@ func (w *work) trial(p float64, z []float64, early bool) trialResult {
 		for i := 0; i < n; i++ {
 			w.wn[i] = w.W[i] / sumW
 			if z[i] > 0 {
-				dd := w.lnW[i] - math.Log(sumW) - math.Log(z[i])
+				dd := w.lnW[i] - math.Log(sumW) - math.Log(ref[i])
 				dist += dd * dd
 			}
 		}
@@ -132,8 +176,9 @@ func (w *work) trial(p float64, z []float64, early bool) trialResult {
 			res.unstable = !res.trivial && tm < w.tmCut
 			return res
 		}
-		if dist < 1e-10 && it > 2 {
-			// collapsed onto the feed: the trivial solution
+		if dist < 1e-10 && it > 2 || dist < w.nearRef && tm > 0 && it > 1 {
+			// collapsed onto the feed: the trivial solution (or, testing a
+			// split, well inside the basin of the phase it started from)
 			res.ok, res.trivial = true, true
 			return res
 		}

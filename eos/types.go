@@ -116,11 +116,16 @@ type PhaseProps struct {
 type FlashResult struct {
 	Phases int       // 1 or 2
 	Beta   float64   // vapour mole fraction of the feed: 0 or 1 when single phase
-	Single Phase     // the phase label when Phases == 1
+	Single Phase     // the phase's name when Phases == 1, by the rule of label.go
 	X, Y   []float64 // liquid and vapour mole fractions; both equal the feed when single phase
 	L, V   PhaseProps
 	Iter   int     // total iterations (stability + successive substitution + Newton)
 	Resid  float64 // max |ln f_i^L − ln f_i^V| at the solution (0 when single phase)
+	// ThreePhase is set when the two-phase split of lowest Gibbs energy
+	// found is itself unstable: a third phase would lower the Gibbs energy
+	// further (a three-phase region), and X, Y and Beta are that split, not
+	// the equilibrium.
+	ThreePhase bool
 }
 
 // SatType is the kind of a saturation point.

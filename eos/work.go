@@ -16,6 +16,7 @@ type work struct {
 
 	d, lnW, W, wn    []float64 // stability: ln z + ln φ(z), trial ln W, W, W normalised
 	wLiq, wVap       []float64 // trial mole numbers W where the trials stopped
+	bx, by, tw       []float64 // flash: the best split so far (liquid, vapour), a trial phase against it
 	inc              []float64 // saturation: the incipient phase Newton starts from
 	lnK, lnK1, lnK2  []float64 // current and two previous ln K (GDEM)
 	lnKss            []float64 // the plain substitution step before a GDEM jump
@@ -31,6 +32,10 @@ type work struct {
 	// proves instability: tmUnstable, or tmUnstableSat in the saturation
 	// solvers.
 	tmCut float64
+	// nearRef, when above zero, ends a trial as trivial once it is within
+	// this squared distance in ln W of its reference phase with tm > 0
+	// (the test of a converged split, verifySplit).
+	nearRef float64
 }
 
 func newWork(fl *Fluid, s *Settings) *work {
@@ -41,6 +46,7 @@ func newWork(fl *Fluid, s *Settings) *work {
 		ts:   newTState(n),
 		feed: newPhase(n), pa: newPhase(n), pb: newPhase(n),
 		d: vec(), lnW: vec(), W: vec(), wn: vec(), wLiq: vec(), wVap: vec(), inc: vec(),
+		bx: vec(), by: vec(), tw: vec(),
 		lnK: vec(), lnK1: vec(), lnK2: vec(), lnKss: vec(),
 		K: vec(), x: vec(), y: vec(), r: vec(), g: vec(), s: vec(),
 		v: vec(), l: vec(), sgn: vec(),
