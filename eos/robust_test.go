@@ -125,3 +125,34 @@ func TestEnvelopeStopsShortOfAnUncrossableCriticalRegion(t *testing.T) {
 		t.Errorf("cricondentherm %g K below a temperature with a saturation point, %g K", env.Cricondentherm[0], T)
 	}
 }
+
+// TestFlashWorkIsBounded: at a tenth of its dew pressure this invented
+// condensate (case 908 of TestRandomCondensates) leaves 0.3 % of its moles
+// as liquid, and the last residual of the split sits in a trace of a heavy
+// component in the vapour, whose share of the Gibbs energy is below its
+// round-off: Newton's line search crept there for a thousand evaluations and
+// the flash failed. It must converge, and cheaply: within 60 evaluations of
+// the split (a few substitution and Newton steps), far inside the flash's
+// bound of flashEvals.
+func TestFlashWorkIsBounded(t *testing.T) {
+	rng := rand.New(rand.NewSource(7))
+	var fl *Fluid
+	var z []float64
+	var T float64
+	for k := 0; k <= 908; k++ {
+		fl, z = randomCondensate(t, rng)
+		T = degF(150 + 200*rng.Float64())
+	}
+	up, err := UpperSaturation(fl, T, z, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := NewFlasher(fl, nil)
+	var r FlashResult
+	if err := f.Flash(&r, T, 0.1*up.P, z); err != nil || r.Phases != 2 {
+		t.Fatalf("flash at a tenth of the dew pressure: %d phases, %v", r.Phases, err)
+	}
+	if f.w.evals > 60 {
+		t.Errorf("%d evaluations of the split, want at most 60", f.w.evals)
+	}
+}

@@ -36,6 +36,7 @@ type work struct {
 	// this squared distance in ln W of its reference phase with tm > 0
 	// (the test of a converged split, verifySplit).
 	nearRef float64
+	evals   int // split evaluations of the current flash (flashEvals)
 }
 
 func newWork(fl *Fluid, s *Settings) *work {

@@ -32,23 +32,31 @@ func flashCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
-			r, err := flashReport(st, o.sys, t, p)
+			r, warnings, err := flashReport(st, o.sys, t, p)
 			if err != nil {
 				return err
 			}
+			o.warn(warnings...)
 			return o.emit(r)
 		})
 }
 
-// flashReport flashes the study's feed at t (K) and p (Pa).
-func flashReport(st *study.Study, sys units.System, t, p float64) (*Report, error) {
+// flashReport flashes the study's feed at t (K) and p (Pa). The warnings
+// say when the split shown is not the equilibrium.
+func flashReport(st *study.Study, sys units.System, t, p float64) (*Report, []string, error) {
 	var res eos.FlashResult
 	if err := eos.NewFlasher(st.Fluid, nil).Flash(&res, t, p, st.Z); err != nil {
-		return nil, fmt.Errorf("flash at %s: %w", stateText(sys, t, p), err)
+		return nil, nil, fmt.Errorf("flash at %s: %w", stateText(sys, t, p), err)
 	}
+	var warnings []string
 	tU, pU, dU := sys.Unit(units.Temperature), sys.Unit(units.Pressure), sys.Unit(units.Density)
 	liquid, vapor := true, true
 	phaseState := "two-phase"
+	if res.ThreePhase {
+		phaseState = "three-phase"
+		warnings = append(warnings, fmt.Sprintf("flash at %s: the feed lies in a three-phase region: a third phase would lower the Gibbs energy of the two-phase split shown, which is the split of lowest Gibbs energy found, not the equilibrium; this tool computes two phases at most",
+			stateText(sys, t, p)))
+	}
 	if res.Phases == 1 { // only the one phase's properties exist
 		liquid, vapor = res.Single == eos.Liquid, res.Single != eos.Liquid
 		phaseState = "vapor"
@@ -70,6 +78,7 @@ func flashReport(st *study.Study, sys units.System, t, p float64) (*Report, erro
 			{Column{Name: "temperature", Unit: tU}, tU.FromSI(t)},
 			{Column{Name: "phases"}, res.Phases},
 			{Column{Name: "state"}, phaseState},
+			{Column{Name: "three_phase"}, res.ThreePhase},
 			{Column{Name: "vapor_fraction"}, res.Beta},
 			{Column{Name: "z_liquid"}, only(liquid, res.L.Z)},
 			{Column{Name: "z_vapor"}, only(vapor, res.V.Z)},
@@ -89,7 +98,7 @@ func flashReport(st *study.Study, sys units.System, t, p float64) (*Report, erro
 	if vapor {
 		r.Vectors = append(r.Vectors, Vector{Name: "vapor_composition", Label: "component", Labels: names, Values: res.Y})
 	}
-	return r, nil
+	return r, warnings, nil
 }
 
 func componentNames(fl *eos.Fluid) []string {
