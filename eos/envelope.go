@@ -141,69 +141,91 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 			scale(e.dx, 1/e.dx[best])
 			spec = best
 		}
-		// close to the critical point with a ln K specified: jump across it
 		kmax := e.kmax(e.x)
-		nearCrit := !passedCrit && spec < n && kmax < envCritK
-		dir := 1.0
-		if len(pts) > 1 {
-			// direction: continue the way the previous step went
-			d := 0.0
-			for i := 0; i < m; i++ {
-				d += (e.x[i] - prev[i]) * e.dx[i]
+		accepted := false
+		if !passedCrit && !jumped && hasCP && kmax < envCritK {
+			// Every K within 10 % of 1 next to the critical point: go across
+			// it to the mirror image of this point, whatever variable the
+			// trace was following (a step of its own could slide along the
+			// trivial solution instead, and whether it crossed would hang
+			// on the last bits of the composition).
+			jumped = true
+			copy(prev, e.x)
+			copy(prevDx, e.dx)
+			k := 0
+			for i := 0; i < n; i++ {
+				if e.z[i] > 0 && math.Abs(e.x[i]) > math.Abs(e.x[k]) {
+					k = i
+				}
 			}
-			if d < 0 {
+			if it, ok := e.mirror(prev, k, cp); ok {
+				total += it
+				accepted, spec, step = true, k, envCritK
+			}
+		}
+		// close to the critical point with a ln K specified: jump across it
+		nearCrit := !passedCrit && spec < n && kmax < envCritK
+		if !accepted {
+			dir := 1.0
+			if len(pts) > 1 {
+				// direction: continue the way the previous step went
+				d := 0.0
+				for i := 0; i < m; i++ {
+					d += (e.x[i] - prev[i]) * e.dx[i]
+				}
+				if d < 0 {
+					dir = -1
+				}
+			} else if e.dx[n+1] < 0 {
 				dir = -1
 			}
-		} else if e.dx[n+1] < 0 {
-			dir = -1
-		}
-		ds := dir * step
-		// limit the step so no variable changes more than its cap
-		for i := 0; i < m; i++ {
-			var lim float64
-			switch {
-			case i == n:
-				lim = envMaxStepT
-			case i == n+1:
-				lim = envMaxStepP
-			default:
-				lim = math.Max(envMaxStepK, 0.2*math.Abs(e.x[i]))
-			}
-			if a := math.Abs(e.dx[i] * ds); a > lim {
-				ds *= lim / a
-			}
-		}
-		if nearCrit {
-			// jump across the critical point to the mirror value of ln K_spec
-			ds = -2 * e.x[spec] / e.dx[spec]
-		}
-		copy(prev, e.x)
-		copy(prevDx, e.dx)
-		accepted := false
-		for cut := 0; cut < 12; cut++ {
+			ds := dir * step
+			// limit the step so no variable changes more than its cap
 			for i := 0; i < m; i++ {
-				xs[i] = prev[i] + ds*prevDx[i]
-			}
-			copy(e.x, xs)
-			// a step across the critical point swaps the roots of the two phases
-			e.past = passedCrit || e.flips(prev, xs)
-			it, ok := e.correct(spec, xs[spec])
-			total += it
-			// a corrector that lands far from its prediction has jumped to
-			// another solution branch
-			far := math.Abs(e.x[n]-xs[n]) > envMaxStepT || math.Abs(e.x[n+1]-xs[n+1]) > envMaxStepP
-			if ok && !far && !e.trivial() {
-				accepted = true
-				if it <= 4 {
-					step = math.Min(2*math.Abs(ds), 1.0)
-				} else if it > 6 {
-					step = 0.5 * math.Abs(ds)
-				} else {
-					step = math.Abs(ds)
+				var lim float64
+				switch {
+				case i == n:
+					lim = envMaxStepT
+				case i == n+1:
+					lim = envMaxStepP
+				default:
+					lim = math.Max(envMaxStepK, 0.2*math.Abs(e.x[i]))
 				}
-				break
+				if a := math.Abs(e.dx[i] * ds); a > lim {
+					ds *= lim / a
+				}
 			}
-			ds *= 0.5
+			if nearCrit {
+				// jump across the critical point to the mirror value of ln K_spec
+				ds = -2 * e.x[spec] / e.dx[spec]
+			}
+			copy(prev, e.x)
+			copy(prevDx, e.dx)
+			for cut := 0; cut < 12; cut++ {
+				for i := 0; i < m; i++ {
+					xs[i] = prev[i] + ds*prevDx[i]
+				}
+				copy(e.x, xs)
+				// a step across the critical point swaps the roots of the two phases
+				e.past = passedCrit || e.flips(prev, xs)
+				it, ok := e.correct(spec, xs[spec])
+				total += it
+				// a corrector that lands far from its prediction has jumped to
+				// another solution branch
+				far := math.Abs(e.x[n]-xs[n]) > envMaxStepT || math.Abs(e.x[n+1]-xs[n+1]) > envMaxStepP
+				if ok && !far && !e.trivial() {
+					accepted = true
+					if it <= 4 {
+						step = math.Min(2*math.Abs(ds), 1.0)
+					} else if it > 6 {
+						step = 0.5 * math.Abs(ds)
+					} else {
+						step = math.Abs(ds)
+					}
+					break
+				}
+				ds *= 0.5
+			}
 		}
 		if accepted && step < envMinStep {
 			accepted = false
