@@ -1,6 +1,9 @@
 package eos
 
-import "math"
+import (
+	"math"
+	"sort"
+)
 
 // Critical point of a mixture by the criteria of Gibbs in the form of
 // Heidemann and Khalil (1980), evaluated for a cubic equation of state as
@@ -233,68 +236,64 @@ func (c *critWork) spinodalT(v, t0, tol float64) float64 {
 	if !ok {
 		return math.NaN()
 	}
-	// step away from t0 (down when M is positive definite there, up when
-	// not) in steps growing from 0.5 %, until the other side is reached
-	hi, dHi, lo, dLo := t0, d0, t0, d0
-	f := 1.005
+	// Move from t0 (down when M is positive definite there, up when not)
+	// by secant steps on det M, each at least 0.5 % and at most 30 %, until
+	// the inertia changes. hi keeps the last positive-definite point.
+	dir := -1.0
+	if neg0 > 0 {
+		dir = 1
+	}
+	ta, da := t0, d0
+	tb := t0 * (1 + dir*0.005)
+	var hi, dHi, lo, dLo float64
 	for k := 0; ; k++ {
-		if k == 60 {
+		if k == 60 || tb < 1 || tb > 100*t0 {
 			return math.NaN()
 		}
-		var t float64
-		if neg0 == 0 {
-			t = lo / f
-		} else {
-			t = hi * f
-		}
-		if t < 1 || t > 100*t0 {
-			return math.NaN()
-		}
-		d, neg, ok := c.factor(t, v)
+		db, neg, ok := c.factor(tb, v)
 		if !ok {
 			return math.NaN()
 		}
-		f = math.Min(f*f, 1.2)
-		if neg0 == 0 {
-			if neg == 0 {
-				hi, dHi, lo, dLo = t, d, t, d
-				continue
-			}
-			if neg > 1 {
-				return math.NaN() // two eigenvalues crossed in one step
-			}
-			lo, dLo = t, d
-			break
-		}
-		if neg == 0 {
-			hi, dHi = t, d
-			break
-		}
-		lo, dLo = t, d
-		if neg > 1 {
-			continue
-		}
-	}
-	if neg0 > 1 {
-		// the bracket's lower end must hold exactly one negative eigenvalue
-		for k := 0; ; k++ {
-			if k == 60 {
-				return math.NaN()
-			}
-			t := math.Sqrt(lo * hi)
-			d, neg, ok := c.factor(t, v)
-			if !ok {
-				return math.NaN()
-			}
-			if neg == 0 {
-				hi, dHi = t, d
+		if (neg == 0) != (neg0 == 0) {
+			if neg0 == 0 {
+				hi, dHi, lo, dLo = ta, da, tb, db
 			} else {
-				lo, dLo = t, d
-				if neg == 1 {
-					break
+				hi, dHi, lo, dLo = tb, db, ta, da
+			}
+			if neg > 1 || neg0 > 1 {
+				// the lower end must hold exactly one negative eigenvalue:
+				// bisect towards the positive-definite end
+				for j := 0; ; j++ {
+					if j == 60 {
+						return math.NaN()
+					}
+					t := math.Sqrt(lo * hi)
+					d, neg, ok := c.factor(t, v)
+					if !ok {
+						return math.NaN()
+					}
+					if neg == 0 {
+						hi, dHi = t, d
+					} else {
+						lo, dLo = t, d
+						if neg == 1 {
+							break
+						}
+					}
 				}
 			}
+			break
 		}
+		next := tb - db*(tb-ta)/(db-da)
+		step := (next - tb) * dir // the secant's step, positive onwards
+		lim := math.Abs(tb - ta)
+		if !(step > 0.5*lim) || math.IsInf(next, 0) || math.IsNaN(next) {
+			next = tb + dir*2*lim // the secant points back or stalls: double the step
+		}
+		next = math.Max(tb/1.3, math.Min(tb*1.3, next))
+		// overshoot a little so that the next point lies past the root
+		next += dir * 0.002 * next
+		ta, da, tb = tb, db, next
 	}
 	// det M > 0 at hi, < 0 at lo
 	side := 0
@@ -369,8 +368,9 @@ func (c *critWork) cubic(t, v float64) float64 {
 
 // Criticals returns the vapour–liquid critical points of feed z: the zeros
 // of the cubic form along the spinodal, scanned over molar volumes from 1.2
-// to 12 times the mixture co-volume b and each solved to 1e-10 in v, in
-// order of increasing volume. A mixture whose spinodal has no such zero
+// to 12 times the mixture co-volume b (16 steps in ln v, halved up to three
+// times where |C| dips without changing sign, where two zeros may lie close
+// together) and each solved to 1e-9 in v, in order of increasing volume. A mixture whose spinodal has no such zero
 // (for example a heavy tail whose saturation curve turns up into a
 // liquid–liquid region) gives none. A single component gives its own Tc and
 // Pc.
@@ -396,21 +396,41 @@ func Criticals(fl *Fluid, z []float64) ([]CriticalPoint, error) {
 		c.nullVector()
 		return node{v, t, c.cubic(t, v)}
 	}
-	var out []CriticalPoint
-	prev := eval(1.2*bm, tGuess, 1e-4)
-	before := math.NaN() // the spinodal temperature at the volume before prev
-	const steps = 40
-	ratio := math.Pow(12/1.2, 1.0/steps)
-	for k := 1; k <= steps; k++ {
+	// A coarse scan in ln v, refined where |C| has an interior minimum
+	// without a change of sign (two zeros may lie close together there).
+	const coarse = 16
+	ratio := math.Pow(12/1.2, 1.0/coarse)
+	nodes := make([]node, 0, 4*coarse)
+	for k := 0; k <= coarse; k++ {
 		t0 := tGuess
-		if !math.IsNaN(prev.t) {
-			t0 = prev.t
-			if !math.IsNaN(before) {
-				t0 = prev.t * prev.t / before // geometric extrapolation
+		if n := len(nodes); n > 0 && !math.IsNaN(nodes[n-1].t) {
+			t0 = nodes[n-1].t
+			if n > 1 && !math.IsNaN(nodes[n-2].t) {
+				t0 = t0 * t0 / nodes[n-2].t // geometric extrapolation
 			}
 		}
-		before = prev.t
-		cur := eval(prev.v*ratio, t0, 1e-4)
+		nodes = append(nodes, eval(1.2*bm*math.Pow(ratio, float64(k)), t0, 1e-4))
+	}
+	for pass := 0; pass < 3; pass++ {
+		var more []node
+		for k := 1; k+1 < len(nodes); k++ {
+			a, b, d := nodes[k-1], nodes[k], nodes[k+1]
+			if math.IsNaN(a.cf) || math.IsNaN(b.cf) || math.IsNaN(d.cf) || a.cf*b.cf <= 0 || b.cf*d.cf <= 0 {
+				continue
+			}
+			if math.Abs(b.cf) < math.Abs(a.cf) && math.Abs(b.cf) < math.Abs(d.cf) {
+				more = append(more, eval(math.Sqrt(a.v*b.v), 0.5*(a.t+b.t), 1e-4), eval(math.Sqrt(b.v*d.v), 0.5*(b.t+d.t), 1e-4))
+			}
+		}
+		if len(more) == 0 {
+			break
+		}
+		nodes = append(nodes, more...)
+		sort.Slice(nodes, func(i, j int) bool { return nodes[i].v < nodes[j].v })
+	}
+	var out []CriticalPoint
+	for k := 1; k < len(nodes); k++ {
+		prev, cur := nodes[k-1], nodes[k]
 		if !math.IsNaN(prev.cf) && !math.IsNaN(cur.cf) && prev.cf*cur.cf <= 0 {
 			a, b := prev, cur
 			side := 0
@@ -446,7 +466,6 @@ func Criticals(fl *Fluid, z []float64) ([]CriticalPoint, error) {
 				out = append(out, CriticalPoint{T: t, V: v, P: fl.pressure(&c.ts, t, v, z)})
 			}
 		}
-		prev = cur
 	}
 	return out, nil
 }

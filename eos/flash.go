@@ -225,7 +225,57 @@ func (w *work) splitUnstable(t, p float64, z []float64) (bool, int) {
 			return true, iter
 		}
 	}
+	// a third phase between the two: from the nearly pure component of
+	// median critical temperature
+	w.nearRef = 0
+	k := w.medianTc(z)
+	for i, zi := range z {
+		if zi > 0 {
+			w.lnW[i] = math.Log(1e-6 * zi)
+		}
+	}
+	w.lnW[k] = 0
+	r := w.trial(p, z, z, true)
+	iter += r.iter
+	if r.unstable && !sameTrial(z, w.W, w.bx) && !sameTrial(z, w.W, w.by) {
+		copy(w.tw, w.W)
+		return true, iter
+	}
 	return false, iter
+}
+
+// medianTc returns the component present in z whose critical temperature
+// is the median of those present.
+func (w *work) medianTc(z []float64) int {
+	best, bestRank := -1, math.MaxInt
+	np := 0
+	for _, zi := range z {
+		if zi > 0 {
+			np++
+		}
+	}
+	for i, zi := range z {
+		if zi == 0 {
+			continue
+		}
+		below := 0
+		for j, zj := range z {
+			if zj > 0 && (w.fl.tc[j] < w.fl.tc[i] || w.fl.tc[j] == w.fl.tc[i] && j < i) {
+				below++
+			}
+		}
+		if r := abs(2*below - (np - 1)); r < bestRank {
+			best, bestRank = i, r
+		}
+	}
+	return best
+}
+
+func abs(a int) int {
+	if a < 0 {
+		return -a
+	}
+	return a
 }
 
 // splitNearRef: a trial phase testing a split that comes within this squared

@@ -58,8 +58,24 @@ func (w *work) critical(x []float64) (tc, vc float64) {
 }
 
 // singleLabel names a single phase of composition x at t (K) with
-// untranslated molar volume v (m³/mol) by the rule above.
+// untranslated molar volume v (m³/mol) by the rule above. A phase hotter
+// than the critical temperature of every component it holds, or of larger
+// molar volume than every one of them at its critical point, is a gas
+// without the mixture's critical point being solved for: the vapour–liquid
+// critical temperature and volume of a reservoir fluid lie below the highest
+// of its components'. Low pressures and high temperatures, the common case,
+// so cost nothing.
 func (w *work) singleLabel(t, v float64, x []float64) Phase {
+	tmax, vmax := 0.0, 0.0
+	for i, xi := range x {
+		if xi > 0 {
+			tmax = math.Max(tmax, w.fl.tc[i])
+			vmax = math.Max(vmax, pureCriticalVolumeRatio*w.fl.b[i])
+		}
+	}
+	if t >= tmax || v >= vmax {
+		return Vapour
+	}
 	tc, vc := w.critical(x)
 	if t < tc && v < vc {
 		return Liquid
