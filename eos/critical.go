@@ -21,12 +21,8 @@ import (
 // −Σ Δn_i³/z_i² exactly, its residual part by a central difference), and its
 // zeros in v are the critical points.
 //
-// References:
-//   - Heidemann, R.A. and Khalil, A.M. (1980). The calculation of critical
-//     points. AIChE J. 26(5), 769–779. doi:10.1002/aic.690260510
-//   - Michelsen, M.L. and Heidemann, R.A. (1981). Calculation of critical
-//     points from cubic two-constant equations of state. AIChE J. 27(3),
-//     521–523. doi:10.1002/aic.690270326
+// References: Heidemann and Khalil (1980); Michelsen and Heidemann (1981),
+// in full in doc.go.
 
 // A CriticalPoint is a vapour–liquid critical point of a mixture.
 type CriticalPoint struct {

@@ -2,7 +2,8 @@
 // defined components and petroleum pseudo-components: a component library,
 // plus-fraction characterization, binary interaction coefficients, fugacity
 // coefficients with analytic derivatives, Michelsen stability analysis,
-// two-phase PT flash, saturation points and the phase envelope.
+// two-phase PT flash, mixture critical points, saturation points and the
+// phase envelope.
 //
 // All quantities are SI: K, Pa, m³/mol, kg/mol, mole fractions. Field units
 // appear only inside the empirical correlations that were published in them,
@@ -18,6 +19,10 @@
 //     Redlich–Kwong–Soave volumes. Fluid Phase Equilib. 8, 7–23.
 //   - Michelsen, M.L. (1980). Calculation of phase envelopes and critical points
 //     for multicomponent mixtures. Fluid Phase Equilib. 4, 1–10.
+//   - Heidemann, R.A. and Khalil, A.M. (1980). The calculation of critical
+//     points. AIChE J. 26(5), 769–779.
+//   - Michelsen, M.L. and Heidemann, R.A. (1981). Calculation of critical
+//     points from cubic two-constant equations of state. AIChE J. 27(3), 521–523.
 //   - Michelsen, M.L. (1982). The isothermal flash problem. Part I: Stability;
 //     Part II: Phase-split calculation. Fluid Phase Equilib. 9, 1–19 and 21–40.
 //   - Michelsen, M.L. and Mollerup, J.M. (2007). Thermodynamic Models:
