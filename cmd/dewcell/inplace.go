@@ -57,6 +57,10 @@ func reservoirOf(o *options, st *study.Study, what string, needAbandonment bool)
 		Sc:         rs.CriticalCondensateSaturation,
 		Cf:         rs.RockCompressibility,
 		Cw:         rs.WaterCompressibility,
+		RelPerm: mbal.RelativePermeability{
+			GasExponent: st.RelPerm.GasExponent, CondensateExponent: st.RelPerm.CondensateExponent,
+			GasEndpoint: st.RelPerm.GasEndpoint, CondensateEndpoint: st.RelPerm.CondensateEndpoint,
+		},
 	}
 	if needAbandonment {
 		r.Abandonment = rs.AbandonmentPressure

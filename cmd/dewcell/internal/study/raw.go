@@ -25,6 +25,14 @@ type fileStudy struct {
 	Standard  *fileStandard  `toml:"standard_conditions"`
 	Surface   *fileSurface   `toml:"surface"`
 	History   []fileHistory  `toml:"history"`
+	RelPerm   *fileRelPerm   `toml:"relative_permeability"`
+}
+
+type fileRelPerm struct {
+	GasExponent        value `toml:"gas_exponent"`
+	CondensateExponent value `toml:"condensate_exponent"`
+	GasEndpoint        value `toml:"gas_endpoint"`
+	CondensateEndpoint value `toml:"condensate_endpoint"`
 }
 
 type fileReservoir struct {
