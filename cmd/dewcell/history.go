@@ -64,6 +64,7 @@ type historyResult struct {
 	plain    *mbal.PZFit // the p/z line without rock and water expansion
 	vol      mbal.VolumetricComparison
 	dewPoint float64 // Pa
+	bwFrom   string  // where the water formation volume factor came from
 }
 
 // historyRun puts the study's [[history]] on a wet-gas basis and fits it.
@@ -79,6 +80,12 @@ type historyResult struct {
 // interpolated linearly in pressure between its steps, historyGridSteps even
 // steps from the initial pressure down to the lowest history pressure; Z_i
 // is Z₂ at the initial pressure.
+//
+// The water produced counts at its formation volume factor B_w:
+// reservoir.water_formation_volume_factor when given, otherwise McCain's
+// (1990) correlation at the reservoir temperature and each point's
+// pressure (mbal.WaterFVFMcCain), with a warning beyond the correlation's
+// data when water is produced there.
 func historyRun(o *options, st *study.Study, conf float64) (*historyResult, error) {
 	if len(st.History) == 0 {
 		return nil, cli.Exit(fmt.Sprintf("%s has no [[history]] table: history needs rows of date or step, pressure, sales_gas, condensate and optionally water", st.File), exitUsage)
@@ -132,15 +139,29 @@ func historyRun(o *options, st *study.Study, conf float64) (*historyResult, erro
 	}
 	h.zi = h.rec.Steps[0].Z2
 
+	h.bwFrom = "reservoir.water_formation_volume_factor"
+	if st.Reservoir.WaterFVF == 0 {
+		h.bwFrom = "McCain (1990) correlation at each pressure"
+	}
+	outside := false
 	for _, row := range fitted {
 		ge := interpolate(h.rec.Steps, row.Pressure, geOf)
 		h.geAt = append(h.geAt, ge)
+		bw := st.Reservoir.WaterFVF
+		if bw == 0 {
+			bw = mbal.WaterFVFMcCain(res.T, row.Pressure)
+			outside = outside || row.Water > 0 && !mbal.WaterFVFMcCainRange(res.T, row.Pressure)
+		}
 		h.points = append(h.points, mbal.HistoryPoint{
 			P:         row.Pressure,
 			Z2:        interpolate(h.rec.Steps, row.Pressure, func(s mbal.RecoveryStep) float64 { return s.Z2 }),
 			CumWetGas: row.SalesGas + row.Condensate*ge,
 			CumWater:  row.Water,
+			Bw:        bw,
 		})
+	}
+	if outside {
+		o.warn(fmt.Sprintf("%s: the water formation volume factor comes from McCain's (1990) correlation beyond its data (up to 260 degF and 5000 psia); give reservoir.water_formation_volume_factor if it is known", st.File))
 	}
 	std := h.tr.Standard
 	par := mbal.HavlenaOdehParams{T: res.T, Sw: res.Sw, Cw: res.Cw, Cf: res.Cf, Std: std}
@@ -236,6 +257,7 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult, withRe
 			{Column{Name: "curvature_p_value"}, line.CurvatureP},
 			{Column{Name: "curvature_departure", Unit: units.Percent}, 100 * h.ho.CurvatureChange},
 			{Column{Name: "water_influx_suspected"}, h.ho.WaterInfluxSuspected},
+			{Column{Name: "water_formation_volume_factor_source"}, h.bwFrom},
 		},
 	}
 	if withReason {
@@ -259,6 +281,7 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult, withRe
 			{Name: "cum_sales_gas", Unit: u.gas},
 			{Name: "cum_condensate", Unit: u.liquid},
 			{Name: "cum_water", Unit: u.liquid},
+			{Name: "water_formation_volume_factor"},
 			{Name: "condensate_gas_equivalent", Unit: su.gor.Unit},
 			{Name: "cum_wet_gas", Unit: u.gas},
 			{Name: "z_two_phase"},
@@ -272,11 +295,11 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult, withRe
 		row := h.rows[i+h.first]
 		hp := h.ho.Points[i]
 		corrected := pt.P / pt.Z2 * (1 - h.ho.Ce*(h.res.Pi-pt.P))
-		x := pt.CumWetGas + pt.CumWater/hp.Bg // W_p B_w/B_g with B_w = 1
+		x := pt.CumWetGas + pt.CumWater*hp.Bw/hp.Bg // G_p + W_p B_w/B_g
 		pts.Rows = append(pts.Rows, []any{
 			row.Label,
 			pU.FromSI(pt.P),
-			u.gas.FromSI(row.SalesGas), u.liquid.FromSI(row.Condensate), u.liquid.FromSI(row.Water),
+			u.gas.FromSI(row.SalesGas), u.liquid.FromSI(row.Condensate), u.liquid.FromSI(row.Water), hp.Bw,
 			su.gor.of(h.geAt[i]),
 			u.gas.FromSI(pt.CumWetGas),
 			pt.Z2,

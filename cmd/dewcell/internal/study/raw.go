@@ -47,6 +47,7 @@ type fileReservoir struct {
 	CriticalCondensate   value `toml:"critical_condensate_saturation"`
 	RockCompressibility  value `toml:"rock_compressibility"`
 	WaterCompressibility value `toml:"water_compressibility"`
+	WaterFVF             value `toml:"water_formation_volume_factor"`
 }
 
 type fileFluid struct {

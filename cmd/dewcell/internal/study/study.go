@@ -63,6 +63,9 @@ type Reservoir struct {
 	CriticalCondensateSaturation float64
 	RockCompressibility          float64 // 1/Pa
 	WaterCompressibility         float64 // 1/Pa
+	// WaterFVF is the water formation volume factor, reservoir volume per
+	// volume at standard conditions; 0 when not given.
+	WaterFVF float64
 }
 
 // RelPerm holds the Corey exponents and end points of the gas and
@@ -262,6 +265,11 @@ func (r *reader) reservoir(s *Study, f *fileReservoir) {
 	}
 	res.RockCompressibility, _ = r.quantity("reservoir.rock_compressibility", f.RockCompressibility, units.Compressibility, false)
 	res.WaterCompressibility, _ = r.quantity("reservoir.water_compressibility", f.WaterCompressibility, units.Compressibility, false)
+	// a ratio of volumes, like reservoir barrels per stock-tank barrel; real
+	// formation water lies within a few per cent of 1, and the range catches
+	// a value in other units (common practice, no published source)
+	res.WaterFVF, _ = r.between("reservoir.water_formation_volume_factor", f.WaterFVF,
+		"a water formation volume factor (reservoir volume per volume at standard conditions, such as 1.02)", false, 0.8, 1.5, false, false)
 }
 
 func (r *reader) relPerm(s *Study, f *fileRelPerm) {
