@@ -30,13 +30,14 @@ func historyCommand() *cli.Command {
 		"original wet gas in place from the [[history]] table: the two-phase p/z straight line in its Havlena–Odeh form, with its confidence interval and a test for water influx, against the volumetric figure",
 		[]cli.Flag{
 			&cli.Float64Flag{Name: flagConfidence, Value: mbal.DefaultConfidence, Usage: "two-sided confidence `LEVEL` of the interval on the gas in place and of the influx tests, between 0 and 1"},
+			startAtDewPointFlag(),
 		},
 		func(c *cli.Context, o *options, st *study.Study) error {
 			conf := c.Float64(flagConfidence)
 			if !(conf > 0 && conf < 1) {
 				return cli.Exit(fmt.Sprintf("--%s: %g, want a level between 0 and 1, such as 0.95", flagConfidence, conf), exitUsage)
 			}
-			h, err := historyRun(o, st, conf)
+			h, err := historyRunAt(o, st, conf, c.Bool(flagStartAtDew))
 			if err != nil {
 				return err
 			}
@@ -65,6 +66,7 @@ type historyResult struct {
 	vol      mbal.VolumetricComparison
 	dewPoint float64 // Pa
 	bwFrom   string  // where the water formation volume factor came from
+	started  bool    // the reservoir was started at the model's dew point
 }
 
 // historyRun puts the study's [[history]] on a wet-gas basis and fits it.
@@ -87,6 +89,12 @@ type historyResult struct {
 // pressure (mbal.WaterFVFMcCain), with a warning beyond the correlation's
 // data when water is produced there.
 func historyRun(o *options, st *study.Study, conf float64) (*historyResult, error) {
+	return historyRunAt(o, st, conf, false)
+}
+
+// historyRunAt is historyRun, starting the reservoir at the model's dew
+// point when atDew is set and that lies above the initial pressure.
+func historyRunAt(o *options, st *study.Study, conf float64, atDew bool) (*historyResult, error) {
 	if len(st.History) == 0 {
 		return nil, cli.Exit(fmt.Sprintf("%s has no [[history]] table: history needs rows of date or step, pressure, sales_gas, condensate and optionally water", st.File), exitUsage)
 	}
@@ -94,7 +102,11 @@ func historyRun(o *options, st *study.Study, conf float64) (*historyResult, erro
 	if err != nil {
 		return nil, err
 	}
-	h := &historyResult{res: res, tr: trainOf(st, o.sys), rows: st.History}
+	started, err := startAtDewPoint(o, st, &res, "history", atDew)
+	if err != nil {
+		return nil, err
+	}
+	h := &historyResult{res: res, tr: trainOf(st, o.sys), rows: st.History, started: started}
 	if !st.History[0].Production() {
 		h.first = 1
 		p0 := st.History[0].Pressure
@@ -258,6 +270,7 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult, withRe
 			{Column{Name: "curvature_departure", Unit: units.Percent}, 100 * h.ho.CurvatureChange},
 			{Column{Name: "water_influx_suspected"}, h.ho.WaterInfluxSuspected},
 			{Column{Name: "water_formation_volume_factor_source"}, h.bwFrom},
+			{Column{Name: "started_at_model_dew_point"}, h.started},
 		},
 	}
 	if withReason {

@@ -29,13 +29,14 @@ func recoverCommand() *cli.Command {
 			&cli.IntFlag{Name: flagSteps, Value: defaultRecoverySteps, Usage: fmt.Sprintf("report `N` even steps, 1 to %d, from the dew point down to reservoir.abandonment_pressure; they do not set the integration's accuracy", maxSteps)},
 			&cli.IntFlag{Name: flagFixedSteps, Usage: fmt.Sprintf("integrate instead with `N` even first-order steps, 1 to %d, from the dew point (the laboratory's constant-volume depletion), and report each: for checking; the recovery falls short of the converged one by about in proportion to the step", mbal.MaxFixedSteps)},
 			&cli.BoolFlag{Name: flagMobileLiquid, Usage: "let the condensate above the critical condensate saturation flow with the gas in proportion to its mobility (fractional flow with the [relative_permeability] curves and the phases' viscosities): the upper bound of condensate recovery; by default the condensate stays in the rock (the lower bound)"},
+			startAtDewPointFlag(),
 		},
 		func(c *cli.Context, o *options, st *study.Study) error {
 			ro, err := recoverOptions(c, o, st)
 			if err != nil {
 				return err
 			}
-			rep, err := recoverReport(o, st, ro)
+			rep, err := recoverReportAt(o, st, ro, c.Bool(flagStartAtDew))
 			if err != nil {
 				return err
 			}
@@ -97,17 +98,32 @@ func recoverOptions(c *cli.Context, o *options, st *study.Study) (mbal.RecoverOp
 	return ro, nil
 }
 
-// recoverReport runs the depletion of the study's reservoir with ro, and
+// recoverReport runs the depletion of the study's reservoir with ro from
+// its initial pressure; see recoverReportAt.
+func recoverReport(o *options, st *study.Study, ro mbal.RecoverOptions) (*Report, error) {
+	return recoverReportAt(o, st, ro, false)
+}
+
+// recoverReportAt runs the depletion of the study's reservoir with ro, and
 // the other bound of condensate recovery (mobile or immobile condensate) for
 // the summary, and warns when the condensate saturation passes the critical
-// saturation.
-func recoverReport(o *options, st *study.Study, ro mbal.RecoverOptions) (*Report, error) {
+// saturation. atDew starts the reservoir at the model's dew point when that
+// lies above the initial pressure (--start-at-dew-point).
+func recoverReportAt(o *options, st *study.Study, ro mbal.RecoverOptions, atDew bool) (*Report, error) {
 	res, err := reservoirOf(o, st, "recover", true)
+	if err != nil {
+		return nil, err
+	}
+	started, err := startAtDewPoint(o, st, &res, "recover", atDew)
 	if err != nil {
 		return nil, err
 	}
 	if len(st.Separator) == 0 {
 		o.warn(fmt.Sprintf("%s gives no [[separator.stage]]: the produced stream goes straight to the stock tank", st.File))
+	}
+	if ro.Pressures != nil && ro.Pressures[0] >= res.Pi {
+		return nil, cli.Exit(fmt.Sprintf("--%s: item 1 (%s) is not below the model's dew point (%s), where the reservoir starts with --%s",
+			flagPressures, pressureText(o.sys, ro.Pressures[0]), pressureText(o.sys, res.Pi), flagStartAtDew), exitUsage)
 	}
 	tr := trainOf(st, o.sys)
 	rec, err := mbal.Recover(st.Fluid, st.Z, res, tr, ro)
@@ -142,12 +158,13 @@ func recoverReport(o *options, st *study.Study, ro mbal.RecoverOptions) (*Report
 			o.warn(msg + fmt.Sprintf(": the condensate could flow below it, which this run leaves in the rock; --%s gives that upper bound", flagMobileLiquid))
 		}
 	}
-	return recoveryReportOf(st, o.sys, res, rec, mobile, immobile, ro, sc), nil
+	return recoveryReportOf(st, o.sys, res, rec, mobile, immobile, ro, sc, started), nil
 }
 
 // recoveryReportOf shows rec in sys. mobile and immobile are the two bounds
-// of condensate recovery (one of them rec).
-func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec, mobile, immobile *mbal.Recovery, ro mbal.RecoverOptions, sc float64) *Report {
+// of condensate recovery (one of them rec); started says the reservoir was
+// started at the model's dew point.
+func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec, mobile, immobile *mbal.Recovery, ro mbal.RecoverOptions, sc float64, started bool) *Report {
 	u := inPlaceUnitsOf(sys)
 	su := surfaceUnitsOf(sys)
 	pU, cU := u.press, sys.Unit(units.Compressibility)
@@ -188,6 +205,7 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 			{Column{Name: "condensate_model"}, model},
 			{Column{Name: "mobile_liquid"}, ro.MobileLiquid},
 			{Column{Name: "integration"}, integration},
+			{Column{Name: "started_at_model_dew_point"}, started},
 			{Column{Name: "initial_pressure", Unit: pU}, pU.FromSI(res.Pi)},
 			{Column{Name: "dew_pressure", Unit: pU}, pU.FromSI(d.Dew.P)},
 			{Column{Name: "abandonment_pressure", Unit: pU}, pU.FromSI(last.P)},
