@@ -148,7 +148,7 @@ func TestRecoveryBalances(t *testing.T) {
 // leaner than the reservoir's contents; and here, where the rock holds up to
 // 28 % condensate, the producing CGR never exceeds the reservoir fluid's own
 // yield. (The old rule, all the liquid above the critical saturation
-// flowing, produced 2.6 times the initial yield on such a fluid.)
+// flowing, produced 2.6 times the initial yield on a rich condensate.)
 func TestMobileLiquidBounds(t *testing.T) {
 	c, err := testfluid.Rich()
 	if err != nil {
