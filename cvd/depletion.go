@@ -17,7 +17,8 @@ type DepletionOptions struct {
 	Abandonment float64   // Pa, the last default step
 	// Start, when above the dew point, starts the depletion there: the cell
 	// volume is that of the single-phase fluid at Start, and the steps above
-	// the dew point produce feed-composition gas. Zero starts at the dew point.
+	// the dew point produce feed-composition gas. Zero, or a Start within
+	// 1e-8 of the dew point, starts at the dew point.
 	Start    float64
 	Train    *Train // when set, each step's produced stream goes through the train
 	Settings *eos.Settings
@@ -28,17 +29,45 @@ type DepletionOptions struct {
 	// c = (c_f + c_w S_w)/(1 − S_w) (Havlena and Odeh 1963). Zero keeps the
 	// laboratory's constant volume.
 	PoreCompressibility float64
-	// MobileLiquid produces, with the gas, the liquid above
-	// CriticalLiquid (a fraction of the cell volume): the modified depletion
-	// in which condensate beyond its critical saturation flows.
-	MobileLiquid   bool
-	CriticalLiquid float64
+
+	// Adaptive integrates the depletion below the saturation point as the
+	// continuous process a reservoir goes through, instead of the
+	// laboratory's finite removals: Pressures or Steps then choose only the
+	// pressures reported, onto which the integration steps exactly, and the
+	// steps between them are chosen to hold the estimated discretisation
+	// error within Tolerance (see Deplete).
+	Adaptive bool
+	// Tolerance is what the adaptive integration allows for the estimated
+	// discretisation error over the whole depletion: with a Train, of the
+	// cumulative moles produced that end as stock-tank oil and as surface
+	// gas, as fractions of those of the feed (the feed's separator split
+	// applied to the error of each component); without one, of the moles
+	// produced of each component, as a fraction of its initial moles (or of
+	// 1e-3 mol per mole of feed for a component below that). 0 means
+	// DefaultTolerance.
+	Tolerance float64
+	// LiquidFlow, when set, lets liquid flow with the gas: it returns the
+	// liquid's share of the produced reservoir volume (its fractional flow,
+	// from 0 to 1) for a state of the two-phase cell. It must not fall as
+	// the liquid fraction rises. Nil produces gas only: the liquid stays in
+	// the cell.
+	LiquidFlow func(FlowState) float64
+	// SkipMaxDropout leaves MaxDropout and MaxDropoutP zero, saving the
+	// search for the maximum.
+	SkipMaxDropout bool
+	// DewOnly refuses a feed whose saturation point is a bubble point:
+	// Deplete then returns ErrBubblePoint without depleting.
+	DewOnly bool
 }
 
-// SurfaceStep is the surface yield of one depletion step's produced gas.
+// SurfaceStep is the surface yield of the stream produced down to one
+// reported pressure.
 type SurfaceStep struct {
-	CGR        float64 // stock-tank oil over surface gas of this step, standard m³/m³
-	GasGravity float64 // surface gas specific gravity (air = 1)
+	// CGR is stock-tank oil over surface gas of the stream produced since
+	// the reported pressure before, standard m³/m³, and GasGravity the
+	// specific gravity of its surface gas (air = 1).
+	CGR        float64
+	GasGravity float64
 	CumGas     float64 // cumulative surface (sales) gas, standard m³ per mole of initial fluid
 	CumOil     float64 // cumulative stock-tank oil, standard m³ per mole of initial fluid
 	// CumWetGas is the cumulative produced well stream as an ideal-gas
@@ -47,10 +76,16 @@ type SurfaceStep struct {
 	// CumGasMoles and CumOilMoles are the cumulative surface gas and
 	// stock-tank oil, moles per mole of initial fluid.
 	CumGasMoles, CumOilMoles float64
+	// CumGasError and CumOilError are the estimated discretisation errors
+	// of CumGas and CumOil (computed minus exact), standard m³ per mole of
+	// initial fluid, from ProducedError with each step's separator split
+	// held fixed; zero for laboratory steps.
+	CumGasError, CumOilError float64
 }
 
-// DepletionStep is the cell after the gas removal at one pressure. Amounts are
-// per mole of fluid initially in the cell.
+// DepletionStep is the cell at one reported pressure, after the fluid that
+// no longer fits has been produced. Amounts are per mole of fluid initially
+// in the cell; "this step" is everything since the reported pressure before.
 type DepletionStep struct {
 	P             float64 // Pa
 	TwoPhase      bool    // liquid present (below the dew point)
@@ -62,14 +97,28 @@ type DepletionStep struct {
 	Gas           eos.PhaseProps
 	Liquid        eos.PhaseProps // zero when single phase
 	GasViscosity  float64        // Pa·s, Lohrenz–Bray–Clark
-	Y             []float64      // equilibrium gas composition
-	X             []float64      // liquid composition (nil when single phase)
-	Stream        []float64      // composition of all that was removed (Y unless liquid flowed too)
-	LiquidMoles   float64        // moles of liquid in the cell
-	LiquidOut     float64        // moles of liquid removed at this step (MobileLiquid only)
-	CellVolume    float64        // cell volume at this pressure, m³ per mole of initial fluid
-	Cell          []float64      // moles of each component left in the cell
-	Surface       *SurfaceStep   // nil without a Train
+	// LiquidViscosity is the liquid's Lohrenz–Bray–Clark viscosity, Pa·s,
+	// when the liquid may flow (LiquidFlow set); zero otherwise.
+	LiquidViscosity float64
+	// LiquidFlow is the liquid's share of the reservoir volume produced at
+	// this pressure (zero without LiquidFlow).
+	LiquidFlow  float64
+	Y           []float64 // equilibrium gas composition
+	X           []float64 // liquid composition (nil when single phase)
+	Stream      []float64 // composition of all that was removed at this step (Y unless liquid flowed too)
+	LiquidMoles float64   // moles of liquid in the cell
+	LiquidOut   float64   // moles of liquid removed at this step
+	CellVolume  float64   // cell volume at this pressure, m³ per mole of initial fluid
+	Cell        []float64 // moles of each component left in the cell
+	Surface     *SurfaceStep
+	// Substeps is the number of integration steps taken since the reported
+	// pressure before (1 for laboratory steps).
+	Substeps int
+	// ProducedError is the estimated discretisation error of the cumulative
+	// moles produced of each component (computed minus exact), per mole of
+	// initial fluid: the sum of the adaptive steps' local error estimates.
+	// Nil for laboratory steps.
+	ProducedError []float64
 }
 
 // Depletion is a simulated constant-volume depletion.
@@ -79,15 +128,31 @@ type Depletion struct {
 	CellVolume float64        // m³ per mole of initial fluid
 	Steps      []DepletionStep
 	// MaxDropout is the largest liquid dropout (fraction of the cell volume)
-	// and MaxDropoutP its pressure, from a parabola through the largest
-	// reported step and its neighbours (the step itself at an end).
+	// of the continuous depletion below the dew point, down to the last
+	// step, and MaxDropoutP its pressure: a one-dimensional search (Brent's)
+	// on the adaptively integrated depletion, whatever the steps reported.
 	MaxDropout, MaxDropoutP float64
+	// Adaptive says the depletion was integrated adaptively; Tolerance is
+	// the tolerance used, IntegrationSteps the steps it took below the dew
+	// point and RejectedSteps those it took again, shorter.
+	Adaptive                        bool
+	Tolerance                       float64
+	IntegrationSteps, RejectedSteps int
+	// Flashes counts the flashes of the cell (not the separator's), the
+	// measure of the work done.
+	Flashes int
 }
+
+// atSaturation is how far, relative, a start pressure may lie above the
+// dew point and still count as the dew point itself.
+const atSaturation = 1e-8
 
 // Errors of Deplete and Expand, wrapped with the detail.
 var (
 	ErrBadOptions = errors.New("cvd: invalid experiment options")
 	ErrNotDew     = errors.New("cvd: depletion cannot continue")
+	// ErrBubblePoint: the feed has a bubble point, and DewOnly was set.
+	ErrBubblePoint = errors.New("cvd: the feed has a bubble point, not a dew point")
 )
 
 // Deplete simulates a constant-volume depletion of feed z at t (K), the
@@ -95,16 +160,36 @@ var (
 // calculation (METHODS 8.3). One mole of feed fills the cell at the dew point
 // (or at o.Start above it), fixing the cell volume. At each lower pressure the
 // cell contents are flashed, and just enough equilibrium gas is removed to
-// bring the two phases back to the cell volume; the liquid stays behind.
-// Above the dew point the cell holds one phase and the gas removed has the
-// feed's composition. Volumes are volume-translated when the fluid is.
+// bring the two phases back to the cell volume; the liquid stays behind
+// (with o.LiquidFlow its share flows too). Above the dew point the cell
+// holds one phase and the gas removed has the feed's composition. Volumes
+// are volume-translated when the fluid is.
+//
+// Each such removal produces, for the whole step, gas of the composition at
+// the step's end pressure, the leanest of the step: a first-order
+// approximation of the continuous depletion a reservoir goes through, good
+// for emulating the laboratory and biased towards too little condensate for
+// a reservoir. With o.Adaptive the depletion below the dew point is instead
+// integrated as that continuous process: implicit steps in the moles
+// produced (the Adams–Moulton rule of third order, trapezoidal where a
+// stretch begins), sized by an estimate of their error (see integrate in
+// adaptive.go) and landing exactly on the reported pressures; each step's
+// produced stream goes through the train. ProducedError and the surface
+// errors carry the estimated discretisation error.
+//
+// MaxDropout is always that of the continuous depletion: with laboratory
+// steps Deplete integrates it too, from the dew point until the dropout has
+// passed its maximum, for the search.
 //
 // Special cases:
 //   - no saturation point at t (above the cricondentherm): an error wrapping
 //     eos.ErrNoSaturation;
 //   - a pressure not below the previous one, not positive, or above the
-//     saturation point while Start is not above it: ErrBadOptions;
-//   - a flash that fails: its *eos.SolveError, wrapped with the pressure.
+//     saturation point while Start is not above it; a tolerance not
+//     positive and below 0.01: ErrBadOptions;
+//   - a flash that fails: its *eos.SolveError, wrapped with the pressure;
+//   - a bubble point with DewOnly: ErrBubblePoint, with the Depletion
+//     holding only T and Dew.
 //
 // Deplete also works from the bubble point of an oil; Dew then holds it.
 func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Depletion, error) {
@@ -114,160 +199,263 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 	if !(t > 0) || math.IsInf(t, 0) {
 		return nil, fmt.Errorf("%w: temperature %g K", ErrBadOptions, t)
 	}
+	if o.PoreCompressibility < 0 || math.IsNaN(o.PoreCompressibility) || math.IsInf(o.PoreCompressibility, 0) {
+		return nil, fmt.Errorf("%w: pore compressibility %g 1/Pa", ErrBadOptions, o.PoreCompressibility)
+	}
+	tol := o.Tolerance
+	if tol == 0 {
+		tol = DefaultTolerance
+	}
+	if !(tol > 0 && tol < 0.01) {
+		return nil, fmt.Errorf("%w: tolerance %g, want above 0 and below 0.01", ErrBadOptions, o.Tolerance)
+	}
 	sat, err := eos.NewSaturator(fl, o.Settings).Upper(t, z)
 	if err != nil {
 		return nil, fmt.Errorf("cvd: saturation point at %.6g K: %w", t, err)
 	}
 	pd := sat.P
+	if o.DewOnly && sat.Type == eos.Bubble {
+		return &Depletion{T: t, Dew: sat}, fmt.Errorf("%w at %.6g K (%.6g Pa)", ErrBubblePoint, t, pd)
+	}
+	if o.Start > pd && o.Start <= pd*(1+atSaturation) {
+		o.Start = 0 // the dew point itself
+	}
 	steps, err := o.pressures(pd)
 	if err != nil {
 		return nil, err
 	}
-	n := fl.N()
-	d := &Depletion{T: t, Dew: sat}
-	f := eos.NewFlasher(fl, o.Settings)
+	d := &Depletion{T: t, Dew: sat, Adaptive: o.Adaptive}
+	if o.Adaptive {
+		d.Tolerance = tol
+	}
 	var sep *Separator
-	var std Conditions
 	if o.Train != nil {
 		if sep, err = NewSeparator(fl, *o.Train, o.Settings); err != nil {
 			return nil, err
 		}
-		std = o.Train.standard()
+	}
+	c := newCell(fl, t, &o)
+	if sep != nil && o.Adaptive {
+		sr, err := sep.Separate(z)
+		if err != nil {
+			return nil, fmt.Errorf("cvd: surface yield of the feed: %w", err)
+		}
+		if sr.OilMoles > 0 && sr.GasMoles > 0 {
+			c.toOil = make([]float64, len(z))
+			for i := range z {
+				if z[i] > 0 {
+					c.toOil[i] = math.Min(1, sr.OilMoles*sr.Oil[i]/z[i])
+				}
+			}
+			c.oil0, c.gas0 = sr.OilMoles, sr.GasMoles
+		}
 	}
 
 	// The cell: one mole of feed at the start pressure.
-	start := pd
+	c.start = pd
 	if o.Start > pd {
-		start = o.Start
+		c.start = o.Start
 	}
-	var res eos.FlashResult
-	if err := f.Flash(&res, t, start, z); err != nil {
-		return nil, fmt.Errorf("cvd: feed at %.6g Pa: %w", start, err)
-	}
-	if o.PoreCompressibility < 0 || math.IsNaN(o.PoreCompressibility) || o.CriticalLiquid < 0 || o.CriticalLiquid >= 1 {
-		return nil, fmt.Errorf("%w: pore compressibility %g 1/Pa and critical liquid fraction %g", ErrBadOptions, o.PoreCompressibility, o.CriticalLiquid)
-	}
-	if start == pd {
-		d.CellVolume = sat.Feed.V
-	} else if res.Phases == 1 {
-		d.CellVolume = res.V.V
+	var first *cellState
+	if c.start == pd {
+		c.v0 = sat.Feed.V
+		if first, err = c.dewState(sat, z, 1); err != nil {
+			return nil, err
+		}
 	} else {
-		return nil, fmt.Errorf("%w: the feed is two-phase at the start pressure %.6g Pa above the saturation pressure %.6g Pa", ErrNotDew, start, pd)
+		total, vol, err := c.flash(c.start, z)
+		if err != nil {
+			return nil, fmt.Errorf("cvd: feed at %.6g Pa: %w", c.start, err)
+		}
+		if c.res.Phases != 1 {
+			return nil, fmt.Errorf("%w: the feed is two-phase at the start pressure %.6g Pa above the saturation pressure %.6g Pa", ErrNotDew, c.start, pd)
+		}
+		c.v0 = vol
+		first = &cellState{vCell: vol, n: append([]float64(nil), z...)}
+		if err := c.fill(first, c.start, total, vol); err != nil {
+			return nil, err
+		}
 	}
-	cell := append([]float64(nil), z...) // component moles in the cell
-	total := 1.0
-	var surf SurfaceStep
-	first := DepletionStep{
-		P: start, Gas: sat.Feed, ZGas: sat.Feed.Z, ZTwoPhase: sat.Feed.Z,
-		Y: append([]float64(nil), z...), Cell: append([]float64(nil), z...),
-	}
-	first.Stream = first.Y
-	if start != pd {
-		first.Gas, first.ZGas, first.ZTwoPhase = res.V, res.V.Z, res.V.Z
-	}
-	first.GasViscosity = fl.ViscosityLBC(t, z, first.Gas.V)
-	if sep != nil {
-		s := surf
-		first.Surface = &s
-	}
-	first.CellVolume = d.CellVolume
-	d.Steps = append(d.Steps, first)
+	d.CellVolume = c.v0
 
-	zc := make([]float64, n) // cell composition
-	for _, p := range steps {
-		for i := range zc {
-			zc[i] = cell[i] / total
-		}
-		if err := f.Flash(&res, t, p, zc); err != nil {
-			return d, fmt.Errorf("cvd: flash of the cell at %.6g Pa: %w", p, err)
-		}
-		vCell := d.CellVolume * (1 - o.PoreCompressibility*(start-p))
-		if !(vCell > 0) {
-			return d, fmt.Errorf("%w: pore compressibility %g 1/Pa shrinks the cell to nothing at %.6g Pa", ErrBadOptions, o.PoreCompressibility, p)
-		}
-		st := DepletionStep{P: p, CellVolume: vCell}
-		var removed float64
-		if res.Phases == 2 {
-			// Remove vapour (and, with MobileLiquid, the liquid beyond its
-			// critical volume) so that what stays fills the cell again.
-			nV, nL := total*res.Beta, total*(1-res.Beta)
-			vV, vL := res.V.V, res.L.V
-			excess := nV*vV + nL*vL - vCell // volume to remove
-			if excess < 0 {
-				return d, fmt.Errorf("%w: at %.6g Pa the cell contents fill %.6g of the cell volume; no gas can be removed", ErrNotDew, p, (excess+vCell)/vCell)
+	// Above and at the dew point the cell holds one phase and produces the
+	// feed: every step is exact.
+	hist := []stepRecord{{st: first, report: true}}
+	k := 0
+	for ; k < len(steps) && steps[k] >= pd; k++ {
+		a := hist[len(hist)-1].st
+		var b *cellState
+		var dn float64
+		if steps[k] == pd {
+			v, err := c.volume(pd)
+			if err != nil {
+				return d, err
 			}
-			outL := 0.0
-			if o.MobileLiquid {
-				if lim := o.CriticalLiquid * vCell; nL*vL > lim {
-					outL = math.Min(nL*vL-lim, excess) / vL
+			if b, err = c.dewState(sat, z, v/sat.Feed.V); err != nil {
+				return d, err
+			}
+			dn = a.total - b.total
+		} else if b, dn, err = c.step(a, steps[k]); err != nil {
+			return d, err
+		}
+		if dn < 0 {
+			return d, fmt.Errorf("%w: at %.6g Pa the single-phase cell contents shrink below the cell volume", ErrNotDew, steps[k])
+		}
+		hist = append(hist, stepRecord{st: b, dN: dn, avg: append([]float64(nil), a.s...), report: true})
+	}
+	below := steps[k:]
+	dew := hist[len(hist)-1].st
+	var rest []stepRecord
+	if o.Adaptive {
+		var it integration
+		rest, it, err = c.integrate(dew, below, tol, false)
+		d.IntegrationSteps, d.RejectedSteps = it.steps, it.rejected
+		if err != nil {
+			return d, err
+		}
+		rest = rest[1:]
+	} else {
+		a := dew
+		for _, p := range below {
+			b, dn, err := c.step(a, p)
+			if err != nil {
+				return d, err
+			}
+			rest = append(rest, stepRecord{st: b, dN: dn, avg: b.s, phiAvg: b.phi, report: true})
+			a = b
+		}
+	}
+	hist = append(hist, rest...)
+	defer func() { d.Flashes = c.flashes }()
+	if err := d.report(c, hist, sep, o.Train); err != nil {
+		return d, err
+	}
+	if !o.SkipMaxDropout {
+		cont := hist[len(hist)-len(rest)-1:]
+		if !o.Adaptive && len(below) > 0 {
+			if cont, _, err = c.integrate(dew, below[len(below)-1:], searchTolerance, true); err != nil {
+				return d, fmt.Errorf("cvd: search for the maximum liquid dropout: %w", err)
+			}
+		}
+		if d.MaxDropout, d.MaxDropoutP, err = c.maxDropout(cont); err != nil {
+			return d, err
+		}
+		if d.MaxDropout == 0 {
+			d.MaxDropoutP = d.Steps[0].P
+		}
+	}
+	return d, nil
+}
+
+// report turns the steps of a depletion into d.Steps: one per reported
+// pressure, with the sums of the steps since the one before. Every step's
+// produced stream goes through sep when there is one.
+func (d *Depletion) report(c *cell, hist []stepRecord, sep *Separator, tr *Train) error {
+	n := len(c.zc)
+	var std Conditions
+	if tr != nil {
+		std = tr.standard()
+	}
+	produced := make([]float64, n) // cumulative moles of each component
+	var perr []float64             // their estimated error
+	if d.Adaptive {
+		perr = make([]float64, n)
+	}
+	var surf SurfaceStep
+	lastProduced := make([]float64, n)
+	var stepN, liqOut, gasV, oilV, gasN, gasM float64
+	sub := 0
+	for _, r := range hist {
+		if r.dN > 0 {
+			for i := range produced {
+				produced[i] += r.dN * r.avg[i]
+			}
+			stepN += r.dN
+			liqOut += r.dN * r.phiAvg
+			sub++
+			if perr != nil && r.err != nil {
+				for i := range perr {
+					perr[i] += r.err[i]
 				}
 			}
-			outV := (excess - outL*vL) / vV
-			if outV > nV {
-				return d, fmt.Errorf("%w: at %.6g Pa removing the excess volume would take more vapour than the cell holds", ErrNotDew, p)
+			if sep != nil {
+				sr, err := sep.Separate(r.avg)
+				if err != nil {
+					return fmt.Errorf("cvd: surface yield of the stream produced at %.6g Pa: %w", r.st.p, err)
+				}
+				surf.CumGas += r.dN * sr.GasVolume
+				surf.CumOil += r.dN * sr.OilVolume
+				surf.CumWetGas += r.dN * eos.R * std.T / std.P
+				surf.CumGasMoles += r.dN * sr.GasMoles
+				surf.CumOilMoles += r.dN * sr.OilMoles
+				gasV += r.dN * sr.GasVolume
+				oilV += r.dN * sr.OilVolume
+				gasN += r.dN * sr.GasMoles
+				gasM += r.dN * sr.GasMoles * sr.GasM
+				if r.err != nil {
+					// the error of the step's moles, split as the step's stream was
+					vg := eos.R * std.T / std.P
+					for i, e := range r.err {
+						if r.avg[i] <= 0 {
+							continue
+						}
+						toOil := 0.0
+						if sr.OilMoles > 0 {
+							toOil = sr.OilMoles * sr.Oil[i] / r.avg[i]
+							surf.CumOilError += e * toOil * sr.OilVolume / sr.OilMoles
+						}
+						surf.CumGasError += e * (1 - toOil) * vg
+					}
+				}
 			}
-			nV -= outV
-			nL -= outL
-			removed = outV + outL
-			for i := range cell {
-				cell[i] = nL*res.X[i] + nV*res.Y[i]
-			}
-			st.TwoPhase = true
-			st.LiquidMoles = nL
-			st.LiquidOut = outL
-			st.LiquidDropout = nL * vL / vCell
-			st.Liquid = res.L
-			st.X = append([]float64(nil), res.X...)
-			st.Gas = res.V
-			st.Y = append([]float64(nil), res.Y...)
+		}
+		if !r.report {
+			continue
+		}
+		s := r.st
+		st := DepletionStep{
+			P: s.p, TwoPhase: s.phases == 2 && !s.dew, LiquidDropout: s.dropout,
+			Produced: 1 - s.total, StepProduced: stepN,
+			Gas: s.gas, ZGas: s.gas.Z, ZTwoPhase: s.p * s.vCell / (s.total * eos.R * d.T),
+			GasViscosity: s.muG, Y: append([]float64(nil), s.y...),
+			LiquidOut: liqOut, CellVolume: s.vCell, Cell: append([]float64(nil), s.n...),
+			Substeps: sub,
+		}
+		if st.TwoPhase {
+			st.Liquid, st.X = s.liq, append([]float64(nil), s.x...)
+			st.LiquidMoles = s.total * (1 - s.beta)
+			st.LiquidViscosity, st.LiquidFlow = s.muL, s.fL
+		}
+		st.Stream = st.Y
+		if stepN > 0 {
 			st.Stream = make([]float64, n)
 			for i := range st.Stream {
-				st.Stream[i] = (outV*res.Y[i] + outL*res.X[i]) / removed
+				st.Stream[i] = (produced[i] - lastProduced[i]) / stepN
 			}
-		} else {
-			// one phase fills the cell: remove it at its own composition
-			v := res.V.V
-			if res.Single == eos.Liquid {
-				v = res.L.V
-			}
-			after := vCell / v
-			removed = total - after
-			if removed < 0 {
-				return d, fmt.Errorf("%w: at %.6g Pa the single-phase cell contents shrink below the cell volume", ErrNotDew, p)
-			}
-			for i := range cell {
-				cell[i] = after * zc[i]
-			}
-			st.Gas = res.V
-			st.Y = append([]float64(nil), zc...)
-			st.Stream = st.Y
 		}
-		total -= removed
-		st.StepProduced = removed
-		st.Produced = 1 - total
-		st.ZGas = st.Gas.Z
-		st.ZTwoPhase = p * vCell / (total * eos.R * t)
-		st.GasViscosity = fl.ViscosityLBC(t, st.Y, st.Gas.V)
-		st.Cell = append([]float64(nil), cell...)
+		if perr != nil {
+			st.ProducedError = append([]float64(nil), perr...)
+		}
 		if sep != nil {
-			sr, err := sep.Separate(st.Stream)
-			if err != nil {
-				return d, fmt.Errorf("cvd: surface yield of the stream produced at %.6g Pa: %w", p, err)
+			if gasV > 0 {
+				surf.CGR = oilV / gasV
+			} else if oilV > 0 {
+				surf.CGR = math.Inf(1)
+			} else {
+				surf.CGR = 0
 			}
-			surf.CGR = sr.CGR
-			surf.GasGravity = sr.GasGravity
-			surf.CumGas += removed * sr.GasVolume
-			surf.CumOil += removed * sr.OilVolume
-			surf.CumWetGas += removed * eos.R * std.T / std.P
-			surf.CumGasMoles += removed * sr.GasMoles
-			surf.CumOilMoles += removed * sr.OilMoles
-			s := surf
-			st.Surface = &s
+			surf.GasGravity = 0
+			if gasN > 0 {
+				surf.GasGravity = gasM / gasN / MolarMassAir
+			}
+			sf := surf
+			st.Surface = &sf
 		}
 		d.Steps = append(d.Steps, st)
+		copy(lastProduced, produced)
+		stepN, liqOut, gasV, oilV, gasN, gasM, sub = 0, 0, 0, 0, 0, 0, 0
 	}
-	d.MaxDropout, d.MaxDropoutP = maxDropout(d.Steps)
-	return d, nil
+	return nil
 }
 
 // pressures returns the steps below the start: the user's list, checked, or
@@ -325,38 +513,4 @@ func (o DepletionOptions) pressures(pd float64) ([]float64, error) {
 	}
 	ps = append(ps, o.Abandonment)
 	return ps, nil
-}
-
-// maxDropout locates the largest liquid dropout: a parabola in pressure
-// through the largest step and its neighbours, or that step at an end of the
-// list or where the parabola does not peak between the neighbours.
-func maxDropout(steps []DepletionStep) (float64, float64) {
-	k := 0
-	for i, s := range steps {
-		if s.LiquidDropout > steps[k].LiquidDropout {
-			k = i
-		}
-	}
-	best, bestP := steps[k].LiquidDropout, steps[k].P
-	if k == 0 || k == len(steps)-1 {
-		return best, bestP
-	}
-	x0, x1, x2 := steps[k-1].P, steps[k].P, steps[k+1].P
-	y0, y1, y2 := steps[k-1].LiquidDropout, steps[k].LiquidDropout, steps[k+1].LiquidDropout
-	// Lagrange parabola through the three points; vertex where its slope vanishes
-	d01, d12 := (y1-y0)/(x1-x0), (y2-y1)/(x2-x1)
-	a := (d12 - d01) / (x2 - x0)
-	if a >= 0 {
-		return best, bestP
-	}
-	b := d01 - a*(x0+x1)
-	xv := -b / (2 * a)
-	if xv <= math.Min(x0, x2) || xv >= math.Max(x0, x2) {
-		return best, bestP
-	}
-	yv := y1 + (xv-x1)*(d01+a*(xv-x0))
-	if yv < best {
-		return best, bestP
-	}
-	return yv, xv
 }

@@ -1,7 +1,10 @@
 // Package cvd simulates the laboratory experiments on a reservoir fluid
 // described by package eos: constant-volume depletion (CVD),
 // constant-composition expansion (CCE) and the separator train that turns a
-// well stream into surface gas and stock-tank condensate.
+// well stream into surface gas and stock-tank condensate. Its depletion
+// cell also serves the reservoir layer: with Adaptive, Deplete integrates
+// the continuous depletion a reservoir goes through, to a tolerance, with an
+// estimate of its discretisation error.
 //
 // All quantities are SI: K, Pa, m³, mol, kg. Standard volumes are ideal-gas
 // volumes at the standard conditions of the Train.
@@ -14,4 +17,9 @@
 //     Richardson, TX (CVD and CCE procedures, separator calculations).
 //   - Lohrenz, J., Bray, B.G. and Clark, C.R. (1964). Calculating viscosities of
 //     reservoir fluids from their compositions. JPT 16(10), 1171–1176.
+//   - Hairer, E., Nørsett, S.P. and Wanner, G. (1993). Solving Ordinary
+//     Differential Equations I, 2nd ed. Springer, §III.1 (Adams methods) and
+//     §II.4 (step-size control). (From memory.)
+//   - Brent, R.P. (1973). Algorithms for Minimization without Derivatives.
+//     Prentice-Hall, ch. 5.
 package cvd

@@ -1,7 +1,9 @@
 // Package mbal is the reservoir layer: gas and condensate in place (by the
 // equation of state and by the quick-look recombination of separator data
 // with a Z-factor correlation), depletion recovery versus pressure with the
-// condensate saturation, and the production-history material balance (the
+// condensate saturation (integrated to convergence, the condensate immobile
+// or flowing by fractional flow), and the production-history material
+// balance (the
 // two-phase p/Z line and the Havlena–Odeh check for water influx). It builds
 // on the experiments of package cvd. SI units throughout.
 //
@@ -16,4 +18,8 @@
 //     reservoir gases. SPE-14265-MS.
 //   - Wichert, E. and Aziz, K. (1972). Calculate Z's for sour gases.
 //     Hydrocarbon Processing 51(5), 119–122.
+//   - Corey, A.T. (1954). The interrelation between gas and oil relative
+//     permeabilities. Producers Monthly 19(1), 38–41. (From memory.)
+//   - McCain, W.D. Jr. (1991). Reservoir-fluid property correlations: state
+//     of the art. SPE Reservoir Engineering 6(2), 266–272.
 package mbal

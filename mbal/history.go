@@ -45,6 +45,9 @@ type HistoryPoint struct {
 	// CumWater is the cumulative liquid water produced, m³ at standard
 	// conditions (used by HavlenaOdeh only).
 	CumWater float64
+	// Bw is the water formation volume factor at P, reservoir m³ per m³ at
+	// standard conditions, for HavlenaOdeh; 0 means HavlenaOdehParams.Bw.
+	Bw float64
 }
 
 // HistoryFromSeries builds history points from parallel slices of pressure
@@ -258,7 +261,9 @@ type HavlenaOdehParams struct {
 	Cw float64 // water compressibility, 1/Pa
 	Cf float64 // pore (rock) compressibility, 1/Pa
 	// Bw is the water formation volume factor, reservoir m³ per m³ at
-	// standard conditions; 0 means 1.
+	// standard conditions, of the points that give none; 0 means 1 (water
+	// whose volume does not change from the reservoir to the surface: give
+	// it, for instance from WaterFVFMcCain, whenever water is produced).
 	Bw float64
 	// Std are the standard conditions of the standard volumes; the zero
 	// value means cvd.StandardField.
@@ -270,6 +275,7 @@ type HavlenaOdehParams struct {
 type HavlenaOdehPoint struct {
 	P   float64 // Pa
 	Bg  float64 // gas formation volume factor Z₂ T p_sc/(p T_sc), reservoir m³ per standard m³
+	Bw  float64 // water formation volume factor used, reservoir m³ per standard m³
 	F   float64 // underground withdrawal G_p B_g + W_p B_w, reservoir m³
 	Eg  float64 // gas expansion B_g − B_gi, reservoir m³ per standard m³
 	Efw float64 // rock and connate-water expansion B_gi c_e (p_i − p), reservoir m³ per standard m³
@@ -403,7 +409,15 @@ func HavlenaOdeh(points []HistoryPoint, pi, zi float64, par HavlenaOdehParams, o
 				Why: fmt.Sprintf("c_e (p_i − p) = %.4g: the pore volume would vanish; check Cw, Cf and Sw", ce*dp)}
 		}
 		bg := bgOf(pt.P, pt.Z2)
-		hp := HavlenaOdehPoint{P: pt.P, Bg: bg, F: pt.CumWetGas*bg + pt.CumWater*bw, Eg: bg - bgi, Efw: bgi * ce * dp}
+		bw := bw
+		if pt.Bw != 0 {
+			bw = pt.Bw
+		}
+		if !(bw > 0) || math.IsInf(bw, 0) {
+			return nil, &HistoryError{Func: fn, Index: i, Field: "Bw", Value: pt.Bw, Err: ErrHistoryValue,
+				Why: "water formation volume factor must be positive and finite"}
+		}
+		hp := HavlenaOdehPoint{P: pt.P, Bg: bg, Bw: bw, F: pt.CumWetGas*bg + pt.CumWater*bw, Eg: bg - bgi, Efw: bgi * ce * dp}
 		e := hp.Eg + hp.Efw
 		if !(e > 0) {
 			return nil, &HistoryError{Func: fn, Index: i, Field: "P", Value: pt.P, Err: ErrHistoryValue,

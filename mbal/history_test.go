@@ -656,3 +656,43 @@ func ExampleFitPZ() {
 	fmt.Printf("G = %.4g Bscf, R² = %.4g\n", f.G/bcf, f.R2)
 	// Output: G = 100 Bscf, R² = 1
 }
+
+// TestHavlenaOdehPointBw: a history that satisfies the balance of hBalance
+// exactly with a water formation volume factor that changes with pressure
+// (invented: 1.00 + 0.01 per point) gives back G to round-off when each
+// point carries its own B_w, and each point reports the B_w it used; with
+// the one constant B_w of the parameters it does not.
+func TestHavlenaOdehPointBw(t *testing.T) {
+	t.Parallel()
+	r := hRes
+	par := HavlenaOdehParams{T: r.T, Sw: r.sw, Cw: r.cw, Cf: r.cf, Bw: r.bw, Std: r.std}
+	bg := func(p float64) float64 { return hZ(p) * r.T * r.std.P / (p * r.std.T) }
+	ce := (r.cw*r.sw + r.cf) / (1 - r.sw)
+	pts := make([]HistoryPoint, len(hPressures))
+	for i, p := range hPressures {
+		bw := 1.0 + 0.01*float64(i)
+		e := bg(p) - bg(r.pi) + bg(r.pi)*ce*(r.pi-p)
+		gp := r.g * e / (bg(p) + 50*r.wgr*bw) // much water, so that B_w shows
+		pts[i] = HistoryPoint{P: p, Z2: hZ(p), CumWetGas: gp, CumWater: 50 * r.wgr * gp, Bw: bw}
+	}
+	zi := hZ(r.pi)
+	res, err := HavlenaOdeh(pts, r.pi, zi, par, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, hp := range res.Points {
+		if hp.Bw != pts[i].Bw || hRel(hp.FOverE, r.g) > 1e-9 {
+			t.Errorf("point %d: B_w %g (given %g), F/(Eg+Efw) = %.12g, want G = %.12g", i, hp.Bw, pts[i].Bw, hp.FOverE, r.g)
+		}
+	}
+	for i := range pts {
+		pts[i].Bw = 0
+	}
+	res, err = HavlenaOdeh(pts, r.pi, zi, par, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Points[0].Bw != r.bw || hRel(res.Points[len(pts)-1].FOverE, r.g) < 1e-4 {
+		t.Errorf("one constant B_w: first point %g, last F/(Eg+Efw) %.8g of G; want the parameters' %g and a visible error", res.Points[0].Bw, res.Points[len(pts)-1].FOverE/r.g, r.bw)
+	}
+}

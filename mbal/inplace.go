@@ -26,6 +26,10 @@ type Reservoir struct {
 	Sc float64
 	Cf float64 // rock (pore) compressibility
 	Cw float64 // water compressibility
+	// RelPerm gives the gas and condensate relative permeabilities for the
+	// fractional flow of a mobile condensate; the zero value means the
+	// defaults.
+	RelPerm RelativePermeability
 }
 
 // DefaultSc is the critical condensate saturation used when none is given.
@@ -78,7 +82,7 @@ func (r Reservoir) Check() error {
 	case r.Cw < 0 || !finite(r.Cw):
 		return bad("water compressibility", r.Cw, ">= 0 1/Pa")
 	}
-	return nil
+	return r.RelPerm.Check()
 }
 
 // PV is the pore volume, m³.

@@ -33,7 +33,7 @@ const atDewTolerance = 1e-6
 
 func depleteCommand() *cli.Command {
 	return studyCommand("deplete",
-		"simulated constant-volume depletion at the reservoir temperature: liquid dropout, produced moles, Z-factors, phase properties and surface yields per step",
+		"simulated constant-volume depletion at the reservoir temperature, in the laboratory's steps: liquid dropout, produced moles, Z-factors, phase properties and surface yields per step, and the maximum dropout of the continuous depletion. The cumulative yields are the laboratory's, whose finite steps produce leaner gas than a reservoir does: for the reservoir's recovery use recover",
 		[]cli.Flag{
 			&cli.StringFlag{Name: flagPressures, Usage: "the depletion steps, falling, comma-separated, each with its unit: `LIST` such as \"3500 psia, 3000 psia, 2500 psia\" (default: the study's [depletion] pressures)"},
 			&cli.IntFlag{Name: flagSteps, Usage: fmt.Sprintf("`N` even steps, 1 to %d, from the dew point down to reservoir.abandonment_pressure, instead of the study's [depletion] pressures", maxSteps),

@@ -17,27 +17,27 @@ import (
 // Flags of history.
 const flagConfidence = "confidence"
 
-// historyGridSteps is the number of even pressure steps of the simulated
-// depletion from the initial pressure down to the lowest history pressure,
-// in which Z₂ and the condensate's gas equivalent are interpolated at each
-// history pressure. A depletion is a sequence of finite gas removals, so its
-// Z₂ moves a little with the step size: on the bundled example, 200 steps
-// from 4950 to 1790 psia give Z₂ within 1e-4 of a depletion in 10 psi steps,
-// where 10 steps (316 psi each) are 3e-3 off.
-const historyGridSteps = 200
+// historyGridSteps is the number of even pressure steps at which the
+// simulated depletion from the initial pressure down to the lowest history
+// pressure is reported, and between which Z₂ and the condensate's gas
+// equivalent are interpolated linearly at each history pressure. The
+// depletion itself is integrated to convergence whatever the grid; on the
+// bundled example, 100 steps (32 psi each) interpolate Z₂ to about 1e-5.
+const historyGridSteps = 100
 
 func historyCommand() *cli.Command {
 	return studyCommand("history",
 		"original wet gas in place from the [[history]] table: the two-phase p/z straight line in its Havlena–Odeh form, with its confidence interval and a test for water influx, against the volumetric figure",
 		[]cli.Flag{
 			&cli.Float64Flag{Name: flagConfidence, Value: mbal.DefaultConfidence, Usage: "two-sided confidence `LEVEL` of the interval on the gas in place and of the influx tests, between 0 and 1"},
+			startAtDewPointFlag(),
 		},
 		func(c *cli.Context, o *options, st *study.Study) error {
 			conf := c.Float64(flagConfidence)
 			if !(conf > 0 && conf < 1) {
 				return cli.Exit(fmt.Sprintf("--%s: %g, want a level between 0 and 1, such as 0.95", flagConfidence, conf), exitUsage)
 			}
-			h, err := historyRun(o, st, conf)
+			h, err := historyRunAt(o, st, conf, c.Bool(flagStartAtDew))
 			if err != nil {
 				return err
 			}
@@ -65,6 +65,8 @@ type historyResult struct {
 	plain    *mbal.PZFit // the p/z line without rock and water expansion
 	vol      mbal.VolumetricComparison
 	dewPoint float64 // Pa
+	bwFrom   string  // where the water formation volume factor came from
+	started  bool    // the reservoir was started at the model's dew point
 }
 
 // historyRun puts the study's [[history]] on a wet-gas basis and fits it.
@@ -80,7 +82,19 @@ type historyResult struct {
 // interpolated linearly in pressure between its steps, historyGridSteps even
 // steps from the initial pressure down to the lowest history pressure; Z_i
 // is Z₂ at the initial pressure.
+//
+// The water produced counts at its formation volume factor B_w:
+// reservoir.water_formation_volume_factor when given, otherwise McCain's
+// (1990) correlation at the reservoir temperature and each point's
+// pressure (mbal.WaterFVFMcCain), with a warning beyond the correlation's
+// data when water is produced there.
 func historyRun(o *options, st *study.Study, conf float64) (*historyResult, error) {
+	return historyRunAt(o, st, conf, false)
+}
+
+// historyRunAt is historyRun, starting the reservoir at the model's dew
+// point when atDew is set and that lies above the initial pressure.
+func historyRunAt(o *options, st *study.Study, conf float64, atDew bool) (*historyResult, error) {
 	if len(st.History) == 0 {
 		return nil, cli.Exit(fmt.Sprintf("%s has no [[history]] table: history needs rows of date or step, pressure, sales_gas, condensate and optionally water", st.File), exitUsage)
 	}
@@ -88,7 +102,11 @@ func historyRun(o *options, st *study.Study, conf float64) (*historyResult, erro
 	if err != nil {
 		return nil, err
 	}
-	h := &historyResult{res: res, tr: trainOf(st, o.sys), rows: st.History}
+	started, err := startAtDewPoint(o, st, &res, "history", atDew)
+	if err != nil {
+		return nil, err
+	}
+	h := &historyResult{res: res, tr: trainOf(st, o.sys), rows: st.History, started: started}
 	if !st.History[0].Production() {
 		h.first = 1
 		p0 := st.History[0].Pressure
@@ -133,15 +151,29 @@ func historyRun(o *options, st *study.Study, conf float64) (*historyResult, erro
 	}
 	h.zi = h.rec.Steps[0].Z2
 
+	h.bwFrom = "reservoir.water_formation_volume_factor"
+	if st.Reservoir.WaterFVF == 0 {
+		h.bwFrom = "McCain (1990) correlation at each pressure"
+	}
+	outside := false
 	for _, row := range fitted {
 		ge := interpolate(h.rec.Steps, row.Pressure, geOf)
 		h.geAt = append(h.geAt, ge)
+		bw := st.Reservoir.WaterFVF
+		if bw == 0 {
+			bw = mbal.WaterFVFMcCain(res.T, row.Pressure)
+			outside = outside || row.Water > 0 && !mbal.WaterFVFMcCainRange(res.T, row.Pressure)
+		}
 		h.points = append(h.points, mbal.HistoryPoint{
 			P:         row.Pressure,
 			Z2:        interpolate(h.rec.Steps, row.Pressure, func(s mbal.RecoveryStep) float64 { return s.Z2 }),
 			CumWetGas: row.SalesGas + row.Condensate*ge,
 			CumWater:  row.Water,
+			Bw:        bw,
 		})
+	}
+	if outside {
+		o.warn(fmt.Sprintf("%s: the water formation volume factor comes from McCain's (1990) correlation beyond its data (up to 260 degF and 5000 psia); give reservoir.water_formation_volume_factor if it is known", st.File))
 	}
 	std := h.tr.Standard
 	par := mbal.HavlenaOdehParams{T: res.T, Sw: res.Sw, Cw: res.Cw, Cf: res.Cf, Std: std}
@@ -237,6 +269,8 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult, withRe
 			{Column{Name: "curvature_p_value"}, line.CurvatureP},
 			{Column{Name: "curvature_departure", Unit: units.Percent}, 100 * h.ho.CurvatureChange},
 			{Column{Name: "water_influx_suspected"}, h.ho.WaterInfluxSuspected},
+			{Column{Name: "water_formation_volume_factor_source"}, h.bwFrom},
+			{Column{Name: "started_at_model_dew_point"}, h.started},
 		},
 	}
 	if withReason {
@@ -260,6 +294,7 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult, withRe
 			{Name: "cum_sales_gas", Unit: u.gas},
 			{Name: "cum_condensate", Unit: u.liquid},
 			{Name: "cum_water", Unit: u.liquid},
+			{Name: "water_formation_volume_factor"},
 			{Name: "condensate_gas_equivalent", Unit: su.gor.Unit},
 			{Name: "cum_wet_gas", Unit: u.gas},
 			{Name: "z_two_phase"},
@@ -273,11 +308,11 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult, withRe
 		row := h.rows[i+h.first]
 		hp := h.ho.Points[i]
 		corrected := pt.P / pt.Z2 * (1 - h.ho.Ce*(h.res.Pi-pt.P))
-		x := pt.CumWetGas + pt.CumWater/hp.Bg // W_p B_w/B_g with B_w = 1
+		x := pt.CumWetGas + pt.CumWater*hp.Bw/hp.Bg // G_p + W_p B_w/B_g
 		pts.Rows = append(pts.Rows, []any{
 			row.Label,
 			pU.FromSI(pt.P),
-			u.gas.FromSI(row.SalesGas), u.liquid.FromSI(row.Condensate), u.liquid.FromSI(row.Water),
+			u.gas.FromSI(row.SalesGas), u.liquid.FromSI(row.Condensate), u.liquid.FromSI(row.Water), hp.Bw,
 			su.gor.of(h.geAt[i]),
 			u.gas.FromSI(pt.CumWetGas),
 			pt.Z2,

@@ -16,14 +16,51 @@ import (
 func inplaceCommand() *cli.Command {
 	return studyCommand("inplace",
 		"initial wet gas, sales gas and condensate in place: by the equation of state and, with a [surface] section, by the quick look from separator data, side by side",
-		nil,
-		func(_ *cli.Context, o *options, st *study.Study) error {
-			r, err := inplaceReport(o, st)
+		[]cli.Flag{startAtDewPointFlag()},
+		func(c *cli.Context, o *options, st *study.Study) error {
+			r, err := inplaceReportAt(o, st, c.Bool(flagStartAtDew))
 			if err != nil {
 				return err
 			}
 			return o.emit(r)
 		})
+}
+
+// flagStartAtDew starts the reservoir at the fluid model's dew point when
+// that lies above the initial pressure.
+const flagStartAtDew = "start-at-dew-point"
+
+func startAtDewPointFlag() cli.Flag {
+	return &cli.BoolFlag{Name: flagStartAtDew, Usage: "when the fluid model's dew point lies above reservoir.initial_pressure (a model not yet tuned to a sample that was single-phase there), start the reservoir at the model's dew point instead of refusing, with a warning"}
+}
+
+// startAtDewPoint replaces the initial pressure of res by the fluid model's
+// dew point when atDew is set and that dew point lies above it, and warns
+// that the model disagrees with the sample; it says whether it did. The
+// reservoir then starts one phase, a billionth above the dew point.
+func startAtDewPoint(o *options, st *study.Study, res *mbal.Reservoir, what string, atDew bool) (bool, error) {
+	if !atDew {
+		return false, nil
+	}
+	sat, err := upperSaturation(st, o.sys, res.T)
+	if err != nil {
+		return false, fmt.Errorf("--%s: %w", flagStartAtDew, err)
+	}
+	at := temperatureText(o.sys, res.T)
+	if sat.Type == eos.Bubble {
+		return false, cli.Exit(fmt.Sprintf("--%s: the fluid of %s has a bubble point at %s (%s), not a dew point: it is an oil, for which %s does not apply",
+			flagStartAtDew, st.File, at, pressureText(o.sys, sat.P), what), exitUsage)
+	}
+	if sat.P <= res.Pi {
+		fmt.Fprintf(o.stderr, "%s: --%s: the model's dew point at %s (%s) lies below reservoir.initial_pressure (%s); the reservoir starts at the initial pressure\n",
+			what, flagStartAtDew, at, pressureText(o.sys, sat.P), pressureText(o.sys, res.Pi))
+		return false, nil
+	}
+	pi := sat.P * (1 + 1e-9)
+	o.warn(fmt.Sprintf("the fluid model's dew point at %s (%s) lies above reservoir.initial_pressure of %s (%s): the model disagrees with the sample, which was one phase at the initial pressure, and needs tuning; %s starts the reservoir at the model's dew point instead (--%s)",
+		at, pressureText(o.sys, sat.P), st.File, pressureText(o.sys, res.Pi), what, flagStartAtDew))
+	res.Pi = pi
+	return true, nil
 }
 
 // reservoirOf is the study's reservoir for package mbal, or a usage error
@@ -57,6 +94,10 @@ func reservoirOf(o *options, st *study.Study, what string, needAbandonment bool)
 		Sc:         rs.CriticalCondensateSaturation,
 		Cf:         rs.RockCompressibility,
 		Cw:         rs.WaterCompressibility,
+		RelPerm: mbal.RelativePermeability{
+			GasExponent: st.RelPerm.GasExponent, CondensateExponent: st.RelPerm.CondensateExponent,
+			GasEndpoint: st.RelPerm.GasEndpoint, CondensateEndpoint: st.RelPerm.CondensateEndpoint,
+		},
 	}
 	if needAbandonment {
 		r.Abandonment = rs.AbandonmentPressure
@@ -74,8 +115,8 @@ func reservoirOf(o *options, st *study.Study, what string, needAbandonment bool)
 func reservoirError(st *study.Study, sys units.System, what string, err error) error {
 	switch {
 	case errors.Is(err, mbal.ErrInitiallyTwoPhase):
-		return cli.Exit(fmt.Sprintf("%s: reservoir.initial_pressure (%s): %s: %v; the reservoir must be one phase at discovery (compare dewcell satpoint)",
-			st.File, pressureText(sys, st.Reservoir.InitialPressure), what, err), exitUsage)
+		return cli.Exit(fmt.Sprintf("%s: reservoir.initial_pressure (%s): %s: %v; the reservoir must be one phase at discovery (compare dewcell satpoint): tune the fluid description to the sample, or meanwhile give --%s to start the reservoir at the model's dew point",
+			st.File, pressureText(sys, st.Reservoir.InitialPressure), what, err, flagStartAtDew), exitUsage)
 	case errors.Is(err, mbal.ErrBadReservoir), errors.Is(err, cvd.ErrBadTrain), errors.Is(err, cvd.ErrBadOptions):
 		return cli.Exit(fmt.Sprintf("%s: %s: %v", st.File, what, err), exitUsage)
 	}
@@ -163,8 +204,18 @@ func relDiffPct(a, b float64) any {
 // at the initial state, through the separator train) and, when the study
 // has a [surface] section, by the quick look from separator data.
 func inplaceReport(o *options, st *study.Study) (*Report, error) {
+	return inplaceReportAt(o, st, false)
+}
+
+// inplaceReportAt is inplaceReport, starting the reservoir at the model's
+// dew point when atDew is set and that lies above the initial pressure.
+func inplaceReportAt(o *options, st *study.Study, atDew bool) (*Report, error) {
 	sys := o.sys
 	res, err := reservoirOf(o, st, "inplace", false)
+	if err != nil {
+		return nil, err
+	}
+	started, err := startAtDewPoint(o, st, &res, "inplace", atDew)
 	if err != nil {
 		return nil, err
 	}
@@ -185,7 +236,9 @@ func inplaceReport(o *options, st *study.Study) (*Report, error) {
 	} else {
 		fmt.Fprintf(o.stderr, "inplace: %s has no [surface] section: the quick look from separator data is left out\n", st.File)
 	}
-	return inPlaceReportOf(st, sys, tr, res, ip, w, q), nil
+	r := inPlaceReportOf(st, sys, tr, res, ip, w, q)
+	r.Fields = append(r.Fields[:2:2], append([]Field{{Column{Name: "started_at_model_dew_point"}, started}}, r.Fields[2:]...)...)
+	return r, nil
 }
 
 // inPlaceReportOf shows the in-place results in sys: the equation-of-state

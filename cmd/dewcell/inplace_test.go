@@ -275,3 +275,46 @@ func TestInPlaceExampleMagnitude(t *testing.T) {
 		t.Errorf("wet gas in place %g Mscf/acre-ft, want 500 to 3000", v)
 	}
 }
+
+// TestStartAtDewPoint: an untuned model whose dew point (4579 psia for the
+// example's fluid at 248 degF) lies above the initial pressure cannot hold
+// the single-phase sample there. inplace and recover refuse, naming the way
+// out; with --start-at-dew-point they start the reservoir at the model's
+// dew point, one phase, with a warning that the model needs tuning. On a
+// reservoir above its dew point the flag changes nothing.
+func TestStartAtDewPoint(t *testing.T) {
+	low := writeStudy(t, strings.Replace(exampleWithout(t, "# Production history"), `initial_pressure = "4950 psia"`, `initial_pressure = "4400 psia"`, 1))
+	sat := runJSON(t, "satpoint", exampleStudy)
+	pd := num(t, sat, "upper_dew_pressure_psia")
+	for _, cmd := range []string{"inplace", "recover"} {
+		code, _, stderr := dewcell(cmd, low)
+		if code != 2 || !strings.Contains(stderr, "reservoir.initial_pressure") || !strings.Contains(stderr, "--start-at-dew-point") {
+			t.Errorf("%s below the model's dew point: exit %d, %q; want 2, naming the initial pressure and --start-at-dew-point", cmd, code, stderr)
+		}
+		code, out, stderr := dewcell(cmd, "--start-at-dew-point", "--format", "json", low)
+		if code != 0 {
+			t.Fatalf("%s --start-at-dew-point: exit %d: %s", cmd, code, stderr)
+		}
+		if !strings.Contains(stderr, "warning: the fluid model's dew point") || !strings.Contains(stderr, "disagrees with the sample") || !strings.Contains(stderr, "tuning") {
+			t.Errorf("%s --start-at-dew-point: standard error %q lacks the warning", cmd, stderr)
+		}
+		doc := decodeJSON(t, out)
+		checkRel(t, cmd+" initial_pressure_psia", num(t, doc, "initial_pressure_psia"), pd, 1e-8, "satpoint: the model's dew point")
+		if doc["started_at_model_dew_point"] != true {
+			t.Errorf("%s: started_at_model_dew_point %v", cmd, doc["started_at_model_dew_point"])
+		}
+		// above its dew point the reservoir starts where it is
+		code, out, stderr = dewcell(cmd, "--start-at-dew-point", "--format", "json", exampleStudy)
+		plain := runJSON(t, cmd, exampleStudy)
+		doc = decodeJSON(t, out)
+		if code != 0 || strings.Contains(stderr, "warning: the fluid model's dew point") || doc["started_at_model_dew_point"] != false {
+			t.Errorf("%s --start-at-dew-point above the dew point: exit %d, %q, started %v", cmd, code, stderr, doc["started_at_model_dew_point"])
+		}
+		checkRel(t, cmd+" wet gas in place with the flag", num(t, doc, "wet_gas_in_place_mmscf"), num(t, plain, "wet_gas_in_place_mmscf"), 0, "without the flag")
+	}
+	// the recovery then starts at the dew point itself
+	doc := runJSON(t, "recover", "--start-at-dew-point", low)
+	if s := rows(t, doc, "steps"); len(s) != defaultRecoverySteps+1 || math.Abs(num(t, s[0], "pressure_psia")/pd-1) > 1e-8 {
+		t.Errorf("%d steps from %g psia; want the dew point and %d below", len(s), num(t, s[0], "pressure_psia"), defaultRecoverySteps)
+	}
+}

@@ -12,26 +12,31 @@ import (
 )
 
 // Flags of recover.
-const flagMobileLiquid = "mobile-liquid"
+const (
+	flagMobileLiquid = "mobile-liquid"
+	flagFixedSteps   = "fixed-steps"
+)
 
 // defaultRecoverySteps is the number of even steps from the dew point to the
-// abandonment pressure when recover is given no pressures.
+// abandonment pressure that recover reports when given no pressures.
 const defaultRecoverySteps = 10
 
 func recoverCommand() *cli.Command {
 	return studyCommand("recover",
-		"depletion recovery from the initial to the abandonment pressure: cumulative wet gas, sales gas and condensate, recovery factors, producing CGR, two-phase Z and p/z, condensate saturation",
+		"depletion recovery from the initial to the abandonment pressure: cumulative wet gas, sales gas and condensate, recovery factors, producing CGR, two-phase Z and p/z, condensate saturation; the depletion is integrated to convergence, with its estimated error",
 		[]cli.Flag{
-			&cli.StringFlag{Name: flagPressures, Usage: "the reservoir pressures, falling, below reservoir.initial_pressure and not below reservoir.abandonment_pressure, comma-separated, each with its unit: `LIST` such as \"4000 psia, 3000 psia, 2000 psia\"; the abandonment pressure is added when the list stops above it"},
-			&cli.IntFlag{Name: flagSteps, Value: defaultRecoverySteps, Usage: fmt.Sprintf("`N` even steps, 1 to %d, from the dew point down to reservoir.abandonment_pressure", maxSteps)},
-			&cli.BoolFlag{Name: flagMobileLiquid, Usage: "produce the condensate above the critical condensate saturation with the gas (the modified depletion): the upper bound of condensate recovery; by default the condensate stays in the rock (the lower bound)"},
+			&cli.StringFlag{Name: flagPressures, Usage: "the reservoir pressures to report, falling, below reservoir.initial_pressure and not below reservoir.abandonment_pressure, comma-separated, each with its unit: `LIST` such as \"4000 psia, 3000 psia, 2000 psia\"; the abandonment pressure is added when the list stops above it. The integration steps onto them; they do not set its accuracy"},
+			&cli.IntFlag{Name: flagSteps, Value: defaultRecoverySteps, Usage: fmt.Sprintf("report `N` even steps, 1 to %d, from the dew point down to reservoir.abandonment_pressure; they do not set the integration's accuracy", maxSteps)},
+			&cli.IntFlag{Name: flagFixedSteps, Usage: fmt.Sprintf("integrate instead with `N` even first-order steps, 1 to %d, from the dew point (the laboratory's constant-volume depletion), and report each: for checking; the recovery falls short of the converged one by about in proportion to the step", mbal.MaxFixedSteps)},
+			&cli.BoolFlag{Name: flagMobileLiquid, Usage: "let the condensate above the critical condensate saturation flow with the gas in proportion to its mobility (fractional flow with the [relative_permeability] curves and the phases' viscosities): the upper bound of condensate recovery; by default the condensate stays in the rock (the lower bound)"},
+			startAtDewPointFlag(),
 		},
 		func(c *cli.Context, o *options, st *study.Study) error {
 			ro, err := recoverOptions(c, o, st)
 			if err != nil {
 				return err
 			}
-			rep, err := recoverReport(o, st, ro)
+			rep, err := recoverReportAt(o, st, ro, c.Bool(flagStartAtDew))
 			if err != nil {
 				return err
 			}
@@ -39,12 +44,25 @@ func recoverCommand() *cli.Command {
 		})
 }
 
-// recoverOptions reads --pressures, --steps and --mobile-liquid.
+// recoverOptions reads --pressures, --steps, --fixed-steps and
+// --mobile-liquid.
 func recoverOptions(c *cli.Context, o *options, st *study.Study) (mbal.RecoverOptions, error) {
 	ro := mbal.RecoverOptions{MobileLiquid: c.Bool(flagMobileLiquid), Steps: defaultRecoverySteps}
 	bad := func(format string, args ...any) error { return cli.Exit(fmt.Sprintf(format, args...), exitUsage) }
 	if c.IsSet(flagPressures) && c.IsSet(flagSteps) {
 		return ro, bad("--%s and --%s exclude each other: give the pressures, or their number", flagPressures, flagSteps)
+	}
+	if c.IsSet(flagFixedSteps) {
+		for _, f := range []string{flagPressures, flagSteps} {
+			if c.IsSet(f) {
+				return ro, bad("--%s and --%s exclude each other: the fixed steps are the pressures reported", flagFixedSteps, f)
+			}
+		}
+		ro.FixedSteps, ro.Steps = c.Int(flagFixedSteps), 0
+		if ro.FixedSteps < 1 || ro.FixedSteps > mbal.MaxFixedSteps {
+			return ro, bad("--%s: %d, want a number of steps from 1 to %d", flagFixedSteps, ro.FixedSteps, mbal.MaxFixedSteps)
+		}
+		return ro, nil
 	}
 	if c.IsSet(flagSteps) {
 		ro.Steps = c.Int(flagSteps)
@@ -80,80 +98,104 @@ func recoverOptions(c *cli.Context, o *options, st *study.Study) (mbal.RecoverOp
 	return ro, nil
 }
 
-// recoverReport runs the depletion of the study's reservoir with ro, and the
-// other bound of condensate recovery (mobile or immobile condensate) for the
-// summary, and warns when the condensate saturation passes the critical
-// saturation.
+// recoverReport runs the depletion of the study's reservoir with ro from
+// its initial pressure; see recoverReportAt.
 func recoverReport(o *options, st *study.Study, ro mbal.RecoverOptions) (*Report, error) {
+	return recoverReportAt(o, st, ro, false)
+}
+
+// recoverReportAt runs the depletion of the study's reservoir with ro, and
+// the other bound of condensate recovery (mobile or immobile condensate) for
+// the summary, and warns when the condensate saturation passes the critical
+// saturation. atDew starts the reservoir at the model's dew point when that
+// lies above the initial pressure (--start-at-dew-point).
+func recoverReportAt(o *options, st *study.Study, ro mbal.RecoverOptions, atDew bool) (*Report, error) {
 	res, err := reservoirOf(o, st, "recover", true)
+	if err != nil {
+		return nil, err
+	}
+	started, err := startAtDewPoint(o, st, &res, "recover", atDew)
 	if err != nil {
 		return nil, err
 	}
 	if len(st.Separator) == 0 {
 		o.warn(fmt.Sprintf("%s gives no [[separator.stage]]: the produced stream goes straight to the stock tank", st.File))
 	}
+	if ro.Pressures != nil && ro.Pressures[0] >= res.Pi {
+		return nil, cli.Exit(fmt.Sprintf("--%s: item 1 (%s) is not below the model's dew point (%s), where the reservoir starts with --%s",
+			flagPressures, pressureText(o.sys, ro.Pressures[0]), pressureText(o.sys, res.Pi), flagStartAtDew), exitUsage)
+	}
 	tr := trainOf(st, o.sys)
 	rec, err := mbal.Recover(st.Fluid, st.Z, res, tr, ro)
 	if err != nil {
 		return nil, reservoirError(st, o.sys, "depletion recovery", err)
 	}
-	other := ro
-	other.MobileLiquid = !ro.MobileLiquid
-	alt, err := mbal.Recover(st.Fluid, st.Z, res, tr, other)
-	if err != nil {
-		return nil, reservoirError(st, o.sys, "depletion recovery with the other condensate bound", err)
+	sc := res.Sc
+	if sc == 0 {
+		sc = mbal.DefaultSc
+	}
+	// The two bounds are the same depletion when the condensate never
+	// reaches its critical saturation: no liquid flows in either.
+	alt := rec
+	if rec.MaxSo > sc*(1-1e-6) || rec.CriticalP > 0 {
+		other := ro
+		other.MobileLiquid = !ro.MobileLiquid
+		other.SkipMaxSaturation = true
+		if alt, err = mbal.Recover(st.Fluid, st.Z, res, tr, other); err != nil {
+			return nil, reservoirError(st, o.sys, "depletion recovery with the other condensate bound", err)
+		}
 	}
 	mobile, immobile := rec, alt
 	if !ro.MobileLiquid {
 		mobile, immobile = alt, rec
 	}
-	sc := res.Sc
-	if sc == 0 {
-		sc = mbal.DefaultSc
-	}
 	if rec.CriticalP > 0 {
 		msg := fmt.Sprintf("the condensate saturation passes the critical condensate saturation (%.3g, reservoir.critical_condensate_saturation) at %s",
 			sc, pressureText(o.sys, rec.CriticalP))
 		if ro.MobileLiquid {
-			fmt.Fprintf(o.stderr, "recover: %s: below it the condensate above %.3g flows with the gas (--%s)\n", msg, sc, flagMobileLiquid)
+			fmt.Fprintf(o.stderr, "recover: %s: below it the condensate flows with the gas in proportion to its mobility (--%s)\n", msg, flagMobileLiquid)
 		} else {
 			o.warn(msg + fmt.Sprintf(": the condensate could flow below it, which this run leaves in the rock; --%s gives that upper bound", flagMobileLiquid))
 		}
 	}
-	return recoveryReportOf(st, o.sys, res, rec, mobile, immobile, ro.MobileLiquid, sc), nil
+	return recoveryReportOf(st, o.sys, res, rec, mobile, immobile, ro, sc, started), nil
 }
 
 // recoveryReportOf shows rec in sys. mobile and immobile are the two bounds
-// of condensate recovery (one of them rec).
-func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec, mobile, immobile *mbal.Recovery, mobileRun bool, sc float64) *Report {
+// of condensate recovery (one of them rec); started says the reservoir was
+// started at the model's dew point.
+func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec, mobile, immobile *mbal.Recovery, ro mbal.RecoverOptions, sc float64, started bool) *Report {
 	u := inPlaceUnitsOf(sys)
 	su := surfaceUnitsOf(sys)
 	pU, cU := u.press, sys.Unit(units.Compressibility)
 	ip := rec.InPlace
 	last := rec.Steps[len(rec.Steps)-1]
-	// The maximum and the highest pressure where it is reached: with mobile
-	// liquid the saturation stays on the critical one for many steps, equal
-	// to the last bits, and the plateau is reported where it begins.
-	maxSo, maxSoP := 0.0, 0.0
-	for _, s := range rec.Steps {
-		maxSo = math.Max(maxSo, s.So)
-	}
-	for _, s := range rec.Steps {
-		if maxSo > 0 && s.So >= maxSo*(1-1e-9) {
-			maxSoP = s.P
-			break
-		}
-	}
 	model := "immobile condensate: the retrograde liquid stays in the rock (lower bound of condensate recovery)"
-	if mobileRun {
-		model = "mobile condensate: the liquid above the critical saturation flows with the gas (modified depletion, upper bound of condensate recovery)"
+	if ro.MobileLiquid {
+		model = "mobile condensate: above the critical saturation the condensate flows in proportion to its mobility, from Corey relative permeabilities and Lohrenz-Bray-Clark viscosities (upper bound of condensate recovery)"
+	}
+	d := rec.Depletion
+	integration := fmt.Sprintf("adaptive, third order, tolerance %g of the condensate and the gas: %d steps below the dew point (%d taken again, shorter)",
+		d.Tolerance, d.IntegrationSteps, d.RejectedSteps)
+	var condErr, gasErr any
+	if d.Adaptive {
+		condErr, gasErr = units.Percent.FromSI(last.CondensateRFError), units.Percent.FromSI(last.SalesGasRFError)
+	} else {
+		integration = fmt.Sprintf("fixed: %d even first-order steps from the dew point (the laboratory's procedure; no error estimate)", ro.FixedSteps)
 	}
 	var critP, maxP any
 	if rec.CriticalP > 0 {
 		critP = pU.FromSI(rec.CriticalP)
 	}
-	if maxSo > 0 {
-		maxP = pU.FromSI(maxSoP)
+	if rec.MaxSo > 0 {
+		maxP = pU.FromSI(rec.MaxSoP)
+	}
+	kr := res.RelPerm
+	or := func(v, def float64) float64 {
+		if v == 0 {
+			return def
+		}
+		return v
 	}
 	lastM, lastI := mobile.Steps[len(mobile.Steps)-1], immobile.Steps[len(immobile.Steps)-1]
 	r := &Report{
@@ -161,19 +203,25 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 		Title: "depletion recovery of " + fluidName(st),
 		Fields: []Field{
 			{Column{Name: "condensate_model"}, model},
-			{Column{Name: "mobile_liquid"}, mobileRun},
+			{Column{Name: "mobile_liquid"}, ro.MobileLiquid},
+			{Column{Name: "integration"}, integration},
+			{Column{Name: "started_at_model_dew_point"}, started},
 			{Column{Name: "initial_pressure", Unit: pU}, pU.FromSI(res.Pi)},
-			{Column{Name: "dew_pressure", Unit: pU}, pU.FromSI(rec.Depletion.Dew.P)},
+			{Column{Name: "dew_pressure", Unit: pU}, pU.FromSI(d.Dew.P)},
 			{Column{Name: "abandonment_pressure", Unit: pU}, pU.FromSI(last.P)},
 			{Column{Name: "wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(ip.WetGas)},
 			{Column{Name: "sales_gas_in_place", Unit: u.gas}, u.gas.FromSI(ip.SalesGas)},
 			{Column{Name: "condensate_in_place", Unit: u.liquid}, u.liquid.FromSI(ip.Condensate)},
 			{Column{Name: "water_saturation"}, res.Sw},
 			{Column{Name: "critical_condensate_saturation"}, sc},
+			{Column{Name: "gas_relative_permeability_exponent"}, or(kr.GasExponent, mbal.DefaultGasExponent)},
+			{Column{Name: "condensate_relative_permeability_exponent"}, or(kr.CondensateExponent, mbal.DefaultCondensateExponent)},
+			{Column{Name: "gas_end_point_relative_permeability"}, or(kr.GasEndpoint, mbal.DefaultGasEndpoint)},
+			{Column{Name: "condensate_end_point_relative_permeability"}, or(kr.CondensateEndpoint, mbal.DefaultCondensateEndpoint)},
 			{Column{Name: "rock_compressibility", Unit: cU}, cU.FromSI(res.Cf)},
 			{Column{Name: "water_compressibility", Unit: cU}, cU.FromSI(res.Cw)},
 			{Column{Name: "effective_compressibility", Unit: cU}, cU.FromSI(res.EffectiveCompressibility())},
-			{Column{Name: "max_condensate_saturation"}, maxSo},
+			{Column{Name: "max_condensate_saturation"}, rec.MaxSo},
 			{Column{Name: "max_condensate_saturation_pressure", Unit: pU}, maxP},
 			{Column{Name: "critical_saturation_pressure", Unit: pU}, critP},
 			{Column{Name: "cum_wet_gas_at_abandonment", Unit: u.gas}, u.gas.FromSI(last.WetGas)},
@@ -182,10 +230,13 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 			{Column{Name: "wet_gas_recovery_at_abandonment", Unit: units.Percent}, units.Percent.FromSI(last.WetGasRF)},
 			{Column{Name: "sales_gas_recovery_at_abandonment", Unit: units.Percent}, units.Percent.FromSI(last.SalesGasRF)},
 			{Column{Name: "condensate_recovery_at_abandonment", Unit: units.Percent}, units.Percent.FromSI(last.CondensateRF)},
+			{Column{Name: "condensate_recovery_error", Unit: units.Percent}, condErr},
+			{Column{Name: "sales_gas_recovery_error", Unit: units.Percent}, gasErr},
 			{Column{Name: "condensate_recovery_at_abandonment_immobile_liquid", Unit: units.Percent}, units.Percent.FromSI(lastI.CondensateRF)},
 			{Column{Name: "condensate_recovery_at_abandonment_mobile_liquid", Unit: units.Percent}, units.Percent.FromSI(lastM.CondensateRF)},
 			{Column{Name: "condensate_left_in_reservoir", Unit: u.liquid}, u.liquid.FromSI(rec.CondensateLeft)},
 			{Column{Name: "condensate_left_in_reservoir", Unit: units.Percent}, relShare(rec.CondensateLeft, ip.Condensate)},
+			{Column{Name: "stock_tank_liquid_of_remaining_fluid_if_processed", Unit: u.liquid}, u.liquid.FromSI(rec.RemainingFluidCondensate)},
 			{Column{Name: "retrograde_liquid_in_rock", Unit: u.pore}, u.pore.FromSI(last.So * res.PV())},
 		},
 	}
@@ -205,6 +256,7 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 			{Name: "p_over_z", Unit: pU},
 			{Name: "condensate_saturation"},
 			{Name: "condensate_mobile"},
+			{Name: "condensate_flow_share"},
 		},
 	}
 	for _, s := range rec.Steps {
@@ -212,7 +264,7 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 			pU.FromSI(s.P),
 			u.gas.FromSI(s.WetGas), u.gas.FromSI(s.SalesGas), u.liquid.FromSI(s.Condensate),
 			units.Percent.FromSI(s.WetGasRF), units.Percent.FromSI(s.SalesGasRF), units.Percent.FromSI(s.CondensateRF),
-			su.cgr.of(s.CGR), s.Z2, pU.FromSI(s.PZ), s.So, s.Mobile,
+			su.cgr.of(s.CGR), s.Z2, pU.FromSI(s.PZ), s.So, s.Mobile, s.CondensateFlow,
 		})
 	}
 	r.Tables = []Table{steps}

@@ -4,49 +4,82 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
+	"math"
 	"strconv"
 	"strings"
 	"testing"
 )
 
-// TestRecoverO9 depletes the reservoir of o9.toml, which starts at its dew
-// point and has no rock or water compressibility, at the pressures of
-// pr-open.md's constant-volume depletion: the reservoir is then the CVD cell
-// scaled up, so the wet gas recovered is the cumulative produced moles, the
+// TestRecoverO9 runs the reservoir of o9.toml, which starts at its dew point
+// and has no rock or water compressibility, in fixed first-order steps: the
+// reservoir is then the laboratory's CVD cell scaled up, so the wet gas
+// recovered is deplete's cumulative produced moles in the same steps, the
 // two-phase Z is the cell's, and the condensate saturation is the liquid
-// dropout times (1 - Sw).
+// dropout times (1 - Sw). deplete itself is checked against the independent
+// CVD of pr-open.json in TestDepleteO9.
 func TestRecoverO9(t *testing.T) {
-	ref := refO9(t)
-	var ps []string
-	for _, r := range ref.CVD.Rows[1:] { // the first row is the dew point
-		ps = append(ps, strconv.FormatFloat(r.PPsia, 'g', -1, 64)+" psia")
+	const n = 7
+	doc := runJSON(t, "recover", "--fixed-steps", strconv.Itoa(n), o9Study)
+	cvdDoc := runJSON(t, "deplete", "--steps", strconv.Itoa(n), o9Study)
+	steps, cells := rows(t, doc, "steps"), rows(t, cvdDoc, "steps")
+	if len(steps) != n+1 || len(cells) != n+1 {
+		t.Fatalf("%d recovery steps and %d depletion steps, want the dew point and %d below", len(steps), len(cells), n)
 	}
-	doc := runJSON(t, "recover", "--pressures", strings.Join(ps, ", "), o9Study)
-	steps := rows(t, doc, "steps")
-	src := "pr-open.json o9.cvd (\"Constant-volume depletion at 220 degF\" in pr-open.md)"
 	const sw = 0.25 // o9.toml
-	for _, r := range ref.CVD.Rows[1:] {
-		s := rowAt(t, steps, "pressure_psia", r.PPsia)
-		at := fmt.Sprintf(" at %g psia", r.PPsia)
-		// Tolerances of TestDepleteO9 (the issue's: 0.05 % absolute, 1e-4 in Z).
-		checkAbs(t, "wet_gas_recovery_pct"+at, num(t, s, "wet_gas_recovery_pct"), r.ProducedPct, cvdPctTol, src+": cumulative produced moles")
-		checkAbs(t, "z_two_phase"+at, num(t, s, "z_two_phase"), r.ZTwoPhase, cvdZTol, src)
-		checkAbs(t, "condensate_saturation"+at, num(t, s, "condensate_saturation"), r.DropoutPct/100*(1-sw), cvdPctTol/100, src+": dropout x (1 - Sw)")
-		checkRel(t, "p_over_z"+at, num(t, s, "p_over_z_psia"), r.PPsia/num(t, s, "z_two_phase"), 1e-12, "p/Z")
+	for k, c := range cells {
+		s := steps[k]
+		at := fmt.Sprintf(" at %g psia", num(t, c, "pressure_psia"))
+		checkRel(t, "pressure_psia"+at, num(t, s, "pressure_psia"), num(t, c, "pressure_psia"), 1e-12, "the same steps")
+		checkAbs(t, "wet_gas_recovery_pct"+at, num(t, s, "wet_gas_recovery_pct"), num(t, c, "produced_pct"), 1e-9, "deplete: cumulative produced moles")
+		checkAbs(t, "z_two_phase"+at, num(t, s, "z_two_phase"), num(t, c, "z_two_phase"), 1e-12, "deplete")
+		checkAbs(t, "condensate_saturation"+at, num(t, s, "condensate_saturation"), num(t, c, "liquid_dropout_pct")/100*(1-sw), 1e-12, "deplete: dropout x (1 - Sw)")
+		checkRel(t, "p_over_z"+at, num(t, s, "p_over_z_psia"), num(t, s, "pressure_psia")/num(t, s, "z_two_phase"), 1e-12, "p/Z")
 	}
-	// The last step is the abandonment pressure of o9.toml.
 	last := steps[len(steps)-1]
 	checkAbs(t, "last pressure", num(t, last, "pressure_psia"), 600, 1e-9, "o9.toml abandonment_pressure")
 	checkAbs(t, "wet_gas_recovery_at_abandonment_pct", num(t, doc, "wet_gas_recovery_at_abandonment_pct"), num(t, last, "wet_gas_recovery_pct"), 1e-12, "the last step")
+	if doc["condensate_recovery_error_pct"] != nil || !strings.Contains(doc["integration"].(string), "fixed") {
+		t.Errorf("fixed steps: error %v, integration %q; want no estimate and the fixed steps named", doc["condensate_recovery_error_pct"], doc["integration"])
+	}
+}
+
+// TestRecoverStepConverged: recover's condensate recovery at abandonment on
+// the example does not depend on the steps it reports, and lies within 0.05
+// percentage points of 1000 fixed first-order steps (the target asked of
+// it), where the 10 fixed steps of earlier versions fell 2.5 points short
+// (28.82 % against 31.34 %). Its estimated error is reported, below 0.02
+// points, and shrinks with the tolerance.
+func TestRecoverStepConverged(t *testing.T) {
+	def := runJSON(t, "recover", exampleStudy)
+	fine := runJSON(t, "recover", "--steps", "40", exampleStudy)
+	f10 := runJSON(t, "recover", "--fixed-steps", "10", exampleStudy)
+	f1000 := runJSON(t, "recover", "--fixed-steps", "1000", exampleStudy)
+	const key = "condensate_recovery_at_abandonment_pct"
+	rf := num(t, def, key)
+	t.Logf("condensate recovery: default %.4f %% (estimated error %.4f), 40 reported steps %.4f, fixed steps: 10 %.4f, 1000 %.4f",
+		rf, num(t, def, "condensate_recovery_error_pct"), num(t, fine, key), num(t, f10, key), num(t, f1000, key))
+	checkAbs(t, key, rf, num(t, f1000, key), 0.05, "recover --fixed-steps 1000")
+	checkAbs(t, key+" with 40 reported steps", num(t, fine, key), rf, 0.01, "the default's steps")
+	if d := num(t, f1000, key) - num(t, f10, key); d < 1 {
+		t.Errorf("10 fixed steps are %.3g points short of 1000: the step-size bias should show", d)
+	}
+	if e := num(t, def, "condensate_recovery_error_pct"); !(math.Abs(e) < 0.02) || e == 0 {
+		t.Errorf("condensate_recovery_error_pct = %g, want an estimate below 0.02 points", e)
+	}
+	if !strings.Contains(def["integration"].(string), "adaptive") {
+		t.Errorf("integration %q, want adaptive", def["integration"])
+	}
+	for _, k := range []string{"mobile_liquid", "immobile_liquid"} {
+		checkAbs(t, "fixed-step bound "+k, num(t, f1000, "condensate_recovery_at_abandonment_"+k+"_pct"), num(t, def, "condensate_recovery_at_abandonment_"+k+"_pct"), 0.05, "the default")
+	}
 }
 
 // TestRecoverExample checks the recovery of the example field for the
 // properties every depletion has: pressure, cumulative production and
 // recovery move one way; p/Z falls; recoveries stay within 0 and 100 %;
 // recovered volumes are fractions of the volumes in place of inplace; the
-// condensate left plus the condensate produced is about the condensate in
-// place; the mobile-condensate run recovers more condensate than the
-// immobile one.
+// condensate left plus the condensate produced is the condensate in place;
+// the mobile-condensate run recovers more condensate than the immobile one.
 func TestRecoverExample(t *testing.T) {
 	code, out, stderr := dewcell("recover", "--format", "json", exampleStudy)
 	if code != 0 {
@@ -83,6 +116,9 @@ func TestRecoverExample(t *testing.T) {
 		if mobile := s["condensate_mobile"].(bool); mobile != (so > 0.12) {
 			t.Errorf("condensate_mobile %v at saturation %g, critical 0.12", mobile, so)
 		}
+		if f := num(t, s, "condensate_flow_share"); f != 0 {
+			t.Errorf("immobile condensate: flow share %g at %g psia", f, num(t, s, "pressure_psia"))
+		}
 	}
 	// Above the dew point the produced stream is the reservoir fluid: gas,
 	// sales gas and condensate are recovered alike.
@@ -94,11 +130,16 @@ func TestRecoverExample(t *testing.T) {
 		t.Errorf("condensate recovered %g %%, sales gas %g %%: the retrograde liquid should cost condensate",
 			num(t, doc, "condensate_recovery_at_abandonment_pct"), num(t, doc, "sales_gas_recovery_at_abandonment_pct"))
 	}
-	// The condensate left in the reservoir and that produced come near the
-	// condensate in place; not exactly, because the stock-tank yield of a
-	// mixture is not the sum of its parts' yields (2.5 %, common practice,
-	// no published source: the loss is a few percent of the whole).
-	checkAbs(t, "condensate produced + left", num(t, doc, "condensate_recovery_at_abandonment_pct")+num(t, doc, "condensate_left_in_reservoir_pct"), 100, 2.5, "mole balance")
+	// In place = produced + left, by definition; the stock-tank liquid that
+	// the remaining fluid would give if processed is reported under its own
+	// name, and differs (separator yields of parts do not add up to the
+	// yield of the whole).
+	checkAbs(t, "condensate produced + left", num(t, doc, "condensate_recovery_at_abandonment_pct")+num(t, doc, "condensate_left_in_reservoir_pct"), 100, 1e-9, "definition of the condensate left")
+	checkRel(t, "condensate_left_in_reservoir_stb", num(t, doc, "condensate_left_in_reservoir_stb"),
+		num(t, doc, "condensate_in_place_stb")-num(t, doc, "cum_condensate_at_abandonment_stb"), 1e-9, "in place - produced")
+	if proc := num(t, doc, "stock_tank_liquid_of_remaining_fluid_if_processed_stb"); !(proc > 0) || proc == num(t, doc, "condensate_left_in_reservoir_stb") {
+		t.Errorf("stock_tank_liquid_of_remaining_fluid_if_processed_stb = %g, want a figure of its own", proc)
+	}
 	lo, hi := num(t, doc, "condensate_recovery_at_abandonment_immobile_liquid_pct"), num(t, doc, "condensate_recovery_at_abandonment_mobile_liquid_pct")
 	if !(hi > lo) || lo != num(t, doc, "condensate_recovery_at_abandonment_pct") {
 		t.Errorf("condensate recovery bounds %g (immobile) and %g (mobile) %%: want the mobile one higher, and the immobile one this run's", lo, hi)
@@ -111,25 +152,27 @@ func TestRecoverExample(t *testing.T) {
 	}
 	mob := decodeJSON(t, out)
 	checkRel(t, "--mobile-liquid condensate recovery", num(t, mob, "condensate_recovery_at_abandonment_pct"), hi, 1e-12, "the mobile bound of the default run")
-	if strings.Contains(stderr, "warning: the condensate saturation") || !strings.Contains(stderr, "flows with the gas") {
+	if strings.Contains(stderr, "warning: the condensate saturation") || !strings.Contains(stderr, "flows with the gas in proportion to its mobility") {
 		t.Errorf("--mobile-liquid: standard error %q; want a note that the liquid flows, not a warning", stderr)
 	}
 	// Until liquid first flows the two runs are the same depletion, so the
-	// liquid flows from the step where the immobile run first passes the
-	// critical saturation. A step flows exactly when its saturation sits on
-	// the critical one (the excess went with the gas); once revaporization
-	// takes it below, it stops.
+	// first reported pressure above the critical saturation is the same.
 	checkRel(t, "--mobile-liquid critical saturation pressure", num(t, mob, "critical_saturation_pressure_psia"), num(t, doc, "critical_saturation_pressure_psia"), 1e-12, "the immobile run")
-	for _, s := range rows(t, mob, "steps") {
-		onCritical := num(t, s, "condensate_saturation") >= 0.12*(1-1e-9)
-		if flows := s["condensate_mobile"] == true; flows != onCritical {
-			t.Errorf("--mobile-liquid: at %g psia saturation %g and mobile %v", num(t, s, "pressure_psia"), num(t, s, "condensate_saturation"), flows)
+	// The condensate flows where, and only where, it is above its critical
+	// saturation, and so holds less of the pore space than when immobile.
+	flowed := false
+	for k, s := range rows(t, mob, "steps") {
+		so, f := num(t, s, "condensate_saturation"), num(t, s, "condensate_flow_share")
+		if (f > 0) != (so > 0.12) {
+			t.Errorf("--mobile-liquid: at %g psia saturation %g and flow share %g", num(t, s, "pressure_psia"), so, f)
+		}
+		flowed = flowed || f > 0
+		if im := num(t, steps[k], "condensate_saturation"); so > im+1e-12 {
+			t.Errorf("--mobile-liquid: saturation %g at %g psia above the immobile run's %g", so, num(t, s, "pressure_psia"), im)
 		}
 	}
-	for _, s := range rows(t, mob, "steps") {
-		if so := num(t, s, "condensate_saturation"); so > 0.12+1e-6 {
-			t.Errorf("--mobile-liquid: saturation %g at %g psia, above the critical 0.12 that flows", so, num(t, s, "pressure_psia"))
-		}
+	if !flowed {
+		t.Error("--mobile-liquid: no condensate flowed")
 	}
 }
 
@@ -190,6 +233,9 @@ func TestRecoverBadInput(t *testing.T) {
 		{[]string{"--pressures", "3000", exampleStudy}, []string{"--pressures: item 1", "missing unit"}},
 		{[]string{"--steps", "0", exampleStudy}, []string{"--steps", "from 1 to"}},
 		{[]string{"--steps", "3", "--pressures", "3000 psia", exampleStudy}, []string{"--pressures and --steps"}},
+		{[]string{"--fixed-steps", "3", "--steps", "4", exampleStudy}, []string{"--fixed-steps and --steps"}},
+		{[]string{"--fixed-steps", "3", "--pressures", "3000 psia", exampleStudy}, []string{"--fixed-steps and --pressures"}},
+		{[]string{"--fixed-steps", "1001", exampleStudy}, []string{"--fixed-steps", "from 1 to 1000"}},
 		{[]string{noAbandon}, []string{noAbandon, "reservoir.abandonment_pressure", "missing"}},
 	}
 	checkBadInput(t, "recover", cases)

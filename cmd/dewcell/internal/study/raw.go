@@ -25,6 +25,14 @@ type fileStudy struct {
 	Standard  *fileStandard  `toml:"standard_conditions"`
 	Surface   *fileSurface   `toml:"surface"`
 	History   []fileHistory  `toml:"history"`
+	RelPerm   *fileRelPerm   `toml:"relative_permeability"`
+}
+
+type fileRelPerm struct {
+	GasExponent        value `toml:"gas_exponent"`
+	CondensateExponent value `toml:"condensate_exponent"`
+	GasEndpoint        value `toml:"gas_endpoint"`
+	CondensateEndpoint value `toml:"condensate_endpoint"`
 }
 
 type fileReservoir struct {
@@ -39,6 +47,7 @@ type fileReservoir struct {
 	CriticalCondensate   value `toml:"critical_condensate_saturation"`
 	RockCompressibility  value `toml:"rock_compressibility"`
 	WaterCompressibility value `toml:"water_compressibility"`
+	WaterFVF             value `toml:"water_formation_volume_factor"`
 }
 
 type fileFluid struct {

@@ -39,6 +39,9 @@ type Study struct {
 	Surface *Surface
 	// History holds the [[history]] rows in file order; nil when not given.
 	History []HistoryRow
+	// RelPerm holds [relative_permeability]; a value not given is 0 (the
+	// default).
+	RelPerm RelPerm
 
 	// Atmospheric is the atmospheric pressure, Pa, that converts gauge
 	// pressures (1 atm unless the study sets one).
@@ -67,6 +70,16 @@ type Reservoir struct {
 	CriticalCondensateSaturation float64
 	RockCompressibility          float64 // 1/Pa
 	WaterCompressibility         float64 // 1/Pa
+	// WaterFVF is the water formation volume factor, reservoir volume per
+	// volume at standard conditions; 0 when not given.
+	WaterFVF float64
+}
+
+// RelPerm holds the Corey exponents and end points of the gas and
+// condensate relative permeabilities.
+type RelPerm struct {
+	GasExponent, CondensateExponent float64
+	GasEndpoint, CondensateEndpoint float64
 }
 
 // A Stage is one separator stage.
@@ -214,6 +227,7 @@ func Parse(name string, data []byte) (*Study, error) {
 	r.lab(s, f.Lab, filepath.Dir(name))
 	r.surface(s, f.Surface)
 	r.history(s, f.History)
+	r.relPerm(s, f.RelPerm)
 	if r.err != nil {
 		return nil, r.err
 	}
@@ -327,6 +341,22 @@ func (r *reader) reservoir(s *Study, f *fileReservoir) {
 	}
 	res.RockCompressibility, _ = r.quantity("reservoir.rock_compressibility", f.RockCompressibility, units.Compressibility, false)
 	res.WaterCompressibility, _ = r.quantity("reservoir.water_compressibility", f.WaterCompressibility, units.Compressibility, false)
+	// a ratio of volumes, like reservoir barrels per stock-tank barrel; real
+	// formation water lies within a few per cent of 1, and the range catches
+	// a value in other units (common practice, no published source)
+	res.WaterFVF, _ = r.between("reservoir.water_formation_volume_factor", f.WaterFVF,
+		"a water formation volume factor (reservoir volume per volume at standard conditions, such as 1.02)", false, 0.8, 1.5, false, false)
+}
+
+func (r *reader) relPerm(s *Study, f *fileRelPerm) {
+	if f == nil {
+		return
+	}
+	k := &s.RelPerm
+	k.GasExponent, _ = r.between("relative_permeability.gas_exponent", f.GasExponent, "a Corey exponent", false, 1, 10, false, false)
+	k.CondensateExponent, _ = r.between("relative_permeability.condensate_exponent", f.CondensateExponent, "a Corey exponent", false, 1, 10, false, false)
+	k.GasEndpoint, _ = r.between("relative_permeability.gas_endpoint", f.GasEndpoint, "an end-point relative permeability", false, 0, 1, true, false)
+	k.CondensateEndpoint, _ = r.between("relative_permeability.condensate_endpoint", f.CondensateEndpoint, "an end-point relative permeability", false, 0, 1, true, false)
 }
 
 func (r *reader) separator(s *Study, f *fileSeparator) {

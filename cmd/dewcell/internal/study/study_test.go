@@ -63,6 +63,27 @@ func edit(t *testing.T, old, new string) string {
 	return strings.Replace(base, old, new, 1)
 }
 
+// TestReservoirExtras: the optional water formation volume factor and the
+// [relative_permeability] section are read as given; absent, they are 0
+// (the documented defaults apply later).
+func TestReservoirExtras(t *testing.T) {
+	st, err := Parse("base.toml", []byte(edit(t, "porosity = 0.17", "porosity = 0.17\nwater_formation_volume_factor = 1.03")+
+		"\n[relative_permeability]\ngas_exponent = 2.5\ncondensate_exponent = 3\ngas_endpoint = 0.8\ncondensate_endpoint = 0.4\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if st.Reservoir.WaterFVF != 1.03 || st.RelPerm != (RelPerm{GasExponent: 2.5, CondensateExponent: 3, GasEndpoint: 0.8, CondensateEndpoint: 0.4}) {
+		t.Errorf("water FVF %g, relative permeability %+v", st.Reservoir.WaterFVF, st.RelPerm)
+	}
+	st, err = Parse("base.toml", []byte(base))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if st.Reservoir.WaterFVF != 0 || st.RelPerm != (RelPerm{}) {
+		t.Errorf("absent: water FVF %g, relative permeability %+v", st.Reservoir.WaterFVF, st.RelPerm)
+	}
+}
+
 func TestBaseIsValid(t *testing.T) {
 	st, err := Parse("base.toml", []byte(base))
 	if err != nil {
@@ -154,6 +175,12 @@ var badStudies = []struct {
 	{"depletion without unit", `pressures = ["4000 psia", "3000 psia", "2000 psia"]`, `pressures = [4000, 3000]`, "depletion.pressures[1]", "no unit"},
 	{"lab file missing", "[[separator.stage]]", "[lab]\ncce = \"no-such-file.csv\"\n[[separator.stage]]", "lab.cce", "no-such-file.csv"},
 	{"gauge atmospheric pressure", "[[separator.stage]]", "[standard_conditions]\natmospheric_pressure = \"0 psig\"\n[[separator.stage]]", "standard_conditions.atmospheric_pressure", "gauge"},
+	{"water FVF with a unit", "porosity = 0.17", "porosity = 0.17\nwater_formation_volume_factor = \"1.02 rb/STB\"", "reservoir.water_formation_volume_factor", "bare number"},
+	{"water FVF out of range", "porosity = 0.17", "porosity = 0.17\nwater_formation_volume_factor = 5.6", "reservoir.water_formation_volume_factor", "out of range"},
+	{"relative permeability exponent below 1", "[[separator.stage]]", "[relative_permeability]\ngas_exponent = 0.5\n[[separator.stage]]", "relative_permeability.gas_exponent", "out of range"},
+	{"relative permeability end point above 1", "[[separator.stage]]", "[relative_permeability]\ncondensate_endpoint = 1.3\n[[separator.stage]]", "relative_permeability.condensate_endpoint", "out of range"},
+	{"relative permeability end point zero", "[[separator.stage]]", "[relative_permeability]\ngas_endpoint = 0\n[[separator.stage]]", "relative_permeability.gas_endpoint", "out of range"},
+	{"relative permeability unknown key", "[[separator.stage]]", "[relative_permeability]\ngas_exponant = 2\n[[separator.stage]]", "relative_permeability.gas_exponant", "condensate_endpoint, condensate_exponent, gas_endpoint, gas_exponent"},
 	{"TOML syntax", "porosity = 0.17", "porosity = = 0.17", "reservoir.porosity", "line 8"},
 	{"table where a value goes", "porosity = 0.17", "porosity = 0.17\n[reservoir.temperature]\nvalue = 1", "", "reservoir.temperature"},
 }
