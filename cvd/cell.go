@@ -66,6 +66,8 @@ type cell struct {
 	fPrev   []float64 // the iteration before in advance: s(b) − s_end
 	gPrev   []float64 // and s(b)
 	flashes int       // flashes made, for the benchmarks and tests
+	k       []float64 // K-values of the last two-phase flash, when hasK
+	hasK    bool
 	// toOil is the fraction of each component of the feed that the
 	// separator train sends to the stock tank, and oil0 and gas0 the moles
 	// of stock-tank oil and surface gas per mole of feed; nil without a
@@ -76,7 +78,7 @@ type cell struct {
 
 func newCell(fl *eos.Fluid, t float64, o *DepletionOptions) *cell {
 	n := fl.N()
-	return &cell{fl: fl, t: t, o: o, f: eos.NewFlasher(fl, o.Settings),
+	return &cell{fl: fl, t: t, o: o, f: eos.NewFlasher(fl, o.Settings), k: make([]float64, n),
 		zc: make([]float64, n), trial: make([]float64, n), sEnd: make([]float64, n), avg: make([]float64, n), guess: make([]float64, n), fPrev: make([]float64, n), gPrev: make([]float64, n)}
 }
 
@@ -99,8 +101,25 @@ func (c *cell) flash(p float64, n []float64) (total, vol float64, err error) {
 		c.zc[i] = v / total
 	}
 	c.flashes++
-	if err := c.f.Flash(&c.res, c.t, p, c.zc); err != nil {
+	// from the K-values of the last two-phase flash: the steps and the
+	// iterations of a step flash nearly the same contents at nearly the
+	// same pressure
+	if c.hasK {
+		err = c.f.FlashFrom(&c.res, c.t, p, c.zc, c.k)
+	} else {
+		err = c.f.Flash(&c.res, c.t, p, c.zc)
+	}
+	if err != nil {
 		return 0, 0, fmt.Errorf("cvd: flash of the cell at %.6g Pa: %w", p, err)
+	}
+	c.hasK = c.res.Phases == 2
+	if c.hasK {
+		for i := range c.k {
+			c.k[i] = c.res.Y[i] / c.res.X[i]
+			if !(c.k[i] > 0) || math.IsInf(c.k[i], 0) {
+				c.hasK = false
+			}
+		}
 	}
 	if c.res.Phases == 2 {
 		vol = total * (c.res.Beta*c.res.V.V + (1-c.res.Beta)*c.res.L.V)

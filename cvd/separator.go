@@ -107,6 +107,9 @@ type Separator struct {
 	res   eos.FlashResult
 	feed  []float64
 	gas   []float64
+	// stageK holds per stage the K-values of its last two-phase flash
+	// (nil when it had none); the next Separate starts from them.
+	stageK [][]float64
 }
 
 // NewSeparator checks the train and returns a Separator for fluid fl.
@@ -119,7 +122,23 @@ func NewSeparator(fl *eos.Fluid, train Train, s *eos.Settings) (*Separator, erro
 	return &Separator{
 		fl: fl, train: train, f: eos.NewFlasher(fl, s),
 		feed: make([]float64, fl.N()), gas: make([]float64, fl.N()),
+		stageK: make([][]float64, len(train.Stages)+1),
 	}, nil
+}
+
+// keepK keeps the K-values of stage k's flash in s.res for the next
+// Separate, or forgets them when the stage was one phase.
+func (s *Separator) keepK(k int) {
+	if s.res.Phases != 2 {
+		s.stageK[k] = nil
+		return
+	}
+	if s.stageK[k] == nil {
+		s.stageK[k] = make([]float64, s.fl.N())
+	}
+	for i := range s.stageK[k] {
+		s.stageK[k][i] = s.res.Y[i] / s.res.X[i]
+	}
 }
 
 // Separate flashes one mole of well stream z through the train: each stage is
@@ -144,9 +163,19 @@ func (s *Separator) Separate(z []float64) (SeparatorResult, error) {
 			r.Stages = append(r.Stages, sr)
 			continue
 		}
-		if err := s.f.Flash(&s.res, st.T, st.P, s.feed); err != nil {
+		// from the K-values this stage had the last time it split in two: a
+		// train is run again and again on similar streams
+		k := s.stageK[len(r.Stages)]
+		var err error
+		if k != nil {
+			err = s.f.FlashFrom(&s.res, st.T, st.P, s.feed, k)
+		} else {
+			err = s.f.Flash(&s.res, st.T, st.P, s.feed)
+		}
+		if err != nil {
 			return r, fmt.Errorf("separator stage at %g K, %g Pa: %w", st.T, st.P, err)
 		}
+		s.keepK(len(r.Stages))
 		gasFrac := s.res.Beta
 		if s.res.Phases == 1 {
 			if s.res.Single == eos.Vapour {

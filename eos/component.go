@@ -91,6 +91,8 @@ type Fluid struct {
 	pc    []float64
 	omega []float64
 	vc    []float64 // critical volume for viscosity, m³/mol: Vc, or estimateVc when Vc is 0
+
+	crit *critMemo // the last few answers of VLCritical
 }
 
 // Errors returned by NewFluid, wrapped with the offending component.
@@ -123,6 +125,7 @@ func NewFluid(comps []Component, kij []float64, opt Options) (*Fluid, error) {
 		pc:    make([]float64, n),
 		omega: make([]float64, n),
 		vc:    make([]float64, n),
+		crit:  new(critMemo),
 	}
 	seen := make(map[string]bool, n)
 	for i, c := range comps {

@@ -3,6 +3,7 @@ package eos
 import (
 	"math"
 	"sort"
+	"sync"
 )
 
 // Critical point of a mixture by the criteria of Gibbs in the form of
@@ -491,10 +492,53 @@ func (f *Fluid) pressure(ts *tstate, t, v float64, x []float64) float64 {
 // points Criticals finds, the one of largest molar volume (a critical point
 // between two dense phases lies at a smaller volume). ok is false when
 // Criticals finds none.
+//
+// The fluid remembers the answers for its last few compositions (a
+// depletion, its separator and its saturation point ask for the same feed
+// many times over).
 func VLCritical(fl *Fluid, z []float64) (cp CriticalPoint, ok bool, err error) {
+	if cp, ok, found := fl.crit.get(z); found {
+		return cp, ok, nil
+	}
 	cps, err := Criticals(fl, z)
-	if err != nil || len(cps) == 0 {
+	if err != nil {
 		return CriticalPoint{}, false, err
 	}
-	return cps[len(cps)-1], true, nil
+	if len(cps) > 0 {
+		cp, ok = cps[len(cps)-1], true
+	}
+	fl.crit.put(z, cp, ok)
+	return cp, ok, nil
+}
+
+// critMemo remembers the vapour–liquid critical points of a fluid's last
+// few compositions. It is safe for concurrent use.
+type critMemo struct {
+	mu      sync.Mutex
+	entries [4]struct {
+		z  []float64
+		cp CriticalPoint
+		ok bool
+	}
+	next int
+}
+
+func (m *critMemo) get(z []float64) (CriticalPoint, bool, bool) {
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	for _, e := range m.entries {
+		if e.z != nil && sameVector(e.z, z) {
+			return e.cp, e.ok, true
+		}
+	}
+	return CriticalPoint{}, false, false
+}
+
+func (m *critMemo) put(z []float64, cp CriticalPoint, ok bool) {
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	e := &m.entries[m.next]
+	e.z = append(e.z[:0], z...)
+	e.cp, e.ok = cp, ok
+	m.next = (m.next + 1) % len(m.entries)
 }

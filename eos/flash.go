@@ -104,6 +104,56 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 	return nil
 }
 
+// FlashFrom is Flash started from the K-values k (K_i = y_i/x_i, as of a
+// two-phase flash at nearby conditions): the split is converged from them
+// without the stability test and without the test of the split, for a path
+// of flashes along which the phases change slowly (the steps of a
+// depletion, a separator train run again on a similar stream). It is
+// accepted when it converges to a vapour fraction inside (0, 1) with a
+// Gibbs energy below the feed's; otherwise, or when k is not positive for a
+// component present, FlashFrom does the full Flash. A split accepted so is
+// not tested for a third phase: ThreePhase is false.
+func (f *Flasher) FlashFrom(dst *FlashResult, t, p float64, z, k []float64) error {
+	w := f.w
+	w.fl.checkLen(z)
+	w.fl.checkLen(k)
+	if len(dst.X) != w.n {
+		dst.X = make([]float64, w.n)
+		dst.Y = make([]float64, w.n)
+	}
+	if !validState(t, p) {
+		return &SolveError{Op: "Flash", Err: ErrBadState}
+	}
+	for i, zi := range z {
+		w.lnK[i] = 0
+		if zi > 0 {
+			if !(k[i] > 0) || math.IsInf(k[i], 0) {
+				return f.Flash(dst, t, p, z)
+			}
+			w.lnK[i] = math.Log(k[i])
+		}
+	}
+	w.fl.setT(&w.ts, t)
+	w.evals = 0
+	beta, iter, res, ok := w.split(t, p, z, true)
+	if ok && beta > 0 && beta < 1 {
+		g := w.splitGibbs(z, beta)
+		w.fl.evalPhase(&w.feed, &w.ts, p, z, rootMinG, 0)
+		gz := 0.0
+		for i, zi := range z {
+			if zi > 0 {
+				gz += zi * (math.Log(zi) + w.feed.lnphi[i])
+			}
+		}
+		if g < gz-1e-12*(1+math.Abs(gz)) {
+			w.twoPhase(dst, t, p, z, beta, iter, res)
+			dst.ThreePhase = false
+			return nil
+		}
+	}
+	return f.Flash(dst, t, p, z)
+}
+
 // verifySplit tests the converged split in w.x and w.y (vapour fraction
 // beta, residual res) for stability against its own tangent plane, the
 // test by which Michelsen (1982b) accepts a phase split: a trial phase of

@@ -156,3 +156,57 @@ func TestFlashWorkIsBounded(t *testing.T) {
 		t.Errorf("%d evaluations of the split, want at most 60", f.w.evals)
 	}
 }
+
+// TestFlashFromAgreesWithFlash: a flash started from the K-values of a flash
+// 3 % higher in pressure (the step of a depletion) lands on the split the
+// full flash finds, to the flash tolerance; started from K-values that
+// belong to no split there (all K = 1.5, which Rachford–Rice cannot solve)
+// it falls back to the full flash; and it allocates nothing.
+func TestFlashFromAgreesWithFlash(t *testing.T) {
+	for _, c := range benchCases(t) {
+		f, g := NewFlasher(c.fl, nil), NewFlasher(c.fl, nil)
+		var a, b, hot FlashResult
+		k := make([]float64, c.fl.N())
+		p := c.p
+		if err := f.Flash(&a, c.t, p, c.z); err != nil || a.Phases != 2 {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		for step := 0; step < 8; step++ {
+			for i := range k {
+				k[i] = a.Y[i] / a.X[i]
+			}
+			p *= 0.97
+			if err := f.FlashFrom(&hot, c.t, p, c.z, k); err != nil {
+				t.Fatalf("%s at %g psia: %v", c.name, p/psi, err)
+			}
+			if err := g.Flash(&b, c.t, p, c.z); err != nil {
+				t.Fatalf("%s at %g psia: %v", c.name, p/psi, err)
+			}
+			if hot.Phases != b.Phases || math.Abs(hot.Beta-b.Beta) > 1e-10 {
+				t.Errorf("%s at %g psia: from K: %d phases, vapour fraction %.12g; full flash: %d, %.12g", c.name, p/psi, hot.Phases, hot.Beta, b.Phases, b.Beta)
+			}
+			for i := range b.X {
+				if math.Abs(hot.X[i]-b.X[i]) > 1e-9*b.X[i]+1e-15 {
+					t.Errorf("%s at %g psia: x_%d %g from K, %g full", c.name, p/psi, i, hot.X[i], b.X[i])
+					break
+				}
+			}
+			a, hot = hot, a
+		}
+		for i := range k {
+			k[i] = 1.5
+		}
+		if err := f.FlashFrom(&hot, c.t, c.p, c.z, k); err != nil || hot.Phases != 2 {
+			t.Errorf("%s: from K = 1.5: %v, %d phases", c.name, err, hot.Phases)
+		}
+		if err := g.Flash(&b, c.t, c.p, c.z); err != nil || math.Abs(hot.Beta-b.Beta) > 1e-10 {
+			t.Errorf("%s: from K = 1.5: vapour fraction %g, full flash %g (%v)", c.name, hot.Beta, b.Beta, err)
+		}
+		for i := range k {
+			k[i] = a.Y[i] / a.X[i]
+		}
+		if n := testing.AllocsPerRun(50, func() { f.FlashFrom(&hot, c.t, c.p*0.97, c.z, k) }); n != 0 {
+			t.Errorf("%s: FlashFrom allocates %g times", c.name, n)
+		}
+	}
+}
