@@ -395,7 +395,7 @@ func (c *cell) maxDropout(hist []stepRecord) (float64, float64, error) {
 	}
 	p, d := brentMin(f, lo, hi, best.p, -best.dropout, 1e-2*(hi-lo))
 	if ferr != nil {
-		return 0, 0, fmt.Errorf("cvd: search for the maximum liquid dropout: %w", ferr)
+		return 0, 0, fmt.Errorf("search for the maximum liquid dropout: %w", ferr)
 	}
 	return -d, p, nil
 }

@@ -29,7 +29,7 @@ type FlowState struct {
 // ErrStepNoConvergence: a step of the continuous depletion
 // did not settle on a produced amount and stream; Deplete retries it with a
 // smaller step and reports it only if that fails too.
-var ErrStepNoConvergence = errors.New("cvd: depletion step did not converge")
+var ErrStepNoConvergence = errors.New("depletion step did not converge")
 
 // cellState is the cell at one pressure after the fluid that no longer fits
 // has been produced: per mole of fluid initially in the cell.
@@ -86,7 +86,7 @@ func newCell(fl *eos.Fluid, t float64, o *DepletionOptions) *cell {
 func (c *cell) volume(p float64) (float64, error) {
 	v := c.v0 * (1 - c.o.PoreCompressibility*(c.start-p))
 	if !(v > 0) {
-		return 0, fmt.Errorf("%w: pore compressibility %g 1/Pa shrinks the cell to nothing at %.6g Pa", ErrBadOptions, c.o.PoreCompressibility, p)
+		return 0, &eos.StateError{What: "the depletion", T: c.t, P: p, Err: fmt.Errorf("%w: pore compressibility %g 1/Pa shrinks the cell to nothing", ErrBadOptions, c.o.PoreCompressibility)}
 	}
 	return v, nil
 }
@@ -110,7 +110,7 @@ func (c *cell) flash(p float64, n []float64) (total, vol float64, err error) {
 		err = c.f.Flash(&c.res, c.t, p, c.zc)
 	}
 	if err != nil {
-		return 0, 0, fmt.Errorf("cvd: flash of the cell at %.6g Pa: %w", p, err)
+		return 0, 0, &eos.StateError{What: "flash of the cell", T: c.t, P: p, Err: err}
 	}
 	c.hasK = c.res.Phases == 2
 	if c.hasK {
@@ -144,7 +144,7 @@ func (c *cell) liquidFlow(fs FlowState) (float64, error) {
 	}
 	f := c.o.LiquidFlow(fs)
 	if !(f >= 0 && f <= 1) {
-		return 0, fmt.Errorf("%w: the liquid flow gives %g at %.6g Pa and liquid fraction %g, want 0 to 1", ErrBadOptions, f, fs.P, fs.LiquidFraction)
+		return 0, &eos.StateError{What: "the liquid flow", T: c.t, P: fs.P, Err: fmt.Errorf("%w: the liquid flow gives %g at liquid fraction %g, want 0 to 1", ErrBadOptions, f, fs.LiquidFraction)}
 	}
 	return f, nil
 }
@@ -255,7 +255,7 @@ func (c *cell) step(a *cellState, p float64) (*cellState, float64, error) {
 	if c.res.Phases != 2 {
 		removed := total - vCell/b.gas.V
 		if removed < 0 {
-			return nil, 0, fmt.Errorf("%w: at %.6g Pa the single-phase cell contents shrink below the cell volume", ErrNotDew, p)
+			return nil, 0, &eos.StateError{What: "the depletion", T: c.t, P: p, Err: fmt.Errorf("%w: the single-phase cell contents shrink below the cell volume", ErrNotDew)}
 		}
 		for i := range b.n {
 			b.n[i] = (total - removed) * c.zc[i]
@@ -264,7 +264,7 @@ func (c *cell) step(a *cellState, p float64) (*cellState, float64, error) {
 		return b, removed, nil
 	}
 	if excess < 0 {
-		return nil, 0, fmt.Errorf("%w: at %.6g Pa the cell contents fill %.6g of the cell volume; no gas can be removed", ErrNotDew, p, vol/vCell)
+		return nil, 0, &eos.StateError{What: "the depletion", T: c.t, P: p, Err: fmt.Errorf("%w: the cell contents fill %.6g of the cell volume; no gas can be removed", ErrNotDew, vol/vCell)}
 	}
 	nV, nL := total*b.beta, total*(1-b.beta)
 	vL, vV := b.liq.V, b.gas.V
@@ -296,7 +296,7 @@ func (c *cell) step(a *cellState, p float64) (*cellState, float64, error) {
 	}
 	outL, outV := f*excess/vL, (1-f)*excess/vV
 	if outV > nV || outL > nL {
-		return nil, 0, fmt.Errorf("%w: at %.6g Pa removing the excess volume would take more of a phase than the cell holds", ErrNotDew, p)
+		return nil, 0, &eos.StateError{What: "the depletion", T: c.t, P: p, Err: fmt.Errorf("%w: removing the excess volume would take more of a phase than the cell holds", ErrNotDew)}
 	}
 	nL, nV = nL-outL, nV-outV
 	for i := range b.n {
@@ -357,7 +357,7 @@ func (c *cell) advance(a *cellState, pr *past, sGuess []float64, dnGuess, p floa
 		for i, m := range c.avg {
 			c.trial[i] = a.n[i] - dN*m
 			if c.trial[i] < 0 {
-				return nil, 0, nil, fmt.Errorf("%w: at %.6g Pa the step would produce more %s than the cell holds", ErrStepNoConvergence, p, c.fl.Component(i).Name)
+				return nil, 0, nil, &eos.StateError{What: "the depletion step", T: c.t, P: p, Err: fmt.Errorf("%w: the step would produce more %s than the cell holds", ErrStepNoConvergence, c.fl.Component(i).Name)}
 			}
 		}
 		total, vol, err := c.flash(p, c.trial)
@@ -424,7 +424,7 @@ func (c *cell) advance(a *cellState, pr *past, sGuess []float64, dnGuess, p floa
 			return b, dN, c.avg, nil
 		}
 	}
-	return nil, 0, nil, fmt.Errorf("%w: the step to %.6g Pa did not settle in %d flashes", ErrStepNoConvergence, p, maxIter)
+	return nil, 0, nil, &eos.StateError{What: "the depletion step", T: c.t, P: p, Err: fmt.Errorf("%w: it did not settle in %d flashes", ErrStepNoConvergence, maxIter)}
 }
 
 // mean sets c.avg to the mean stream of a step of dN moles from a, its end

@@ -149,10 +149,10 @@ const atSaturation = 1e-8
 
 // Errors of Deplete and Expand, wrapped with the detail.
 var (
-	ErrBadOptions = errors.New("cvd: invalid experiment options")
-	ErrNotDew     = errors.New("cvd: depletion cannot continue")
+	ErrBadOptions = errors.New("invalid experiment options")
+	ErrNotDew     = errors.New("depletion cannot continue")
 	// ErrBubblePoint: the feed has a bubble point, and DewOnly was set.
-	ErrBubblePoint = errors.New("cvd: the feed has a bubble point, not a dew point")
+	ErrBubblePoint = errors.New("the feed has a bubble point, not a dew point")
 )
 
 // Deplete simulates a constant-volume depletion of feed z at t (K), the
@@ -211,11 +211,11 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 	}
 	sat, err := eos.NewSaturator(fl, o.Settings).Upper(t, z)
 	if err != nil {
-		return nil, fmt.Errorf("cvd: saturation point at %.6g K: %w", t, err)
+		return nil, &eos.StateError{What: "saturation point", T: t, Err: err}
 	}
 	pd := sat.P
 	if o.DewOnly && sat.Type == eos.Bubble {
-		return &Depletion{T: t, Dew: sat}, fmt.Errorf("%w at %.6g K (%.6g Pa)", ErrBubblePoint, t, pd)
+		return &Depletion{T: t, Dew: sat}, &eos.StateError{What: "saturation point", T: t, P: pd, Err: ErrBubblePoint}
 	}
 	if o.Start > pd && o.Start <= pd*(1+atSaturation) {
 		o.Start = 0 // the dew point itself
@@ -238,7 +238,7 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 	if sep != nil && o.Adaptive {
 		sr, err := sep.Separate(z)
 		if err != nil {
-			return nil, fmt.Errorf("cvd: surface yield of the feed: %w", err)
+			return nil, fmt.Errorf("surface yield of the feed: %w", err)
 		}
 		if sr.OilMoles > 0 && sr.GasMoles > 0 {
 			c.toOil = make([]float64, len(z))
@@ -265,10 +265,10 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 	} else {
 		total, vol, err := c.flash(c.start, z)
 		if err != nil {
-			return nil, fmt.Errorf("cvd: feed at %.6g Pa: %w", c.start, err)
+			return nil, &eos.StateError{What: "the feed at the start", T: t, P: c.start, Err: err}
 		}
 		if c.res.Phases != 1 {
-			return nil, fmt.Errorf("%w: the feed is two-phase at the start pressure %.6g Pa above the saturation pressure %.6g Pa", ErrNotDew, c.start, pd)
+			return nil, &eos.StateError{What: "the feed at the start", T: t, P: c.start, Err: fmt.Errorf("%w: two phases there, above the saturation pressure", ErrNotDew)}
 		}
 		c.v0 = vol
 		first = &cellState{vCell: vol, n: append([]float64(nil), z...)}
@@ -299,7 +299,7 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 			return d, err
 		}
 		if dn < 0 {
-			return d, fmt.Errorf("%w: at %.6g Pa the single-phase cell contents shrink below the cell volume", ErrNotDew, steps[k])
+			return d, &eos.StateError{What: "the depletion", T: t, P: steps[k], Err: fmt.Errorf("%w: the single-phase cell contents shrink below the cell volume", ErrNotDew)}
 		}
 		hist = append(hist, stepRecord{st: b, dN: dn, avg: append([]float64(nil), a.s...), report: true})
 	}
@@ -334,7 +334,7 @@ func Deplete(fl *eos.Fluid, z []float64, t float64, o DepletionOptions) (*Deplet
 		cont := hist[len(hist)-len(rest)-1:]
 		if !o.Adaptive && len(below) > 0 {
 			if cont, _, err = c.integrate(dew, below[len(below)-1:], searchTolerance, true); err != nil {
-				return d, fmt.Errorf("cvd: search for the maximum liquid dropout: %w", err)
+				return d, fmt.Errorf("search for the maximum liquid dropout: %w", err)
 			}
 		}
 		if d.MaxDropout, d.MaxDropoutP, err = c.maxDropout(cont); err != nil {
@@ -381,7 +381,7 @@ func (d *Depletion) report(c *cell, hist []stepRecord, sep *Separator, tr *Train
 			if sep != nil {
 				sr, err := sep.Separate(r.avg)
 				if err != nil {
-					return fmt.Errorf("cvd: surface yield of the stream produced at %.6g Pa: %w", r.st.p, err)
+					return &eos.StateError{What: "surface yield of the stream produced", P: r.st.p, Err: err}
 				}
 				surf.CumGas += r.dN * sr.GasVolume
 				surf.CumOil += r.dN * sr.OilVolume

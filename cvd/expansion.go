@@ -50,14 +50,14 @@ func Expand(fl *eos.Fluid, z []float64, t float64, pressures []float64, s *eos.S
 	}
 	sat, err := eos.NewSaturator(fl, s).Upper(t, z)
 	if err != nil {
-		return nil, fmt.Errorf("cvd: saturation point at %.6g K: %w", t, err)
+		return nil, &eos.StateError{What: "saturation point", T: t, Err: err}
 	}
 	e := &Expansion{T: t, Saturation: sat, VSat: sat.Feed.V}
 	f := eos.NewFlasher(fl, s)
 	var res eos.FlashResult
 	for _, p := range pressures {
 		if err := f.Flash(&res, t, p, z); err != nil {
-			return e, fmt.Errorf("cvd: flash at %.6g Pa: %w", p, err)
+			return e, &eos.StateError{What: "flash", T: t, P: p, Err: err}
 		}
 		st := ExpansionStep{P: p, VaporFraction: res.Beta}
 		var v float64

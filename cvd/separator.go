@@ -96,7 +96,7 @@ type SeparatorResult struct {
 }
 
 // ErrBadTrain reports an invalid separator train.
-var ErrBadTrain = errors.New("cvd: invalid separator train")
+var ErrBadTrain = errors.New("invalid separator train")
 
 // A Separator flashes well streams through a train, reusing one eos.Flasher.
 // Not safe for concurrent use.
@@ -124,6 +124,15 @@ func NewSeparator(fl *eos.Fluid, train Train, s *eos.Settings) (*Separator, erro
 		feed: make([]float64, fl.N()), gas: make([]float64, fl.N()),
 		stageK: make([][]float64, len(train.Stages)+1),
 	}, nil
+}
+
+// stageName names stage k (from 0) for messages: "separator stage 2", or
+// "the stock tank".
+func (s *Separator) stageName(k int) string {
+	if k == len(s.train.Stages) {
+		return "the stock tank"
+	}
+	return fmt.Sprintf("separator stage %d", k+1)
 }
 
 // keepK keeps the K-values of stage k's flash in s.res for the next
@@ -173,7 +182,7 @@ func (s *Separator) Separate(z []float64) (SeparatorResult, error) {
 			err = s.f.Flash(&s.res, st.T, st.P, s.feed)
 		}
 		if err != nil {
-			return r, fmt.Errorf("separator stage at %g K, %g Pa: %w", st.T, st.P, err)
+			return r, &eos.StateError{What: s.stageName(len(r.Stages)), T: st.T, P: st.P, Err: err}
 		}
 		s.keepK(len(r.Stages))
 		gasFrac := s.res.Beta

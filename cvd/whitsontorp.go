@@ -102,7 +102,7 @@ type BackCalc struct {
 }
 
 // ErrBadReport is wrapped by every error BackCalculate returns for invalid input.
-var ErrBadReport = errors.New("cvd: invalid CVD report")
+var ErrBadReport = errors.New("invalid CVD report")
 
 // ReportError names the field of a CVD report that is invalid and says what is
 // wrong with it. errors.Is(err, ErrBadReport) holds.
@@ -111,7 +111,7 @@ type ReportError struct {
 	Msg   string // e.g. "= 1.2, want 0 to 1"
 }
 
-func (e *ReportError) Error() string { return "cvd: CVD report: " + e.Field + " " + e.Msg }
+func (e *ReportError) Error() string { return "CVD report: " + e.Field + " " + e.Msg }
 
 // Unwrap returns ErrBadReport.
 func (e *ReportError) Unwrap() error { return ErrBadReport }

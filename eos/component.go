@@ -97,8 +97,8 @@ type Fluid struct {
 
 // Errors returned by NewFluid, wrapped with the offending component.
 var (
-	ErrBadComponent = errors.New("eos: invalid component property")
-	ErrBadKij       = errors.New("eos: invalid interaction coefficient")
+	ErrBadComponent = errors.New("invalid component property")
+	ErrBadKij       = errors.New("invalid interaction coefficient")
 )
 
 // NewFluid checks and copies its input. kij is n×n row-major and must be
@@ -109,7 +109,7 @@ func NewFluid(comps []Component, kij []float64, opt Options) (*Fluid, error) {
 		return nil, fmt.Errorf("%w: no components", ErrBadComponent)
 	}
 	if opt.Equation != PR76 && opt.Equation != PR78 {
-		return nil, fmt.Errorf("eos: unknown equation %v", opt.Equation)
+		return nil, fmt.Errorf("unknown equation %v", opt.Equation)
 	}
 	f := &Fluid{
 		comps: append([]Component(nil), comps...),
@@ -243,17 +243,17 @@ func (f *Fluid) checkLen(z []float64) {
 // length, no negative or non-finite entries, and summing to 1 within 1e-8.
 func (f *Fluid) CheckComposition(z []float64) error {
 	if len(z) != f.n {
-		return fmt.Errorf("eos: composition has %d entries for %d components", len(z), f.n)
+		return fmt.Errorf("composition has %d entries for %d components", len(z), f.n)
 	}
 	s := 0.0
 	for i, v := range z {
 		if math.IsNaN(v) || math.IsInf(v, 0) || v < 0 {
-			return fmt.Errorf("eos: mole fraction of %s = %g, want a finite value >= 0", f.comps[i].Name, v)
+			return fmt.Errorf("mole fraction of %s = %g, want a finite value >= 0", f.comps[i].Name, v)
 		}
 		s += v
 	}
 	if math.Abs(s-1) > 1e-8 {
-		return fmt.Errorf("eos: mole fractions sum to %.10g, want 1", s)
+		return fmt.Errorf("mole fractions sum to %.10g, want 1", s)
 	}
 	return nil
 }

@@ -59,7 +59,7 @@ const (
 // ErrCorrelationRange reports a correlation that gave unphysical properties
 // (Tc not above Tb, Pc not positive, ...) for its input: the fraction lies
 // outside the range the correlation was fitted to.
-var ErrCorrelationRange = errors.New("eos: correlation outside its range")
+var ErrCorrelationRange = errors.New("correlation outside its range")
 
 func (m SplitMethod) String() string {
 	switch m {

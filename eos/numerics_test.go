@@ -144,16 +144,18 @@ func TestNoDewPointAboveCricondentherm(t *testing.T) {
 	}
 }
 
-// SolveError names only what the solver measured.
+// SolveError says in words what did not succeed, for the reader of a
+// message: no package name, no iteration count (those stay in the fields).
 func TestSolveErrorMessage(t *testing.T) {
 	for _, c := range []struct {
 		e    SolveError
 		want string
 	}{
-		{SolveError{Op: "Flash", Iter: 36, Residual: 2.13e-5, Err: ErrNoConvergence}, "eos.Flash: iteration did not converge after 36 iterations (residual 2.13e-05)"},
-		{SolveError{Op: "Flash", Err: ErrBadState}, "eos.Flash: temperature or pressure not finite and positive"},
-		{SolveError{Op: "UpperSaturation", Iter: 712, Err: ErrNoSaturation}, "eos.UpperSaturation: no saturation point at this temperature after 712 iterations"},
-		{SolveError{Op: "Flash", Iter: 3, Residual: math.NaN(), Err: ErrNoConvergence}, "eos.Flash: iteration did not converge after 3 iterations"},
+		{SolveError{Op: "Flash", Iter: 36, Residual: 2.13e-5, Err: ErrNoConvergence}, "the flash: iteration did not converge"},
+		{SolveError{Op: "Flash", Err: ErrBadState}, "the flash: temperature or pressure not finite and positive"},
+		{SolveError{Op: "UpperSaturation", Iter: 712, Err: ErrNoSaturation}, "the saturation-pressure search: no saturation point at this temperature"},
+		{SolveError{Op: "LowerDewPoint", Iter: 3, Residual: math.NaN(), Err: ErrNoConvergence}, "the lower-dew-point search: iteration did not converge"},
+		{SolveError{Op: "TraceEnvelope", Err: ErrNoConvergence}, "the phase-envelope trace: iteration did not converge"},
 	} {
 		if got := c.e.Error(); got != c.want {
 			t.Errorf("got %q, want %q", got, c.want)

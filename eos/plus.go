@@ -81,7 +81,7 @@ type Characterization struct {
 }
 
 // ErrBadPlus is wrapped by every *PlusError.
-var ErrBadPlus = errors.New("eos: invalid plus-fraction characterization")
+var ErrBadPlus = errors.New("invalid plus-fraction characterization")
 
 // A PlusError reports an invalid plus fraction or characterization setting.
 // Field is the Go field name, e.g. "PlusFraction.SG" or
@@ -91,7 +91,7 @@ type PlusError struct {
 	Msg   string // what is wrong, e.g. "= 1.5, want 0.6 to 1.2"
 }
 
-func (e *PlusError) Error() string { return "eos: " + e.Field + " " + e.Msg }
+func (e *PlusError) Error() string { return e.Field + " " + e.Msg }
 
 // Unwrap returns ErrBadPlus.
 func (e *PlusError) Unwrap() error { return ErrBadPlus }

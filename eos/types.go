@@ -26,18 +26,27 @@ type SolveError struct {
 	Err      error   // ErrNoConvergence, ErrNoSaturation, ...
 }
 
-// Error names the iterations when some were made and the residual when one
-// was measured (finite and not zero): "eos.Flash: iteration did not converge
-// after 36 iterations (residual 2.13e-05)".
+// Error says what did not succeed, in words ("the flash: iteration did not
+// converge"). The iterations and the residual stay in the fields: they are
+// for diagnosis, not for the reader of a message.
 func (e *SolveError) Error() string {
-	msg := fmt.Sprintf("eos.%s: %v", e.Op, e.Err)
-	if e.Iter > 0 {
-		msg += fmt.Sprintf(" after %d iterations", e.Iter)
+	return e.What() + ": " + e.Err.Error()
+}
+
+// What names the solve in words: "the flash", "the saturation-pressure
+// search", …
+func (e *SolveError) What() string {
+	switch e.Op {
+	case "Flash":
+		return "the flash"
+	case "UpperSaturation":
+		return "the saturation-pressure search"
+	case "LowerDewPoint":
+		return "the lower-dew-point search"
+	case "TraceEnvelope":
+		return "the phase-envelope trace"
 	}
-	if e.Residual != 0 && !math.IsNaN(e.Residual) && !math.IsInf(e.Residual, 0) {
-		msg += fmt.Sprintf(" (residual %.3g)", e.Residual)
-	}
-	return msg
+	return "the " + e.Op
 }
 
 // Unwrap lets errors.Is(err, ErrNoConvergence) work.
@@ -54,13 +63,40 @@ type NearCriticalError struct {
 	Iter   int
 }
 
+// Error gives the temperatures in kelvin; a command shows them in its own
+// units from the fields.
 func (e *NearCriticalError) Error() string {
-	msg := fmt.Sprintf("eos.%s: at %.6g K the incipient phase cannot be told from the feed", e.Op, e.T)
+	msg := fmt.Sprintf("at %.6g K the incipient phase cannot be told from the feed", e.T)
 	if e.Tc > 0 {
 		msg += fmt.Sprintf(" (%.3g K from the critical temperature %.6g K)", math.Abs(e.T-e.Tc), e.Tc)
 	}
 	return msg
 }
+
+// A StateError says at which state an operation on a fluid failed. T and
+// P are in kelvin and pascal (zero when not part of the state); a command
+// shows them in its own units.
+type StateError struct {
+	What string  // what was done there: "flash of the cell", "separator stage 2", …
+	T, P float64 // K, Pa
+	Err  error
+}
+
+func (e *StateError) Error() string {
+	at := ""
+	switch {
+	case e.T > 0 && e.P > 0:
+		at = fmt.Sprintf(" at %.6g K and %.6g Pa", e.T, e.P)
+	case e.T > 0:
+		at = fmt.Sprintf(" at %.6g K", e.T)
+	case e.P > 0:
+		at = fmt.Sprintf(" at %.6g Pa", e.P)
+	}
+	return e.What + at + ": " + e.Err.Error()
+}
+
+// Unwrap returns the error at that state.
+func (e *StateError) Unwrap() error { return e.Err }
 
 // Unwrap lets errors.Is(err, ErrNearCritical) work.
 func (e *NearCriticalError) Unwrap() error { return ErrNearCritical }

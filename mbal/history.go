@@ -78,12 +78,12 @@ func HistoryFromSeries(p, z2, cumWetGas, cumWater []float64) ([]HistoryPoint, er
 // Errors of the history material balance; a *HistoryError wraps one of them.
 var (
 	// ErrHistoryShort: fewer than MinHistoryPoints points after the initial state.
-	ErrHistoryShort = errors.New("mbal: too few history points")
+	ErrHistoryShort = errors.New("too few history points")
 	// ErrHistoryValue: a value that is not finite, out of range or out of order.
-	ErrHistoryValue = errors.New("mbal: invalid history value")
+	ErrHistoryValue = errors.New("invalid history value")
 	// ErrPZNotFalling: the fitted p/Z does not fall as gas is produced, so
 	// the line has no zero crossing and no gas in place.
-	ErrPZNotFalling = errors.New("mbal: p/Z does not fall with production")
+	ErrPZNotFalling = errors.New("p/Z does not fall with production")
 )
 
 // MinHistoryPoints is the fewest history points, not counting the initial
@@ -106,7 +106,7 @@ func (e *HistoryError) Error() string {
 	if e.Index >= 0 {
 		where = fmt.Sprintf("point %d: ", e.Index)
 	}
-	return fmt.Sprintf("mbal.%s: %s%s = %g: %s (%v)", e.Func, where, e.Field, e.Value, e.Why, e.Err)
+	return fmt.Sprintf("%s: %s%s = %g: %s (%v)", e.Func, where, e.Field, e.Value, e.Why, e.Err)
 }
 
 // Unwrap makes errors.Is(err, ErrHistoryValue) and the like work.

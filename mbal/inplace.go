@@ -39,12 +39,12 @@ const DefaultSc = 0.15
 // reservoir whose initial pressure lies below the fluid's saturation
 // pressure.
 var (
-	ErrBadReservoir      = errors.New("mbal: invalid reservoir description")
-	ErrInitiallyTwoPhase = errors.New("mbal: the initial pressure is below the saturation pressure")
+	ErrBadReservoir      = errors.New("invalid reservoir description")
+	ErrInitiallyTwoPhase = errors.New("the initial pressure is below the saturation pressure")
 	// ErrNotCondensate: the fluid has a bubble point at reservoir
 	// temperature. It is an oil, whose liquid is the mobile phase; the
 	// depletion model of a gas-condensate reservoir does not apply.
-	ErrNotCondensate = errors.New("mbal: the fluid is an oil (bubble point at reservoir temperature), not a gas condensate")
+	ErrNotCondensate = errors.New("the fluid is an oil (bubble point at reservoir temperature), not a gas condensate")
 )
 
 func (r Reservoir) sc() float64 {
@@ -134,10 +134,10 @@ func InPlaceEOS(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, s *eos.Se
 	}
 	var res eos.FlashResult
 	if err := eos.NewFlasher(fl, s).Flash(&res, r.T, r.Pi, z); err != nil {
-		return nil, fmt.Errorf("mbal: reservoir fluid at the initial state: %w", err)
+		return nil, &eos.StateError{What: "the reservoir fluid at its initial state", T: r.T, P: r.Pi, Err: err}
 	}
 	if res.Phases != 1 {
-		return nil, fmt.Errorf("%w: the fluid is two-phase at %.6g Pa and %.6g K (liquid mole fraction %.3g)", ErrInitiallyTwoPhase, r.Pi, r.T, 1-res.Beta)
+		return nil, &eos.StateError{What: "the reservoir fluid at its initial state", T: r.T, P: r.Pi, Err: fmt.Errorf("%w: the fluid is two-phase there, liquid mole fraction %.3g", ErrInitiallyTwoPhase, 1-res.Beta)}
 	}
 	pp := res.V
 	if res.Single == eos.Liquid {

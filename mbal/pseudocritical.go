@@ -99,7 +99,7 @@ func (c GasCorrelation) PseudoCritical(gamma float64) (PseudoCritical, error) {
 		tR = 187 + 330*gamma - 71.5*gamma*gamma
 		pPsi = 706 - 51.7*gamma - 11.1*gamma*gamma
 	default:
-		return PseudoCritical{}, fmt.Errorf("mbal: unknown pseudo-critical correlation %d", int(c))
+		return PseudoCritical{}, fmt.Errorf("unknown pseudo-critical correlation %d", int(c))
 	}
 	if !(gamma >= MinGasGravity && gamma <= MaxGasGravity) {
 		return PseudoCritical{}, fmt.Errorf("%w: %v pseudo-criticals for gas gravity %g; fitted for %g to %g",
@@ -123,11 +123,11 @@ func (im Impurities) check() error {
 		y    float64
 	}{{"N2", im.N2}, {"CO2", im.CO2}, {"H2S", im.H2S}} {
 		if !(f.y >= 0 && f.y < 1) {
-			return fmt.Errorf("mbal: %s mole fraction %g, want at least 0 and below 1", f.name, f.y)
+			return fmt.Errorf("%s mole fraction %g, want at least 0 and below 1", f.name, f.y)
 		}
 	}
 	if s := im.Sum(); !(s < 1) {
-		return fmt.Errorf("mbal: N2 + CO2 + H2S mole fractions sum to %g, want below 1", s)
+		return fmt.Errorf("N2 + CO2 + H2S mole fractions sum to %g, want below 1", s)
 	}
 	return nil
 }
@@ -159,14 +159,14 @@ func Kay(y []float64, crit []PseudoCritical) (PseudoCritical, error) {
 	var pc PseudoCritical
 	for i, yi := range y {
 		if !(yi >= 0) || math.IsInf(yi, 0) {
-			return PseudoCritical{}, fmt.Errorf("mbal: Kay's rule: mole fraction %d is %g, want at least 0", i+1, yi)
+			return PseudoCritical{}, fmt.Errorf("Kay's rule: mole fraction %d is %g, want at least 0", i+1, yi)
 		}
 		sum += yi
 		pc.Tpc += yi * crit[i].Tpc
 		pc.Ppc += yi * crit[i].Ppc
 	}
 	if math.Abs(sum-1) > 1e-9 {
-		return PseudoCritical{}, fmt.Errorf("mbal: Kay's rule: mole fractions sum to %.12g, want 1", sum)
+		return PseudoCritical{}, fmt.Errorf("Kay's rule: mole fractions sum to %.12g, want 1", sum)
 	}
 	return pc, nil
 }
@@ -194,7 +194,7 @@ const (
 // Hydrocarbon Processing 51(5), 119–122.
 func WichertAziz(pc PseudoCritical, yCO2, yH2S float64) (PseudoCritical, error) {
 	if !(yCO2 >= 0) || !(yH2S >= 0) || math.IsInf(yCO2, 0) || math.IsInf(yH2S, 0) {
-		return PseudoCritical{}, fmt.Errorf("mbal: Wichert–Aziz: CO2 %g and H2S %g mole fractions, want at least 0", yCO2, yH2S)
+		return PseudoCritical{}, fmt.Errorf("Wichert–Aziz: CO2 %g and H2S %g mole fractions, want at least 0", yCO2, yH2S)
 	}
 	if yCO2 > WichertAzizMaxCO2 || yH2S > WichertAzizMaxH2S {
 		return PseudoCritical{}, fmt.Errorf("%w: Wichert–Aziz with CO2 %g and H2S %g; fitted up to %g CO2 and %g H2S",
@@ -225,12 +225,12 @@ func HydrocarbonGravity(gamma float64, im Impurities) (float64, error) {
 		return 0, err
 	}
 	if !(gamma > 0) || math.IsInf(gamma, 0) {
-		return 0, fmt.Errorf("mbal: gas gravity %g, want above 0", gamma)
+		return 0, fmt.Errorf("gas gravity %g, want above 0", gamma)
 	}
 	non := (im.N2*impurity("N2").M + im.CO2*impurity("CO2").M + im.H2S*impurity("H2S").M) / cvd.MolarMassAir
 	g := (gamma - non) / (1 - im.Sum())
 	if !(g > 0) {
-		return 0, fmt.Errorf("mbal: gas gravity %g is too low for its N2, CO2 and H2S (%g, %g, %g): the hydrocarbons would weigh %g",
+		return 0, fmt.Errorf("gas gravity %g is too low for its N2, CO2 and H2S (%g, %g, %g): the hydrocarbons would weigh %g",
 			gamma, im.N2, im.CO2, im.H2S, g)
 	}
 	return g, nil

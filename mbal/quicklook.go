@@ -10,7 +10,7 @@ import (
 )
 
 // ErrBadSurfaceData reports invalid separator data for the quick-look route.
-var ErrBadSurfaceData = errors.New("mbal: invalid separator data")
+var ErrBadSurfaceData = errors.New("invalid separator data")
 
 // API gravity range of Cragoe's molar-mass correlation as usually applied
 // (METHODS 5.2).
@@ -268,7 +268,7 @@ func InPlaceQuickLook(w *WellStream, hcpv, t, p float64) (*QuickLook, error) {
 	q.Tpr, q.Ppr = w.Critical.Reduced(t, p)
 	z, err := ZFactorDAK(q.Tpr, q.Ppr)
 	if err != nil {
-		return nil, fmt.Errorf("well stream at %.6g K and %.6g Pa: %w", t, p, err)
+		return nil, &eos.StateError{What: "the well stream", T: t, P: p, Err: err}
 	}
 	q.Z = z
 	std := w.Standard

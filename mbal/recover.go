@@ -221,7 +221,7 @@ func Recover(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, o RecoverOpt
 	}
 	sr, err := sep.Separate(left)
 	if err != nil {
-		return nil, fmt.Errorf("mbal: surface yield of the fluid left at abandonment: %w", err)
+		return nil, fmt.Errorf("surface yield of the fluid left at abandonment: %w", err)
 	}
 	rec.RemainingFluidCondensate = n * total * sr.OilVolume
 	return rec, nil

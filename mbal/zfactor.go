@@ -11,7 +11,7 @@ import (
 // ErrCorrelationRange reports an input outside the range over which an
 // empirical correlation was fitted. The correlations here are not
 // extrapolated: the caller sees the error and decides.
-var ErrCorrelationRange = errors.New("mbal: outside the range of the correlation")
+var ErrCorrelationRange = errors.New("outside the range of the correlation")
 
 // Fitted ranges of the Z-factor equations.
 const (
@@ -164,7 +164,7 @@ func ZFactorDAK(tpr, ppr float64) (float64, error) {
 			break
 		}
 		if n == 60 {
-			return 0, fmt.Errorf("mbal: Dranchuk–Abou-Kassem Z at Tpr = %g, Ppr = %g: %w", tpr, ppr,
+			return 0, fmt.Errorf("Dranchuk–Abou-Kassem Z at Tpr = %g, Ppr = %g: %w", tpr, ppr,
 				&eos.SolveError{Op: "ZFactorDAK", Iter: n, Residual: c, Err: eos.ErrNoConvergence})
 		}
 		hi *= 2
@@ -194,7 +194,7 @@ func ZFactorDAK(tpr, ppr float64) (float64, error) {
 		lo, flo = r, fr
 	}
 	if !found { // cannot happen: f(0) < 0 < f(hi)
-		return 0, fmt.Errorf("mbal: Dranchuk–Abou-Kassem Z at Tpr = %g, Ppr = %g: %w", tpr, ppr,
+		return 0, fmt.Errorf("Dranchuk–Abou-Kassem Z at Tpr = %g, Ppr = %g: %w", tpr, ppr,
 			&eos.SolveError{Op: "ZFactorDAK", Iter: cells, Residual: c, Err: eos.ErrNoConvergence})
 	}
 	return best, nil
@@ -204,7 +204,7 @@ func ZFactorDAK(tpr, ppr float64) (float64, error) {
 func (k dak) root(tpr, ppr, c, a, b, r0 float64) (float64, error) {
 	r, it, res, ok := k.solve(c, a, b, r0)
 	if !ok || !(r > 0) {
-		return 0, fmt.Errorf("mbal: Dranchuk–Abou-Kassem Z at Tpr = %g, Ppr = %g: %w", tpr, ppr,
+		return 0, fmt.Errorf("Dranchuk–Abou-Kassem Z at Tpr = %g, Ppr = %g: %w", tpr, ppr,
 			&eos.SolveError{Op: "ZFactorDAK", Iter: it, Residual: res, Err: eos.ErrNoConvergence})
 	}
 	return c / r, nil // Z = 0.27 Ppr/(ρr Tpr)
@@ -274,6 +274,6 @@ func ZFactorHallYarborough(tpr, ppr float64) (float64, error) {
 		}
 		y = next
 	}
-	return 0, fmt.Errorf("mbal: Hall–Yarborough Z at Tpr = %g, Ppr = %g: %w", tpr, ppr,
+	return 0, fmt.Errorf("Hall–Yarborough Z at Tpr = %g, Ppr = %g: %w", tpr, ppr,
 		&eos.SolveError{Op: "ZFactorHallYarborough", Iter: maxIter, Residual: res, Err: eos.ErrNoConvergence})
 }

@@ -316,7 +316,7 @@ func studyCommand(name, usage string, extra []cli.Flag, act func(c *cli.Context,
 			if err != nil {
 				return err
 			}
-			return act(c, o, st)
+			return userError(act(c, o, st), o.sys)
 		},
 	}
 }

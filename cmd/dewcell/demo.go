@@ -77,7 +77,7 @@ func demoCommand() *cli.Command {
 			fmt.Fprintf(o.stderr, "demo: %s (examples/%s, an invented field)\n", st.Title, examples.StudyName)
 			out, files, err := demoReports(o, st)
 			if err != nil {
-				return err
+				return userError(err, o.sys)
 			}
 			note, err := writeDemoDir(dir, files)
 			if err != nil {

@@ -115,10 +115,10 @@ func reservoirOf(o *options, st *study.Study, what string, needAbandonment bool)
 func reservoirError(st *study.Study, sys units.System, what string, err error) error {
 	switch {
 	case errors.Is(err, mbal.ErrInitiallyTwoPhase):
-		return cli.Exit(fmt.Sprintf("%s: reservoir.initial_pressure (%s): %s: %v; the reservoir must be one phase at discovery (compare dewcell satpoint): tune the fluid description to the sample, or meanwhile give --%s to start the reservoir at the model's dew point",
-			st.File, pressureText(sys, st.Reservoir.InitialPressure), what, err, flagStartAtDew), exitUsage)
+		return cli.Exit(fmt.Sprintf("%s: reservoir.initial_pressure (%s): %s: %s; the reservoir must be one phase at discovery (compare dewcell satpoint): tune the fluid description to the sample, or meanwhile give --%s to start the reservoir at the model's dew point",
+			st.File, pressureText(sys, st.Reservoir.InitialPressure), what, explain(err, sys), flagStartAtDew), exitUsage)
 	case errors.Is(err, mbal.ErrBadReservoir), errors.Is(err, cvd.ErrBadTrain), errors.Is(err, cvd.ErrBadOptions):
-		return cli.Exit(fmt.Sprintf("%s: %s: %v", st.File, what, err), exitUsage)
+		return cli.Exit(fmt.Sprintf("%s: %s: %s", st.File, what, explain(err, sys)), exitUsage)
 	}
 	return fmt.Errorf("%s: %w", what, err)
 }
