@@ -47,6 +47,26 @@ var (
 	ErrNotCondensate = errors.New("the fluid is an oil (bubble point at reservoir temperature), not a gas condensate")
 )
 
+// An OilError is ErrNotCondensate with the state: the reservoir temperature,
+// the bubble point there and the fluid's critical temperature (zero when it
+// has none), below which the fluid is an oil. A fluid just below its
+// critical temperature is a near-critical oil; the condensate model holds
+// above it.
+type OilError struct {
+	T, Pb, Tc float64 // K, Pa, K
+}
+
+func (e *OilError) Error() string {
+	msg := fmt.Sprintf("the fluid is an oil at %.6g K, with a bubble point at %.6g Pa", e.T, e.Pb)
+	if e.Tc > 0 {
+		msg += fmt.Sprintf(", below its critical temperature %.6g K", e.Tc)
+	}
+	return msg + "; the depletion model of a gas condensate does not apply"
+}
+
+// Unwrap makes errors.Is(err, ErrNotCondensate) hold.
+func (e *OilError) Unwrap() error { return ErrNotCondensate }
+
 func (r Reservoir) sc() float64 {
 	if r.Sc == 0 {
 		return DefaultSc

@@ -158,7 +158,14 @@ func Recover(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, o RecoverOpt
 	}
 	d, err := cvd.Deplete(fl, z, r.T, dopt)
 	if errors.Is(err, cvd.ErrBubblePoint) {
-		return nil, fmt.Errorf("%w; its saturation point is where it starts to release gas (see the satpoint command)", ErrNotCondensate)
+		oe := &OilError{T: r.T}
+		if d != nil {
+			oe.Pb = d.Dew.P
+		}
+		if cp, ok, cerr := eos.VLCritical(fl, z); cerr == nil && ok {
+			oe.Tc = cp.T
+		}
+		return nil, oe
 	}
 	if err != nil {
 		return nil, err

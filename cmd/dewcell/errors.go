@@ -10,6 +10,7 @@ import (
 
 	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/eos"
+	"dewcell/mbal"
 )
 
 // explain writes err for the person who runs the command: each step of the
@@ -30,6 +31,10 @@ func explain(err error, sys units.System) string {
 			continue
 		case *eos.SolveError:
 			parts = append(parts, e.Error())
+			err = nil
+			continue
+		case *mbal.OilError:
+			parts = append(parts, oilText(sys, e))
 			err = nil
 			continue
 		}
@@ -75,6 +80,18 @@ func nearCriticalText(sys units.System, e *eos.NearCriticalError) string {
 			math.Abs(tU.FromSI(e.T)-tU.FromSI(e.Tc)), tU.Symbol, tU.FromSI(e.Tc), tU.Symbol, pU.FromSI(e.Pc), pU.Symbol)
 	}
 	return msg
+}
+
+// oilText says that the fluid is an oil at the reservoir temperature, and
+// how far that lies below its critical temperature.
+func oilText(sys units.System, e *mbal.OilError) string {
+	tU, pU := sys.Unit(units.Temperature), sys.Unit(units.Pressure)
+	msg := fmt.Sprintf("at %.6g %s the fluid is an oil: its saturation point, %.6g %s, is a bubble point, where it starts to release gas", tU.FromSI(e.T), tU.Symbol, pU.FromSI(e.Pb), pU.Symbol)
+	if e.Tc > 0 {
+		msg += fmt.Sprintf(" (the reservoir temperature lies %.3g %s below the fluid's critical temperature of %.6g %s; above it the fluid would be a gas condensate)",
+			tU.FromSI(e.Tc)-tU.FromSI(e.T), tU.Symbol, tU.FromSI(e.Tc), tU.Symbol)
+	}
+	return msg + "; the depletion model of a gas-condensate reservoir does not apply to an oil, whose liquid flows"
 }
 
 // failure is an error as the user reads it (explain), the library error

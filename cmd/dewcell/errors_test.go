@@ -3,6 +3,8 @@ package main
 import (
 	"errors"
 	"fmt"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 
@@ -45,5 +47,40 @@ func TestExplainInTheStudysUnits(t *testing.T) {
 		Err: fmt.Errorf("%w: the cell contents fill 1.02 of the cell volume; no gas can be removed", cvd.ErrNotDew)}
 	if got, want := explain(e2, units.Field), "the depletion at 250 degF and 1000 psia: depletion cannot continue: the cell contents fill 1.02 of the cell volume; no gas can be removed"; got != want {
 		t.Errorf("%q, want %q", got, want)
+	}
+}
+
+// Within a few degrees of the critical temperature (263.48 degF, by the
+// Heidemann–Khalil criteria: eos.TestNearCriticalSaturation) satpoint
+// calls the point a bubble point below it and a dew point above it, and
+// recover refuses the oil below it, naming the critical temperature, and
+// runs the condensate above it: never an oil at one temperature and a
+// condensate two degrees away on the same side.
+func TestNearCriticalSidesAgree(t *testing.T) {
+	base, err := os.ReadFile(filepath.Join("testdata", "rich-near-critical.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, T := range []float64{258, 260, 262, 263, 264, 266, 268} {
+		study := filepath.Join(t.TempDir(), "study.toml")
+		text := strings.Replace(string(base), `temperature = "280 degF"`, fmt.Sprintf(`temperature = "%g degF"`, T), 1)
+		if err := os.WriteFile(study, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		sat := runJSON(t, "satpoint", study)
+		want := "dew"
+		if T < 263.48 {
+			want = "bubble"
+		}
+		if sat["type"] != want {
+			t.Errorf("%g degF: satpoint says %v, want %s", T, sat["type"], want)
+		}
+		code, _, stderr := dewcell("recover", study)
+		switch {
+		case want == "bubble" && (code == 0 || !strings.Contains(stderr, "is an oil") || !strings.Contains(stderr, "critical temperature of 263.477 degF")):
+			t.Errorf("%g degF: recover exit %d: %s; want it to refuse the oil and name the critical temperature", T, code, stderr)
+		case want == "dew" && code != 0:
+			t.Errorf("%g degF: recover exit %d: %s; want the condensate's recovery", T, code, stderr)
+		}
 	}
 }
