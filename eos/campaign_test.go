@@ -5,33 +5,42 @@ package eos_test
 // saturation points, each result of the package's solvers checked against the
 // independent Peng–Robinson reference of indep_test.go:
 //
-//   - Flash returns no error and a well-formed result;
+//   - Flash returns no error and a well-formed result, in at most
+//     maxFlashIter iterations ("flash-error", "bad-result", "iterations");
 //   - a two-phase result has equal fugacities (|ln f_i^L − ln f_i^V| ≤ 1e-8 by
-//     the reference), closes the component balance z = βy + (1 − β)x to
-//     1e-10, has a Gibbs energy no more than 1e-9 RT per mole above the lowest
-//     split the reference finds from its own starts ("gibbs"), and neither
-//     phase is unstable (when no lower two-phase split is found, that is a
-//     possible three-phase region, counted on its own as "three-phase");
-//   - a single-phase result is stable by the reference's tangent-plane test
-//     (lowest distance ≥ −1e-8);
+//     the reference, "fugacity"), closes the component balance
+//     z = βy + (1 − β)x to 1e-10 ("balance"), and has a Gibbs energy no more
+//     than 1e-9 RT per mole above the lowest split the reference finds from
+//     its own starts ("gibbs"); when there is no lower two-phase split but
+//     the reference finds the split's phases unstable, a three-phase
+//     minimisation from the unstable trial phase decides between
+//     "three-phase" (a three-phase split of lower Gibbs energy exists: the
+//     result is not the equilibrium) and "split-phase-unstable" (none found);
+//   - a single-phase result is stable by the reference's tangent-plane test,
+//     lowest distance ≥ −1e-8 ("single-unstable");
 //   - each upper saturation point, and lower dew point where there is one,
 //     has flashes 0.1 % either side with one phase on the single-phase side
-//     and two on the other; its feed and incipient phase have equal
-//     fugacities by the reference; its label agrees with the side of the
-//     envelope's critical temperature;
-//   - "no saturation point" is confirmed by the reference's stability test
-//     at pressures from 0.1 to 60 MPa;
-//   - an envelope's critical point lies on the traced curve: between the
-//     lowest and highest traced temperature, at or below the cricondenbar.
+//     and two on the other ("sat-side", and the flash checks above); its feed
+//     and incipient phase have equal fugacities by the reference and differ
+//     ("sat-point"); its label agrees with the side of the envelope's
+//     critical temperature ("sat-label");
+//   - ErrNoSaturation is confirmed by the reference's stability test at
+//     pressures from 0.1 to 60 MPa ("sat-missed"); ErrNoConvergence is
+//     accepted where the documentation gives it, a feed unstable even at
+//     400 MPa by the reference, and any other error fails ("sat-error");
+//   - an envelope traces without error ("envelope-error") and its critical
+//     point lies on the traced curve: between the lowest and highest traced
+//     temperature, at or below the cricondenbar ("envelope-critical");
+//   - no solver panics ("panic").
 //
 // The tolerances are the ones the flash is asked to meet: it converges
 // |Δ ln f| to 1e-12 (Settings), so 1e-8 leaves four orders of magnitude for
-// the round-off of a second code; the balance is a few ulps of a mole fraction
-// summed over twenty components; 1e-9 RT per mole in G is far above the
-// round-off of G (about 1e-14) and far below the Gibbs-energy gap of a wrong
-// split (1e-3 to 1 RT in the cases the campaign was written for). The fluids
-// are invented (common practice, no published source: the ranges of lean to
-// rich condensates and volatile oils of the trade).
+// the round-off of a second code; an exact split closes the balance to
+// round-off (1e-16), so 1e-10 is loose; 1e-9 RT per mole in G is far above
+// the round-off of G (about 1e-14) and far below the Gibbs-energy gap of a
+// wrong split (1e-3 to 1 RT in the cases the campaign was written for). The
+// fluids are invented (common practice, no published source: the ranges of
+// lean to rich condensates and volatile oils of the trade).
 //
 // Running it:
 //
@@ -377,6 +386,7 @@ type fluidOutcome struct {
 	failures     []campFailure
 	states       int // flashes checked
 	kinds        map[string]int
+	notes        map[string]int // what was found that is not a failure
 	single, two  int
 	nearCritical int // near-critical states
 	satPoints    int
@@ -508,9 +518,21 @@ func (c *campChecker) flash(state string, t, p float64) int {
 		}
 		c.fail("gibbs", state, t, p, "%s", msg)
 	case unstable != "":
-		// no two-phase split below the solver's, yet a phase would lower G
-		c.fail("three-phase", state, t, p, "solver: vapour fraction %.6g; %s; no two-phase split of lower Gibbs energy found: a possible three-phase region",
-			beta, unstable)
+		// No two-phase split below the solver's, yet a phase would lower G:
+		// look for the three-phase split that the unstable phase opens.
+		g3, amt := math.Inf(1), [3]float64{}
+		for _, frac := range []float64{0.5, 0.05} {
+			if g, a := c.ref.threePhaseFrom(t, p, z, x, y, beta, stx.min.w, frac); g < g3 {
+				g3, amt = g, a
+			}
+		}
+		if g3 < gs-campGibbs && math.Min(amt[0], math.Min(amt[1], amt[2])) > 1e-6 {
+			c.fail("three-phase", state, t, p, "solver: vapour fraction %.6g; %s; no two-phase split of lower Gibbs energy found, but a three-phase split %.4g RT per mole lower, phase amounts %.4g (solver's liquid), %.4g (vapour), %.4g (new)",
+				beta, unstable, gs-g3, amt[0], amt[1], amt[2])
+		} else {
+			c.fail("split-phase-unstable", state, t, p, "solver: vapour fraction %.6g; %s; no split of lower Gibbs energy found with two phases or three (best three-phase %.3g RT per mole lower)",
+				beta, unstable, gs-g3)
+		}
 	}
 	return 2
 }
@@ -557,7 +579,14 @@ func (c *campChecker) saturation(t float64) (eos.SatType, bool) {
 	up, err := c.sat.Upper(t, z)
 	if err != nil {
 		if !errors.Is(err, eos.ErrNoSaturation) {
-			c.fail("sat-error", "upper saturation", t, math.NaN(), "UpperSaturation: %v", err)
+			// documented: ErrNoConvergence when the feed is unstable even at 400 MPa
+			hi := c.ref.stability(t, 400e6, z, nil, c.trialRNG(), 2, c.cf.comps)
+			if errors.Is(err, eos.ErrNoConvergence) && hi.min.tpd < campTPD {
+				c.out.notes["upper saturation: unstable even at 400 MPa (documented ErrNoConvergence)"]++
+				return 0, false
+			}
+			c.fail("sat-error", "upper saturation", t, math.NaN(), "UpperSaturation: %v; the reference finds the feed stable at 400 MPa (lowest tangent-plane distance %.3g), the documented top of the search",
+				err, hi.min.tpd)
 			return 0, false
 		}
 		// confirm: stable at every pressure of a scan
@@ -670,7 +699,7 @@ func runFluid(cfg campaignConfig, k int) *fluidOutcome {
 	for j := range box {
 		box[j] = tp{1 + 0.03*(2*rng.Float64()-1), 1 + 0.05*(2*rng.Float64()-1)}
 	}
-	o := &fluidOutcome{cf: cf, kinds: map[string]int{}}
+	o := &fluidOutcome{cf: cf, kinds: map[string]int{}, notes: map[string]int{}}
 	c := &campChecker{cf: cf, ref: newPRRef(cf.fl), fla: eos.NewFlasher(cf.fl, nil), sat: eos.NewSaturator(cf.fl, nil), out: o, seed: cfg.seed}
 	for _, comp := range cf.comps {
 		c.names = append(c.names, comp.Name)
@@ -739,6 +768,7 @@ func TestCampaign(t *testing.T) {
 
 	counts := map[string]int{}
 	shown := map[string]int{}
+	notes := map[string]int{}
 	var iters []int
 	var states, single, two, near, sats int
 	var slowest time.Duration
@@ -756,6 +786,9 @@ func TestCampaign(t *testing.T) {
 		}
 		if o.mostIter > mostIter {
 			mostIter, mostIterAt = o.mostIter, o.mostIterAt
+		}
+		for k, v := range o.notes {
+			notes[k] += v
 		}
 		described := false
 		for _, f := range o.failures {
@@ -786,6 +819,14 @@ func TestCampaign(t *testing.T) {
 	t.Logf("%d fluids, %d flashes (%d one-phase, %d two-phase; %d near-critical), %d saturation points", len(outs), states, single, two, near, sats)
 	t.Logf("flash iterations: median %d, 99th percentile %d, most %d (%s); slowest flash %.3g ms (%s)",
 		pct(0.5), pct(0.99), mostIter, mostIterAt, slowest.Seconds()*1e3, slowestAt)
+	var noteKeys []string
+	for k := range notes {
+		noteKeys = append(noteKeys, k)
+	}
+	sort.Strings(noteKeys)
+	for _, k := range noteKeys {
+		t.Logf("not a failure: %s: %d", k, notes[k])
+	}
 	var kinds []string
 	for k := range counts {
 		kinds = append(kinds, k)

@@ -421,7 +421,7 @@ func bfgs(x, h0 []float64, f func(x, g []float64) float64, maxIt int, maxStep fl
 type tpdPoint struct {
 	tpd        float64   // Σ w_i (ln w_i + ln φ_i(w) − d_i), per mole of trial phase
 	w          []float64 // trial composition, normalised
-	stationary bool      // converged: max |ln W_i + ln φ_i(w) − d_i| < 1e-10
+	stationary bool      // converged: max |ln W_i + ln φ_i(w) − d_i| below 1e-10 (substitution) or 1e-8 (BFGS)
 	start      string    // which trial it came from
 }
 
@@ -437,8 +437,9 @@ type tpdResult struct {
 // the lightest component; the extra compositions given; and nRandom random
 // compositions drawn from rng. Each trial takes successive substitution
 // ln W_i ← d_i − ln φ_i(w) (Michelsen 1982a) until it converges, collapses on
-// the feed or has taken 300 steps; an unfinished trial is then minimised by
-// BFGS in α_i = 2√W_i. Every iterate is a real trial phase, so the lowest
+// the feed or has taken 100 steps; an unfinished trial is then minimised by
+// BFGS in α_i = 2√W_i (up to 300 iterations, stopping early when it
+// collapses on the feed). Every iterate is a real trial phase, so the lowest
 // distance found is an upper bound on the true minimum: the test can miss an
 // instability it did not reach, never invent one.
 func (r *prRef) stability(t, p float64, z []float64, extra [][]float64, rng *rand.Rand, nRandom int, comps []eos.Component) tpdResult {
@@ -1130,10 +1131,9 @@ func TestReferenceAgreesWithFlash(t *testing.T) {
 	}
 }
 
-// TestReferenceRachfordRice: a closed-form case. For two components with
-// K = (2, 1/2) and z = (1/2, 1/2) the Rachford–Rice equation gives β = 1/2
-// by symmetry; for z = (0.6, 0.4), 0.6/(1 + β) = 0.4·0.5/(1 − β/2)... solved
-// by hand: 0.6(1 − β/2) = 0.2(1 + β), β = 0.8.
+// TestReferenceRachfordRice: closed-form cases. With K = (2, 1/2) the
+// equation is z_1/(1 + β) − z_2/(2 − β) = 0, so β = (2 z_1 − z_2)/(z_1 + z_2):
+// 1/2 for z = (1/2, 1/2) and 0.8 for z = (0.6, 0.4).
 func TestReferenceRachfordRice(t *testing.T) {
 	for _, c := range []struct {
 		z, k []float64
@@ -1185,4 +1185,86 @@ func TestReferenceCubicRoots(t *testing.T) {
 			}
 		}
 	}
+}
+
+// threePhaseFrom minimises the Gibbs energy of three-phase splits of z by
+// BFGS, starting from the two-phase split (x, y, beta) with an amount ε of a
+// third phase of composition w taken from the two phases in proportion
+// (ε w_i out of each z_i): to first order in ε that changes G by ε times the
+// tangent-plane distance of w, so an unstable w gives a lower start. ε is
+// frac times the largest amount the feed allows, min_i z_i/w_i. The variables
+// are, for each component, the logarithms of its shares in the three phases
+// (normalised by a softmax, so every split conserves each component
+// exactly); ∂G/∂u_ik = z_i s_ik (μ_ik − Σ_j s_ij μ_ij) with μ the reduced
+// chemical potential ln x + ln φ. It returns G per mole of feed (in RT, less
+// ln P, as refSplit.G) and the amounts of the three phases.
+func (r *prRef) threePhaseFrom(t, p float64, z, x, y []float64, beta float64, w []float64, frac float64) (float64, [3]float64) {
+	n := r.n
+	eps := math.Inf(1)
+	for i := range z {
+		if w[i] > 0 {
+			eps = math.Min(eps, z[i]/w[i])
+		}
+	}
+	eps *= frac
+	u := make([]float64, 3*n)
+	for i := 0; i < n; i++ {
+		keep := 1 - eps*w[i]/z[i]
+		a := [3]float64{(1 - beta) * x[i] * keep, beta * y[i] * keep, eps * w[i]}
+		for k := range a {
+			u[3*i+k] = math.Log(math.Max(a[k], 1e-300))
+		}
+	}
+	var amounts [3]float64
+	s := make([]float64, 3*n)
+	mu := make([]float64, 3*n)
+	ph := [3][]float64{make([]float64, n), make([]float64, n), make([]float64, n)}
+	lp := make([]float64, n)
+	f := func(u, g []float64) float64 {
+		amounts = [3]float64{}
+		for i := 0; i < n; i++ {
+			m := math.Max(u[3*i], math.Max(u[3*i+1], u[3*i+2]))
+			den := 0.0
+			for k := 0; k < 3; k++ {
+				s[3*i+k] = math.Exp(u[3*i+k] - m)
+				den += s[3*i+k]
+			}
+			for k := 0; k < 3; k++ {
+				s[3*i+k] /= den
+				ph[k][i] = z[i] * s[3*i+k]
+				amounts[k] += ph[k][i]
+			}
+		}
+		G := 0.0
+		for k := 0; k < 3; k++ {
+			for i := range ph[k] {
+				ph[k][i] /= amounts[k]
+			}
+			r.eval(t, p, ph[k], rootMin, lp)
+			for i := 0; i < n; i++ {
+				mu[3*i+k] = 0
+				if ph[k][i] > 0 {
+					mu[3*i+k] = math.Log(ph[k][i]) + lp[i]
+					G += z[i] * s[3*i+k] * mu[3*i+k]
+				}
+			}
+		}
+		for i := 0; i < n; i++ {
+			avg := s[3*i]*mu[3*i] + s[3*i+1]*mu[3*i+1] + s[3*i+2]*mu[3*i+2]
+			for k := 0; k < 3; k++ {
+				g[3*i+k] = z[i] * s[3*i+k] * (mu[3*i+k] - avg)
+			}
+		}
+		if math.IsNaN(G) {
+			return math.Inf(1)
+		}
+		return G
+	}
+	h0 := make([]float64, 3*n)
+	for i := range h0 {
+		h0[i] = math.Min(1/math.Max(z[i/3], 1e-300), 1e8)
+	}
+	bfgs(u, h0, f, 3000, 2, func([]float64) bool { return false })
+	G := f(u, make([]float64, 3*n))
+	return G, amounts
 }
