@@ -33,13 +33,8 @@ func (f *Flasher) Fluid() *Fluid { return f.w.fl }
 // len(z) must equal the number of components.
 func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 	w := f.w
-	w.fl.checkLen(z)
-	if len(dst.X) != w.n {
-		dst.X = make([]float64, w.n)
-		dst.Y = make([]float64, w.n)
-	}
-	if !validState(t, p) {
-		return &SolveError{Op: "Flash", Err: ErrBadState}
+	if err := f.begin(dst, t, p, z); err != nil {
+		return err
 	}
 	w.fl.setT(&w.ts, t)
 	w.prepareFeed(p, z)
@@ -104,6 +99,20 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 	return nil
 }
 
+// begin checks the arguments of a flash and sizes dst.
+func (f *Flasher) begin(dst *FlashResult, t, p float64, z []float64) error {
+	w := f.w
+	w.fl.checkLen(z)
+	if len(dst.X) != w.n {
+		dst.X = make([]float64, w.n)
+		dst.Y = make([]float64, w.n)
+	}
+	if !validState(t, p) {
+		return &SolveError{Op: "Flash", Err: ErrBadState}
+	}
+	return nil
+}
+
 // FlashFrom is Flash started from the K-values k (K_i = y_i/x_i, as of a
 // two-phase flash at nearby conditions): the split is converged from them
 // without the stability test and without the test of the split, for a path
@@ -115,14 +124,9 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 // not tested for a third phase: ThreePhase is false.
 func (f *Flasher) FlashFrom(dst *FlashResult, t, p float64, z, k []float64) error {
 	w := f.w
-	w.fl.checkLen(z)
 	w.fl.checkLen(k)
-	if len(dst.X) != w.n {
-		dst.X = make([]float64, w.n)
-		dst.Y = make([]float64, w.n)
-	}
-	if !validState(t, p) {
-		return &SolveError{Op: "Flash", Err: ErrBadState}
+	if err := f.begin(dst, t, p, z); err != nil {
+		return err
 	}
 	for i, zi := range z {
 		w.lnK[i] = 0

@@ -246,13 +246,7 @@ func checkDemoDir(dir string) error {
 		return nil
 	}
 	if mi, err := os.Lstat(filepath.Join(dir, demoMarker)); err == nil && !mi.Mode().IsRegular() {
-		kind := fileKind(mi.Mode())
-		switch {
-		case mi.IsDir():
-			kind = "a folder"
-		case mi.Mode()&fs.ModeSymlink != 0:
-			kind = "a symbolic link"
-		}
+		kind := study.FileKind(mi.Mode())
 		return refuse("%s holds %s, which is %s, not the file an earlier demo wrote; refusing to replace the folder; choose another with --%s",
 			dir, demoMarker, kind, flagDir)
 	}
@@ -302,12 +296,8 @@ func demoFileChange(path string, want demoEntry) string {
 	switch {
 	case err != nil:
 		return fmt.Sprintf("cannot be read (%v)", cause(err))
-	case fi.IsDir():
-		return "is now a folder"
-	case fi.Mode()&fs.ModeSymlink != 0:
-		return "is now a symbolic link"
 	case !fi.Mode().IsRegular():
-		return "is now " + fileKind(fi.Mode())
+		return "is now " + study.FileKind(fi.Mode())
 	case fi.Size() != want.size:
 		return "has been changed since"
 	}
@@ -319,20 +309,6 @@ func demoFileChange(path string, want demoEntry) string {
 		return "has been changed since"
 	}
 	return ""
-}
-
-// fileKind names a kind of file that is neither regular, a folder nor a
-// symbolic link.
-func fileKind(m fs.FileMode) string {
-	switch {
-	case m&fs.ModeNamedPipe != 0:
-		return "a named pipe"
-	case m&fs.ModeSocket != 0:
-		return "a socket"
-	case m&fs.ModeDevice != 0:
-		return "a device"
-	}
-	return "a special file"
 }
 
 // readDemoMarker reads the marker of an earlier demo in dir, which must be a

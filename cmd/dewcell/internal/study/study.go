@@ -155,7 +155,7 @@ func Read(path string) (*Study, error) {
 		return fail(err)
 	}
 	if !fi.Mode().IsRegular() {
-		return nil, &Error{File: path, Msg: fmt.Sprintf("is %s, not a regular file; give the path of a study file (TOML)", fileKind(fi.Mode()))}
+		return nil, &Error{File: path, Msg: fmt.Sprintf("is %s, not a regular file; give the path of a study file (TOML)", FileKind(fi.Mode()))}
 	}
 	f, err := os.Open(path)
 	if err != nil {
@@ -166,7 +166,7 @@ func Read(path string) (*Study, error) {
 		return fail(err)
 	}
 	if !fi.Mode().IsRegular() { // replaced since the check above
-		return nil, &Error{File: path, Msg: fmt.Sprintf("is %s, not a regular file; give the path of a study file (TOML)", fileKind(fi.Mode()))}
+		return nil, &Error{File: path, Msg: fmt.Sprintf("is %s, not a regular file; give the path of a study file (TOML)", FileKind(fi.Mode()))}
 	}
 	data, err := io.ReadAll(f)
 	if err != nil {
@@ -186,8 +186,9 @@ func pathCause(err error) error {
 	return err
 }
 
-// fileKind names a kind of file that is not a regular one, for messages.
-func fileKind(m fs.FileMode) string {
+// FileKind names a kind of file that is not a regular one, for messages:
+// "a folder", "a named pipe (FIFO)", "a symbolic link", ….
+func FileKind(m fs.FileMode) string {
 	switch {
 	case m.IsDir():
 		return "a folder"
@@ -422,7 +423,7 @@ func (r *reader) lab(s *Study, f *fileLab, dir string) {
 		case err != nil:
 			r.failf(k, "cannot use %s: %v", p, pathCause(err))
 		case !fi.Mode().IsRegular(): // a named pipe would make the reader wait
-			r.failf(k, "%s is %s, not a regular file; want a CSV file", p, fileKind(fi.Mode()))
+			r.failf(k, "%s is %s, not a regular file; want a CSV file", p, FileKind(fi.Mode()))
 		}
 		return p
 	}
