@@ -61,7 +61,10 @@ func LowerDewPoint(fl *Fluid, t float64, z []float64, pUpper float64, s *Setting
 
 // Upper finds the saturation point of feed z at t (K) met first when the
 // pressure falls from high values. The scan starts at 60 MPa (raised up to
-// 400 MPa if the feed is unstable there) and goes down to 1 kPa.
+// 400 MPa if the feed is unstable there) and goes down to 1 kPa. Within 2 K
+// of the feed's critical temperature the point is first converged from the
+// traced envelope (nearCritical). It is a bubble point below the critical
+// temperature and a dew point above it (named).
 //
 // Special cases:
 //   - the feed is stable at every scanned pressure: ErrNoSaturation;
