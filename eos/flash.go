@@ -280,33 +280,45 @@ func (w *work) splitUnstable(t, p float64, z []float64) (bool, int) {
 		}
 	}
 	// a third phase between the two: from the nearly pure component of
-	// median critical temperature
+	// median critical temperature, and from the second heaviest (a liquid
+	// rich in an intermediate pseudo-component beside a heavier one)
 	w.nearRef = 0
-	k := w.medianTc(z)
-	for i, zi := range z {
-		if zi > 0 {
-			w.lnW[i] = math.Log(1e-6 * zi)
+	for _, k := range [2]int{w.rankTc(z, -1), w.rankTc(z, -2)} {
+		if k < 0 {
+			continue
 		}
-	}
-	w.lnW[k] = 0
-	r := w.trial(p, z, z, true)
-	iter += r.iter
-	if r.unstable && !sameTrial(z, w.W, w.bx) && !sameTrial(z, w.W, w.by) {
-		copy(w.tw, w.W)
-		return true, iter
+		for i, zi := range z {
+			if zi > 0 {
+				w.lnW[i] = math.Log(1e-6 * zi)
+			}
+		}
+		w.lnW[k] = 0
+		r := w.trial(p, z, z, true)
+		iter += r.iter
+		if r.unstable && !sameTrial(z, w.W, w.bx) && !sameTrial(z, w.W, w.by) {
+			copy(w.tw, w.W)
+			return true, iter
+		}
 	}
 	return false, iter
 }
 
-// medianTc returns the component present in z whose critical temperature
-// is the median of those present.
-func (w *work) medianTc(z []float64) int {
-	best, bestRank := -1, math.MaxInt
+// rankTc returns a component present in z by the rank of its critical
+// temperature among those present: rank −1 the median, −2 the second
+// highest; −1 (none) when fewer than three components are present.
+func (w *work) rankTc(z []float64, rank int) int {
 	np := 0
 	for _, zi := range z {
 		if zi > 0 {
 			np++
 		}
+	}
+	if np < 3 {
+		return -1
+	}
+	want := np / 2 // components below the median
+	if rank == -2 {
+		want = np - 2
 	}
 	for i, zi := range z {
 		if zi == 0 {
@@ -318,18 +330,36 @@ func (w *work) medianTc(z []float64) int {
 				below++
 			}
 		}
-		if r := abs(2*below - (np - 1)); r < bestRank {
-			best, bestRank = i, r
+		if below == want {
+			return i
 		}
 	}
-	return best
+	return -1
 }
 
-func abs(a int) int {
-	if a < 0 {
-		return -a
+// flashLooseTol: a split that reaches the work bound with every
+// |ln f_i^L − ln f_i^V| below this is accepted (close to a critical point the
+// Gibbs energy is so flat that the last digits come slowly), its residual
+// reported in FlashResult.Resid.
+const flashLooseTol = 1e-8
+
+// splitAtBound ends a split at the work bound: the last split evaluated,
+// in w.x and w.y with w.pa and w.pb, is accepted if its residual is below
+// flashLooseTol.
+func (w *work) splitAtBound(z []float64, iter int) (float64, int, float64, bool) {
+	res, num, den := 0.0, 0.0, 0.0
+	for i, zi := range z {
+		if zi == 0 {
+			continue
+		}
+		res = math.Max(res, math.Abs(math.Log(w.x[i])+w.pa.lnphi[i]-math.Log(w.y[i])-w.pb.lnphi[i]))
+		// z = β y + (1 − β) x, β by least squares
+		d := w.y[i] - w.x[i]
+		num += (zi - w.x[i]) * d
+		den += d * d
 	}
-	return a
+	beta := num / den
+	return beta, iter, res, res < flashLooseTol && beta > 0 && beta < 1
 }
 
 // splitNearRef: a trial phase testing a split that comes within this squared
@@ -429,7 +459,7 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 	for it := 1; it <= w.max; it++ {
 		iter = it
 		if w.evals++; w.evals > flashEvals {
-			return beta, iter, res, false
+			return w.splitAtBound(z, iter)
 		}
 		for i := 0; i < n; i++ {
 			w.K[i] = math.Exp(w.lnK[i])
@@ -502,11 +532,11 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 
 // flashEvals bounds the work of one flash: the evaluations of the two
 // phases of a split, by substitution and in Newton's line search, over all
-// its splits (about 1.5 ms for 15 components). A Newton stage that fails
+// its splits (about 1 ms for 15 components). A Newton stage that fails
 // hands back to substitution, which calls it again: without a bound some
-// states spent 0.1–0.5 s so. Past the bound the flash reports that it did
-// not converge.
-const flashEvals = 1200
+// states spent 0.1–0.5 s so. At the bound a split within flashLooseTol is
+// accepted; otherwise the flash reports that it did not converge.
+const flashEvals = 800
 
 // gdem applies the one-eigenvalue dominant-eigenvalue extrapolation to ln K
 // (Crowe and Nishio 1975, as used by Michelsen 1982b): with Δ_k the last two
@@ -609,7 +639,7 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 				H[i*n+j] *= sg[i] * sg[j]
 			}
 		}
-		if !w.shiftedSolve(H, n) {
+		if !w.newtonStep(H, n, true) {
 			return V, it, res, false
 		}
 		slope := 0.0 // directional derivative of G along the step
@@ -626,18 +656,19 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 				w.s[i] = w.l[i]
 			}
 		}
-		// Keep every mole number strictly inside (0, z_i).
-		step := 1.0
+		// Keep every mole number strictly inside (0, z_i): stepMax is the
+		// longest step that does, at 0.9 of the way to the nearest bound.
+		stepMax := math.Inf(1)
 		for i := 0; i < n; i++ {
-			if z[i] == 0 {
-				continue
-			}
-			if nu := w.s[i] + step*w.g[i]; nu <= 0 {
-				step = math.Min(step, 0.9*w.s[i]/-w.g[i])
-			} else if nu >= z[i] {
-				step = math.Min(step, 0.9*(z[i]-w.s[i])/w.g[i])
+			switch {
+			case z[i] == 0 || w.g[i] == 0:
+			case w.g[i] < 0:
+				stepMax = math.Min(stepMax, 0.9*w.s[i]/-w.g[i])
+			default:
+				stepMax = math.Min(stepMax, 0.9*(z[i]-w.s[i])/w.g[i])
 			}
 		}
+		step := math.Min(1, stepMax)
 		accepted := false
 		for cut := 0; cut < 30; cut++ {
 			for i := 0; i < n; i++ {
@@ -658,8 +689,16 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 			// beyond round-off (and near the solution the full step).
 			flat := Gn <= G+1e-13*(1+math.Abs(G))
 			if Gn <= G+1e-4*step*slope || flat && (res < 1e-6 || resn < res) {
+				slow := resn > 0.5*res
 				G, res, V, L = Gn, resn, Vn, Ln
 				accepted = true
+				if cut == 0 && step == 1 && slow && res > w.tol {
+					// A full step that hardly lowers the residual: where the
+					// Hessian is indefinite or nearly singular (a flat valley
+					// of G next to a critical point) the shifted step is short.
+					// Go on along it, doubling, while G keeps falling.
+					G, res, V, L = w.splitExtend(p, z, step, stepMax, G, res, V, L)
+				}
 				break
 			}
 			step *= 0.5
@@ -669,6 +708,39 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 		}
 	}
 	return V, 50, res, false
+}
+
+// splitExtend goes on from the accepted step along the Newton direction
+// (unknowns w.s, direction w.g, signs w.sgn) with steps doubled up to
+// stepMax, while the Gibbs energy falls by more than its round-off; it
+// leaves the last point that lowered G in w.v and w.l, evaluated, and
+// returns it as splitState does. G, res, V and L describe the accepted step.
+func (w *work) splitExtend(p float64, z []float64, step, stepMax, G, res, V, L float64) (float64, float64, float64, float64) {
+	n, sg := w.n, w.sgn
+	set := func(step float64) {
+		for i := 0; i < n; i++ {
+			u := w.s[i] + step*w.g[i]
+			if sg[i] > 0 {
+				w.v[i], w.l[i] = u, z[i]-u
+			} else {
+				w.v[i], w.l[i] = z[i]-u, u
+			}
+		}
+	}
+	best := step
+	for k := 0; k < 30 && 2*best <= stepMax; k++ {
+		if w.evals++; w.evals > flashEvals {
+			break
+		}
+		set(2 * best)
+		Gn, resn, Vn, Ln := w.splitState(p, z)
+		if !(Gn < G-1e-14*(1+math.Abs(G))) {
+			break
+		}
+		best, G, res, V, L = 2*best, Gn, resn, Vn, Ln
+	}
+	set(best)
+	return w.splitState(p, z)
 }
 
 // splitState evaluates both phases of the split held in w.v and w.l: it sets

@@ -78,6 +78,30 @@ func LowerDewPoint(fl *Fluid, t float64, z []float64, pUpper float64, s *Setting
 //     residual of the saturation equations at that point (about 1e-9), not
 //     below the solver tolerance.
 func (s *Saturator) Upper(t float64, z []float64) (Saturation, error) {
+	sat, err := s.upper(t, z)
+	w := s.w
+	if err != nil || w.thorough {
+		return sat, err
+	}
+	// The stability tests of the search start from Wilson K-values. Where
+	// the flash's pure-component trial phases find the feed unstable just
+	// above the point (a dense phase at higher pressure), the search is run
+	// again with those trials in every test.
+	w.fl.setT(&w.ts, t)
+	above := sat.P * (1 + 1e-4)
+	w.prepareFeed(above, z)
+	if _, missed := w.pureTrials(above, z); !missed {
+		return sat, nil
+	}
+	w.thorough = true
+	defer func() { w.thorough = false }()
+	iter := sat.Iter
+	sat, err = s.upper(t, z)
+	sat.Iter += iter
+	return sat, err
+}
+
+func (s *Saturator) upper(t float64, z []float64) (Saturation, error) {
 	w := s.w
 	w.fl.checkLen(z)
 	if !validState(t, 1) {

@@ -49,7 +49,10 @@ func (w *work) prepareFeed(p float64, z []float64) {
 // pressure p, after prepareFeed. With early set it stops at the first trial
 // point that proves instability. It leaves the trial mole numbers W (not
 // normalised: Σ W > 1 at an unstable stationary point) in w.wLiq and w.wVap
-// and returns whether each trial showed instability.
+// and returns whether each trial showed instability. With w.thorough set, a
+// feed stable from both Wilson starts is tried from pure components too
+// (pureTrials), and an instability found so is reported as the liquid-like
+// trial's.
 func (w *work) stability(p float64, z []float64, early bool) (liq, vap trialResult) {
 	t := w.ts.t
 	w.wilson(t, p)
@@ -71,12 +74,19 @@ func (w *work) stability(p float64, z []float64, early bool) (liq, vap trialResu
 	}
 	vap = w.trial(p, z, z, early)
 	copy(w.wVap, w.W)
+	if w.thorough && !liq.unstable && !vap.unstable {
+		if pt, ok := w.pureTrials(p, z); ok {
+			liq = pt
+			copy(w.wLiq, w.W)
+		}
+	}
 	return liq, vap
 }
 
 // pureTrials runs, after stability has found feed z stable from the Wilson
-// starts, two more trials from nearly pure components: the heaviest present
-// (by critical temperature) and the lightest. A dense feed can be unstable
+// starts, up to three more trials from nearly pure components: the heaviest
+// present (by critical temperature), the lightest and the one of median
+// critical temperature. A dense feed can be unstable
 // towards a liquid that the Wilson starts, both close to the feed at high
 // pressure, never reach (a liquid–liquid split); pure-component trial
 // phases are a common choice for such splits. It returns the first
@@ -95,9 +105,9 @@ func (w *work) pureTrials(p float64, z []float64) (trialResult, bool) {
 		}
 	}
 	var last trialResult
-	for _, k := range [2]int{hi, lo} {
-		if k < 0 {
-			break
+	for j, k := range [3]int{hi, lo, w.rankTc(z, -1)} {
+		if k < 0 || j > 0 && k == hi || j > 1 && k == lo {
+			continue
 		}
 		for i, zi := range z {
 			if zi > 0 {
@@ -108,9 +118,6 @@ func (w *work) pureTrials(p float64, z []float64) (trialResult, bool) {
 		last = w.trial(p, z, z, true)
 		if last.unstable {
 			return last, true
-		}
-		if hi == lo {
-			break
 		}
 	}
 	return last, false
@@ -243,11 +250,34 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 // close to a critical point the Hessian is nearly singular or indefinite).
 // The step replaces w.g.
 func (w *work) shiftedSolve(H []float64, n int) bool {
+	return w.newtonStep(H, n, false)
+}
+
+// newtonStep is shiftedSolve; with descent set, an H that is not positive
+// definite first gets the plain Newton step by LU, kept when it points
+// downhill (−g·Δ < 0 for the right-hand side g = −gradient). Next to a
+// critical point H has an eigenvalue near zero that round-off can make
+// negative, and the shift would cut the step along that direction, the flat
+// valley the solution lies along, by orders of magnitude.
+func (w *work) newtonStep(H []float64, n int, descent bool) bool {
 	a := w.H[:n*n]
 	copy(w.s, w.g)
 	copy(a, H)
 	if cholSolve(a, n, w.g) {
 		return true
+	}
+	if descent {
+		copy(a, H)
+		copy(w.g, w.s)
+		if luSolve(a, n, w.g) {
+			dot := 0.0
+			for i := 0; i < n; i++ {
+				dot += w.s[i] * w.g[i]
+			}
+			if dot > 0 && !math.IsInf(dot, 0) {
+				return true
+			}
+		}
 	}
 	for mu := 1e-6; mu <= 1e3; mu *= 10 {
 		copy(a, H)

@@ -37,6 +37,9 @@ type work struct {
 	// (the test of a converged split, verifySplit).
 	nearRef float64
 	evals   int // split evaluations of the current flash (flashEvals)
+	// thorough adds the pure-component trials to every stability test (the
+	// saturation search, when they find a phase its Wilson starts missed).
+	thorough bool
 }
 
 func newWork(fl *Fluid, s *Settings) *work {
