@@ -18,15 +18,22 @@ func (f *Flasher) Fluid() *Fluid { return f.w.fl }
 // at t (K) and p (Pa), following Michelsen (1982a, 1982b):
 //
 //  1. the tangent-plane stability test from Wilson K-values with liquid-like and
-//     vapour-like trial phases; a stable feed is returned as one phase;
+//     vapour-like trial phases and, when both find the feed stable, from the
+//     nearly pure heaviest, lightest and median components (pureTrials); a
+//     stable feed is returned as one phase, named by the rule of label.go;
 //  2. successive substitution on ln K from the unstable trial phase, with
 //     Rachford–Rice for the split and a dominant-eigenvalue (GDEM) jump every
 //     third step (Crowe and Nishio 1975);
-//  3. Newton steps on the Gibbs energy in the vapour mole numbers with the
-//     analytic Hessian, guarded by a line search, until every
-//     |ln f_i^L − ln f_i^V| is below the tolerance.
+//  3. Newton steps on the Gibbs energy in the mole numbers with the analytic
+//     Hessian, guarded by a line search, until every |ln f_i^L − ln f_i^V| is
+//     below the tolerance;
+//  4. the test of the split against its own tangent plane (verifySplit): a
+//     phase that would lower the Gibbs energy gives new splits, the one of
+//     lowest Gibbs energy is kept, and ThreePhase is set when it stays
+//     unstable.
 //
-// The vapour is the phase of lower mass density. Special cases:
+// The vapour is the phase of lower mass density. The work is bounded
+// (flashEvals). Special cases:
 //   - t or p not finite and positive: *SolveError wrapping ErrBadState;
 //   - no convergence: *SolveError wrapping ErrNoConvergence, dst holds the last iterate.
 //
