@@ -21,7 +21,8 @@ package eos_test
 //   - each upper saturation point, and lower dew point where there is one,
 //     has flashes 0.1 % either side with one phase on the single-phase side
 //     and two on the other ("sat-side", and the flash checks above); its feed
-//     and incipient phase have equal fugacities by the reference and differ
+//     and incipient phase have equal fugacities by the reference (1e-8; 1e-7
+//     within 2 K of the critical temperature, as documented) and differ
 //     ("sat-point"); its label agrees with the side of the envelope's
 //     critical temperature ("sat-label");
 //   - ErrNoSaturation is confirmed by the reference's stability test at
@@ -648,8 +649,15 @@ func (c *campChecker) satPoint(state string, t float64, s eos.Saturation) {
 	for i, zi := range c.cf.z {
 		triv = math.Max(triv, math.Abs(math.Log(s.Incipient[i]/zi)))
 	}
+	tol := campLnF
+	if cp, ok, _ := eos.VLCritical(c.cf.fl, c.cf.z); ok && math.Abs(t-cp.T) < 2 {
+		// documented: within 2 K of the critical temperature the point may be
+		// the one interpolated on the traced envelope, kept with a residual
+		// up to 1e-7 where Newton cannot improve it (eos.Saturator.Upper)
+		tol = 1e-7
+	}
 	switch {
-	case !(df <= campLnF):
+	case !(df <= tol):
 		c.fail("sat-point", state, t, s.P, "%v point: reference max |ln f_feed − ln f_incipient| = %.3g (solver's residual %.3g)", s.Type, df, s.Resid)
 	case !(triv > 1e-5):
 		c.fail("sat-point", state, t, s.P, "%v point: the incipient phase is the feed (max |ln(w_i/z_i)| = %.3g): the trivial solution", s.Type, triv)
