@@ -266,6 +266,11 @@ func (w *work) splitUnstable(t, p float64, z []float64) (bool, int) {
 		}
 	}
 	iter := 0
+	for i, zi := range z {
+		if zi > 0 {
+			w.lnBX[i], w.lnBY[i] = math.Log(w.bx[i]), math.Log(w.by[i])
+		}
+	}
 	w.nearRef = splitNearRef
 	defer func() { w.nearRef = 0 }()
 	for k := 0; k < 2; k++ {
@@ -289,7 +294,6 @@ func (w *work) splitUnstable(t, p float64, z []float64) (bool, int) {
 	// a third phase between the two: from the nearly pure component of
 	// median critical temperature, and from the second heaviest (a liquid
 	// rich in an intermediate pseudo-component beside a heavier one)
-	w.nearRef = 0
 	for _, k := range [2]int{w.rankTc(z, -1), w.rankTc(z, -2)} {
 		if k < 0 {
 			continue
@@ -370,7 +374,7 @@ func (w *work) splitAtBound(z []float64, iter int) (float64, int, float64, bool)
 }
 
 // splitNearRef: a trial phase testing a split that comes within this squared
-// distance in ln W of the phase it started from, with tm > 0, is taken to
+// distance in ln W of one of the split's phases, with tm > 0, is taken to
 // fall back onto it: the phases of a converged split are minima of tm.
 const splitNearRef = 1e-3
 

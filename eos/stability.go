@@ -148,11 +148,27 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 		if !(sumW > 0) || math.IsInf(sumW, 0) {
 			return res
 		}
-		dist := 0.0
+		dist, near := 0.0, math.Inf(1)
+		lnSum := math.Log(sumW)
 		for i := 0; i < n; i++ {
 			w.wn[i] = w.W[i] / sumW
+		}
+		if w.nearRef > 0 {
+			// testing a split: the distance to the nearer of its phases,
+			// whose logarithms splitUnstable keeps
+			da, db := 0.0, 0.0
+			for i := 0; i < n; i++ {
+				if z[i] > 0 {
+					a, b := w.lnW[i]-lnSum-w.lnBX[i], w.lnW[i]-lnSum-w.lnBY[i]
+					da += a * a
+					db += b * b
+				}
+			}
+			near = math.Min(da, db)
+		}
+		for i := 0; i < n; i++ {
 			if z[i] > 0 {
-				dd := w.lnW[i] - math.Log(sumW) - math.Log(ref[i])
+				dd := w.lnW[i] - lnSum - math.Log(ref[i])
 				dist += dd * dd
 			}
 		}
@@ -183,9 +199,9 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 			res.unstable = !res.trivial && tm < w.tmCut
 			return res
 		}
-		if dist < 1e-10 && it > 2 || dist < w.nearRef && tm > 0 && it > 1 {
+		if dist < 1e-10 && it > 2 || near < w.nearRef && tm > 0 && it > 1 {
 			// collapsed onto the feed: the trivial solution (or, testing a
-			// split, well inside the basin of the phase it started from)
+			// split, well inside the basin of one of its phases)
 			res.ok, res.trivial = true, true
 			return res
 		}

@@ -17,6 +17,7 @@ type work struct {
 	d, lnW, W, wn    []float64 // stability: ln z + ln φ(z), trial ln W, W, W normalised
 	wLiq, wVap       []float64 // trial mole numbers W where the trials stopped
 	bx, by, tw       []float64 // flash: the best split so far (liquid, vapour), a trial phase against it
+	lnBX, lnBY       []float64 // their logarithms, while the split is tested
 	inc              []float64 // saturation: the incipient phase Newton starts from
 	lnK, lnK1, lnK2  []float64 // current and two previous ln K (GDEM)
 	lnKss            []float64 // the plain substitution step before a GDEM jump
@@ -50,7 +51,7 @@ func newWork(fl *Fluid, s *Settings) *work {
 		ts:   newTState(n),
 		feed: newPhase(n), pa: newPhase(n), pb: newPhase(n),
 		d: vec(), lnW: vec(), W: vec(), wn: vec(), wLiq: vec(), wVap: vec(), inc: vec(),
-		bx: vec(), by: vec(), tw: vec(),
+		bx: vec(), by: vec(), tw: vec(), lnBX: vec(), lnBY: vec(),
 		lnK: vec(), lnK1: vec(), lnK2: vec(), lnKss: vec(),
 		K: vec(), x: vec(), y: vec(), r: vec(), g: vec(), s: vec(),
 		v: vec(), l: vec(), sgn: vec(),
