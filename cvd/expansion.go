@@ -55,9 +55,22 @@ func Expand(fl *eos.Fluid, z []float64, t float64, pressures []float64, s *eos.S
 	e := &Expansion{T: t, Saturation: sat, VSat: sat.Feed.V}
 	f := eos.NewFlasher(fl, s)
 	var res eos.FlashResult
+	k := make([]float64, fl.N()) // K-values of the last two-phase step, when hasK
+	hasK := false
 	for _, p := range pressures {
-		if err := f.Flash(&res, t, p, z); err != nil {
+		var err error
+		if hasK {
+			err = f.FlashFrom(&res, t, p, z, k)
+		} else {
+			err = f.Flash(&res, t, p, z)
+		}
+		if err != nil {
 			return e, &eos.StateError{What: "flash", T: t, P: p, Err: err}
+		}
+		if hasK = res.Phases == 2; hasK {
+			for i := range k {
+				k[i] = res.Y[i] / res.X[i]
+			}
 		}
 		st := ExpansionStep{P: p, VaporFraction: res.Beta}
 		var v float64
