@@ -682,14 +682,7 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 		step := math.Min(1, stepMax)
 		accepted := false
 		for cut := 0; cut < 30; cut++ {
-			for i := 0; i < n; i++ {
-				u := w.s[i] + step*w.g[i]
-				if sg[i] > 0 {
-					w.v[i], w.l[i] = u, z[i]-u
-				} else {
-					w.v[i], w.l[i] = z[i]-u, u
-				}
-			}
+			w.setStep(z, step)
 			if w.evals++; w.evals > flashEvals {
 				return V, it, res, false
 			}
@@ -727,31 +720,35 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 // leaves the last point that lowered G in w.v and w.l, evaluated, and
 // returns it as splitState does. G, res, V and L describe the accepted step.
 func (w *work) splitExtend(p float64, z []float64, step, stepMax, G, res, V, L float64) (float64, float64, float64, float64) {
-	n, sg := w.n, w.sgn
-	set := func(step float64) {
-		for i := 0; i < n; i++ {
-			u := w.s[i] + step*w.g[i]
-			if sg[i] > 0 {
-				w.v[i], w.l[i] = u, z[i]-u
-			} else {
-				w.v[i], w.l[i] = z[i]-u, u
-			}
-		}
-	}
 	best := step
 	for k := 0; k < 30 && 2*best <= stepMax; k++ {
 		if w.evals++; w.evals > flashEvals {
 			break
 		}
-		set(2 * best)
+		w.setStep(z, 2*best)
 		Gn, resn, Vn, Ln := w.splitState(p, z)
 		if !(Gn < G-1e-14*(1+math.Abs(G))) {
 			break
 		}
 		best, G, res, V, L = 2*best, Gn, resn, Vn, Ln
 	}
-	set(best)
+	w.setStep(z, best)
 	return w.splitState(p, z)
+}
+
+// setStep puts into w.v and w.l the split at step along the Newton
+// direction w.g from the unknowns w.s: u_i = s_i + step g_i is the vapour
+// amount where w.sgn_i is +1, the liquid amount where it is −1, the other
+// phase taking the rest of z_i.
+func (w *work) setStep(z []float64, step float64) {
+	for i := 0; i < w.n; i++ {
+		u := w.s[i] + step*w.g[i]
+		if w.sgn[i] > 0 {
+			w.v[i], w.l[i] = u, z[i]-u
+		} else {
+			w.v[i], w.l[i] = z[i]-u, u
+		}
+	}
 }
 
 // splitState evaluates both phases of the split held in w.v and w.l: it sets

@@ -12,35 +12,14 @@ import "dewcell/eos"
 // the default interaction coefficients, on PR78 with or without volume shift.
 // Its dew point at 250 °F lies near 4600 psia.
 func Condensate(shift bool) (*eos.Fluid, []float64, error) {
-	defined := []struct {
-		name string
-		pct  float64
-	}{{"N2", 0.3}, {"CO2", 2.4}, {"C1", 72}, {"C2", 8.5}, {"C3", 4.8}, {"nC4", 2.6}, {"nC5", 1.4}, {"nC6", 1.0}}
-	var comps []eos.Component
-	var z []float64
-	for _, d := range defined {
-		c, _ := eos.LibraryComponent(d.name)
-		comps = append(comps, c)
-		z = append(z, d.pct/100)
-	}
-	pcs, pz, err := eos.SplitPlus(eos.PlusFraction{Name: "C7+", FirstCarbon: 7, Z: 0.07, M: 0.150, SG: 0.80}, eos.Characterization{Alpha: 2})
-	if err != nil {
-		return nil, nil, err
-	}
-	comps = append(comps, pcs...)
-	z = append(z, pz...)
-	s := 0.0
-	for _, v := range z {
-		s += v
-	}
-	for i := range z {
-		z[i] /= s
-	}
-	fl, err := eos.NewFluid(comps, eos.DefaultKij(comps, eos.ChuehPrausnitz{}), eos.Options{VolumeShift: shift})
-	if err != nil {
-		return nil, nil, err
-	}
-	return fl, z, nil
+	return build([]component{{"N2", 0.3}, {"CO2", 2.4}, {"C1", 72}, {"C2", 8.5}, {"C3", 4.8}, {"nC4", 2.6}, {"nC5", 1.4}, {"nC6", 1.0}},
+		7, 0.150, 0.80, eos.Characterization{Alpha: 2}, eos.Options{VolumeShift: shift})
+}
+
+// A component is a library component and its mole percent.
+type component struct {
+	name string
+	pct  float64
 }
 
 // A Case is an invented reservoir fluid with the temperature and pressures
@@ -58,14 +37,10 @@ const psi = 6894.757293168361 // Pa per psi, from the lb, g_n and inch definitio
 
 func degF(f float64) float64 { return (f + 459.67) / 1.8 }
 
-// build makes a PR78 fluid with volume shift from library components (mol %)
-// and a C7+ of pct mol %, molar mass m (kg/mol) and specific gravity sg, split
-// by the gamma distribution (shape 2) into four pseudo-components with the
-// Kesler–Lee correlations and the default interaction coefficients.
-func build(defined []struct {
-	name string
-	pct  float64
-}, pct, m, sg float64) (*eos.Fluid, []float64, error) {
+// build makes a fluid from library components (mol %) and a C7+ of pct
+// mol %, molar mass m (kg/mol) and specific gravity sg, split by ch, with the
+// default interaction coefficients.
+func build(defined []component, pct, m, sg float64, ch eos.Characterization, opt eos.Options) (*eos.Fluid, []float64, error) {
 	var comps []eos.Component
 	var z []float64
 	for _, d := range defined {
@@ -73,8 +48,7 @@ func build(defined []struct {
 		comps = append(comps, c)
 		z = append(z, d.pct/100)
 	}
-	pcs, pz, err := eos.SplitPlus(eos.PlusFraction{Name: "C7+", FirstCarbon: 7, Z: pct / 100, M: m, SG: sg},
-		eos.Characterization{Alpha: 2, Correlation: eos.KeslerLee, Acentric: eos.AcentricKeslerLee})
+	pcs, pz, err := eos.SplitPlus(eos.PlusFraction{Name: "C7+", FirstCarbon: 7, Z: pct / 100, M: m, SG: sg}, ch)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -87,21 +61,26 @@ func build(defined []struct {
 	for i := range z {
 		z[i] /= s
 	}
-	fl, err := eos.NewFluid(comps, eos.DefaultKij(comps, eos.ChuehPrausnitz{}), eos.Options{Equation: eos.PR78, VolumeShift: true})
+	fl, err := eos.NewFluid(comps, eos.DefaultKij(comps, eos.ChuehPrausnitz{}), opt)
 	if err != nil {
 		return nil, nil, err
 	}
 	return fl, z, nil
 }
 
+// caseFluid is build for the depletion cases: PR78 with volume shift, the
+// C7+ split by the gamma distribution (shape 2) into four pseudo-components
+// with the Kesler–Lee correlations.
+func caseFluid(defined []component, pct, m, sg float64) (*eos.Fluid, []float64, error) {
+	return build(defined, pct, m, sg, eos.Characterization{Alpha: 2, Correlation: eos.KeslerLee, Acentric: eos.AcentricKeslerLee},
+		eos.Options{Equation: eos.PR78, VolumeShift: true})
+}
+
 // Lean is a lean gas condensate at 300 °F: 3 mol % C7+ of 130 g/mol and
 // specific gravity 0.77; dew point near 2225 psia, maximum liquid dropout
 // about 0.5 % of the cell volume.
 func Lean() (Case, error) {
-	fl, z, err := build([]struct {
-		name string
-		pct  float64
-	}{{"N2", 0.5}, {"CO2", 1.5}, {"C1", 82}, {"C2", 6.5}, {"C3", 3}, {"iC4", 0.7}, {"nC4", 1}, {"iC5", 0.45}, {"nC5", 0.45}, {"nC6", 0.9}},
+	fl, z, err := caseFluid([]component{{"N2", 0.5}, {"CO2", 1.5}, {"C1", 82}, {"C2", 6.5}, {"C3", 3}, {"iC4", 0.7}, {"nC4", 1}, {"iC5", 0.45}, {"nC5", 0.45}, {"nC6", 0.9}},
 		3, 0.130, 0.77)
 	return Case{"lean", fl, z, degF(300), 2600 * psi, 700 * psi}, err
 }
@@ -110,10 +89,7 @@ func Lean() (Case, error) {
 // 5.7 mol % C7+ of 140 g/mol and specific gravity 0.785; dew point near
 // 3920 psia, maximum liquid dropout about 11 %.
 func Sour() (Case, error) {
-	fl, z, err := build([]struct {
-		name string
-		pct  float64
-	}{{"N2", 0.4}, {"CO2", 8}, {"H2S", 2}, {"C1", 68}, {"C2", 7}, {"C3", 4}, {"iC4", 0.9}, {"nC4", 1.5}, {"iC5", 0.7}, {"nC5", 0.7}, {"nC6", 1.1}},
+	fl, z, err := caseFluid([]component{{"N2", 0.4}, {"CO2", 8}, {"H2S", 2}, {"C1", 68}, {"C2", 7}, {"C3", 4}, {"iC4", 0.9}, {"nC4", 1.5}, {"iC5", 0.7}, {"nC5", 0.7}, {"nC6", 1.1}},
 		5.7, 0.140, 0.785)
 	return Case{"sour", fl, z, degF(240), 4400 * psi, 700 * psi}, err
 }
@@ -123,10 +99,7 @@ func Sour() (Case, error) {
 // and 3907 psia, so at 280 °F it has a dew point (near 3867 psia) with a
 // steep liquid dropout below it, up to about 38 % of the cell volume.
 func Rich() (Case, error) {
-	fl, z, err := build([]struct {
-		name string
-		pct  float64
-	}{{"N2", 0.3}, {"CO2", 2}, {"C1", 62.4}, {"C2", 9}, {"C3", 6}, {"iC4", 1.3}, {"nC4", 2.5}, {"iC5", 1.1}, {"nC5", 1.3}, {"nC6", 2.1}},
+	fl, z, err := caseFluid([]component{{"N2", 0.3}, {"CO2", 2}, {"C1", 62.4}, {"C2", 9}, {"C3", 6}, {"iC4", 1.3}, {"nC4", 2.5}, {"iC5", 1.1}, {"nC5", 1.3}, {"nC6", 2.1}},
 		12, 0.135, 0.81)
 	return Case{"rich", fl, z, degF(280), 4300 * psi, 700 * psi}, err
 }
