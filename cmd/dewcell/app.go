@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -23,13 +22,18 @@ const (
 )
 
 // caution is printed to standard error after every result.
-const caution = "caution: screening estimates; reserves and development decisions need review by qualified, licensed professionals under local regulations"
+const caution = "caution: " + cautionText
+
+// cautionText is the caution itself, for the files that carry it.
+const cautionText = "screening estimates; reserves and development decisions need review by qualified, licensed professionals under local regulations"
 
 // Flag names shared by the commands.
 const (
 	flagUnits       = "units"
 	flagFormat      = "format"
 	flagOutput      = "output"
+	flagVerbose     = "verbose"
+	flagTable       = "table"
 	flagPressure    = "pressure"
 	flagTemperature = "temperature"
 )
@@ -137,6 +141,7 @@ func newApp(stdout, stderr io.Writer) *cli.App {
 			inplaceCommand(),
 			recoverCommand(),
 			historyCommand(),
+			reportCommand(),
 			demoCommand(),
 		},
 	}
@@ -173,39 +178,60 @@ func sharedFlags() []cli.Flag {
 		&cli.StringFlag{
 			Name:  flagFormat,
 			Value: formatTable,
-			Usage: "output `FORMAT`: table (for people), csv or json",
+			Usage: "output `FORMAT`: table (for people), csv (one table in full precision; see --table), json (everything) or xlsx (a workbook, with --output FILE.xlsx)",
 			Action: func(_ *cli.Context, s string) error {
 				for _, f := range formats {
 					if s == f {
 						return nil
 					}
 				}
-				return cli.Exit(fmt.Sprintf("--format: unknown format %q, want table, csv or json", s), exitUsage)
+				return cli.Exit(fmt.Sprintf("--format: unknown format %q, want table, csv, json or xlsx", s), exitUsage)
 			},
 		},
 		&cli.StringFlag{
 			Name:  flagOutput,
 			Usage: "write the result to `FILE`, in full or not at all, instead of standard output (\"-\": standard output)",
 		},
+		&cli.StringFlag{
+			Name:  flagTable,
+			Usage: "with --format csv, write the table `NAME` of the result (the first by default; \"summary\" for the summary as one row); a wrong name lists the tables",
+		},
+		&cli.BoolFlag{
+			Name:  flagVerbose,
+			Usage: "show the solvers' iterations and residuals in the tables for people",
+		},
 	}
 }
 
 // options are the settings every command shares.
 type options struct {
-	sys    units.System
-	format string
-	output string // --output as given; "" for standard output
-	target string // the file written: output, its symbolic links resolved
-	direct bool   // target is a device or a named pipe, written in place
-	study  string // path of the study file, "" for commands without one
-	stdout io.Writer
-	stderr io.Writer
+	sys     units.System
+	format  string
+	output  string // --output as given; "" for standard output
+	target  string // the file written: output, its symbolic links resolved
+	direct  bool   // target is a device or a named pipe, written in place
+	study   string // path of the study file, "" for commands without one
+	verbose bool   // --verbose: solver diagnostics in the tables for people
+	brief   bool   // leave the detail tables out of the tables for people (demo)
+	part    string // --table: the table CSV writes
+	stdout  io.Writer
+	stderr  io.Writer
+
+	title   string // the study's title, or its file name, for the files that carry it
+	command string // the command line, as the user could type it again
+
+	// Warnings and notes of the result being built (warn, note).
+	warnings, notes []string
 }
 
 // commonOptions reads the shared flags and, when wantStudy, the one study
 // file argument.
 func commonOptions(c *cli.Context, wantStudy bool) (*options, error) {
-	o := &options{format: c.String(flagFormat), output: c.String(flagOutput), stdout: c.App.Writer, stderr: c.App.ErrWriter}
+	o := &options{format: c.String(flagFormat), output: c.String(flagOutput), verbose: c.Bool(flagVerbose), part: c.String(flagTable),
+		stdout: c.App.Writer, stderr: c.App.ErrWriter, command: commandLine(c)}
+	if o.part != "" && o.format != formatCSV {
+		return nil, cli.Exit(fmt.Sprintf("--%s chooses the table of --format csv; the %s format holds every table", flagTable, o.format), exitUsage)
+	}
 	var err error
 	if o.sys, err = units.ParseSystem(c.String(flagUnits)); err != nil {
 		return nil, cli.Exit("--units: "+err.Error(), exitUsage)
@@ -225,6 +251,14 @@ func commonOptions(c *cli.Context, wantStudy bool) (*options, error) {
 	}
 	if o.output == "-" { // the usual name of standard output
 		o.output = ""
+	}
+	if dir := c.String(flagPlot); dir != "" {
+		if err := checkPlotDir(dir); err != nil {
+			return nil, cli.Exit("--"+flagPlot+": "+err.Error(), exitUsage)
+		}
+	}
+	if o.format == formatXLSX && o.output == "" {
+		return nil, cli.Exit(fmt.Sprintf("--format xlsx writes a workbook file: give its name with --output, such as --output %s.xlsx", c.Command.Name), exitUsage)
 	}
 	if o.output != "" {
 		var err error
@@ -316,7 +350,11 @@ func studyCommand(name, usage string, extra []cli.Flag, act func(c *cli.Context,
 			if err != nil {
 				return err
 			}
-			return userError(act(c, o, st), o.sys)
+			if err := act(c, o, st); err != nil {
+				o.flush()
+				return userError(err, o.sys)
+			}
+			return nil
 		},
 	}
 }
@@ -337,13 +375,8 @@ func (o *options) loadStudy() (*study.Study, error) {
 		return nil, cli.Exit(err, exitUsage)
 	}
 	o.warn(st.Warnings...)
+	o.title = fluidName(st)
 	return st, nil
-}
-
-func (o *options) warn(msgs ...string) {
-	for _, m := range msgs {
-		fmt.Fprintln(o.stderr, "warning:", m)
-	}
 }
 
 // quantityFlag reads a flag holding the pressure or temperature of a state
@@ -358,32 +391,6 @@ func quantityFlag(c *cli.Context, name string, kind units.Kind, atm float64) (v 
 		return 0, false, cli.Exit(fmt.Sprintf("--%s: %v", name, err), exitUsage)
 	}
 	return v, true, nil
-}
-
-// emit renders the reports and writes them to standard output or, with
-// --output, to the file: a temporary file in the same directory, renamed
-// into place once complete, so that the file is written in full or not at all.
-func (o *options) emit(reports ...*Report) error {
-	var buf bytes.Buffer
-	if err := render(&buf, o.format, reports...); err != nil {
-		return err
-	}
-	switch {
-	case o.output == "":
-		if _, err := o.stdout.Write(buf.Bytes()); err != nil {
-			return err
-		}
-	case o.direct:
-		if err := writeInPlace(o.target, buf.Bytes()); err != nil {
-			return fmt.Errorf("--output: cannot write %s: %v", o.output, cause(err))
-		}
-	default:
-		if err := writeAtomic(o.target, buf.Bytes()); err != nil {
-			return fmt.Errorf("--output: cannot write %s: %v", o.output, cause(err))
-		}
-	}
-	fmt.Fprintln(o.stderr, caution)
-	return nil
 }
 
 // writeInPlace writes data to an existing device or named pipe.

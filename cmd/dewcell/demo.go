@@ -15,12 +15,11 @@ import (
 
 	"github.com/urfave/cli/v2"
 
+	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
-	"dewcell/cvd"
 	"dewcell/eos"
 	"dewcell/examples"
-	"dewcell/mbal"
 )
 
 // Flags and names of demo.
@@ -39,22 +38,22 @@ const (
 func demoCommand() *cli.Command {
 	return &cli.Command{
 		Name: "demo",
-		Usage: "run the workflow on the bundled example field: fluid, dew point, phase envelope, constant-volume depletion, separator, " +
-			"gas and condensate in place, depletion recovery and the production-history material balance; " +
-			"prints the summaries and writes every table as CSV and JSON to a folder",
-		ArgsUsage: " ",
+		Usage: "run the whole workflow on the bundled example field, or on STUDY.toml: fluid, dew point, phase envelope, constant-volume depletion, " +
+			"constant-composition expansion, separator, gas and condensate in place, depletion recovery and the production-history material balance; " +
+			"prints the summaries and writes to a folder every result as JSON, its tables as CSV, its figures as SVG and PNG, the workbook and the study report",
+		ArgsUsage: "[STUDY.toml]",
 		Flags: append(sharedFlags(), &cli.StringFlag{
 			Name:  flagDir,
 			Value: defaultDemoDir,
-			Usage: "write the tables to the folder `DIR`: a new folder, an empty one, or one an earlier demo wrote, which is replaced; any other folder is refused",
-		}),
+			Usage: "write the files to the folder `DIR`: a new folder, an empty one, or one an earlier demo wrote, which is replaced; any other folder is refused",
+		}, startAtDewPointFlag()),
 		Action: func(c *cli.Context) error {
-			o, err := commonOptions(c, false)
+			o, err := commonOptions(c, c.Args().Len() > 0)
 			if err != nil {
 				return err
 			}
 			if o.format == formatCSV {
-				return cli.Exit("--format: demo gives several tables, which CSV cannot hold on standard output; use table or json (the folder gets a CSV file per table)", exitUsage)
+				return cli.Exit("--format: demo gives several tables, which CSV cannot hold on standard output; use table, json or xlsx (the folder gets a CSV file per table)", exitUsage)
 			}
 			dir := c.String(flagDir)
 			if err := checkDemoDir(dir); err != nil {
@@ -69,16 +68,47 @@ func demoCommand() *cli.Command {
 					flagDir, dir, parent, cause(err), flagDir), exitUsage)
 			}
 			os.Remove(probe)
-			st, err := study.Parse("examples/"+examples.StudyName, examples.Study)
-			if err != nil {
-				return fmt.Errorf("the bundled example: %w", err) // a defect, not the user's input
+			var st *study.Study
+			var source []byte
+			if o.study == "" {
+				if st, err = study.Parse("examples/"+examples.StudyName, examples.Study); err != nil {
+					return fmt.Errorf("the bundled example: %w", err) // a defect, not the user's input
+				}
+				o.warn(st.Warnings...)
+				o.title = fluidName(st)
+				source = examples.Study
+				fmt.Fprintf(o.stderr, "demo: %s (examples/%s, an invented field)\n", st.Title, examples.StudyName)
+			} else {
+				if st, err = o.loadStudy(); err != nil {
+					return err
+				}
+				if source, err = os.ReadFile(o.study); err != nil {
+					return cli.Exit(fmt.Sprintf("cannot read %s (%v)", o.study, cause(err)), exitUsage)
+				}
+				fmt.Fprintf(o.stderr, "demo: %s\n", fluidName(st))
 			}
-			o.warn(st.Warnings...)
-			fmt.Fprintf(o.stderr, "demo: %s (examples/%s, an invented field)\n", st.Title, examples.StudyName)
-			out, files, err := demoReports(o, st)
+			out, err := workflow(o, st, c.Bool(flagStartAtDew))
 			if err != nil {
+				o.flush()
 				return userError(err, o.sys)
 			}
+			files, err := demoFiles(out)
+			if err != nil {
+				return err
+			}
+			figures, err := figureFiles(out...)
+			if err != nil {
+				return err
+			}
+			var book bytes.Buffer
+			if err := writeWorkbook(&book, o, append([]*Report{inputsReport(st, o.sys)}, out...)...); err != nil {
+				return fmt.Errorf("demo: the workbook: %w", err)
+			}
+			page, err := studyReport(o, st, source, o.command, out)
+			if err != nil {
+				return fmt.Errorf("demo: the study report: %w", err)
+			}
+			files = append(append(files, figures...), demoFile{demoWorkbook, book.Bytes()}, demoFile{demoReport, page})
 			note, err := writeDemoDir(dir, files)
 			if err != nil {
 				var refused *demoRefusal
@@ -94,11 +124,19 @@ func demoCommand() *cli.Command {
 			if err != nil {
 				abs = dir
 			}
-			fmt.Fprintf(o.stderr, "demo: %d tables written to %s, each as CSV and JSON\n", len(files)/2, abs)
+			fmt.Fprintf(o.stderr, "demo: %d results written to %s: each as JSON and its tables as CSV, %d figures as SVG and PNG, the workbook %s and the study report %s\n",
+				len(out), abs, len(figures)/2, demoWorkbook, demoReport)
+			o.brief = true
 			return o.emit(out...)
 		},
 	}
 }
+
+// The workbook and the study report in the demo folder.
+const (
+	demoWorkbook = "results.xlsx"
+	demoReport   = "report.html"
+)
 
 // A demoFile is one file of the demo folder.
 type demoFile struct {
@@ -106,105 +144,30 @@ type demoFile struct {
 	data []byte
 }
 
-// demoReports runs the workflow on the example. It returns the summaries
-// for standard output and the files of the demo folder: every report as CSV
-// (the form one table can hold) and as JSON (in full).
-func demoReports(o *options, st *study.Study) ([]*Report, []demoFile, error) {
-	sys := o.sys
-	var out []*Report
+// demoFiles are the files of the demo folder: every report as JSON (in
+// full) and each of its tables as CSV (name.csv for the first,
+// name-part.csv for the others).
+func demoFiles(reports []*Report) ([]demoFile, error) {
 	var files []demoFile
-	// add keeps r for standard output and writes full as JSON and csv as
-	// CSV; full and csv may be r itself.
-	add := func(r, full, csvForm *Report) error {
-		out = append(out, r)
-		for _, f := range []struct {
-			format string
-			r      *Report
-		}{{formatCSV, csvForm}, {formatJSON, full}} {
+	for _, r := range reports {
+		for i, part := range r.Parts() {
 			var b bytes.Buffer
-			if err := render(&b, f.format, f.r); err != nil {
-				return fmt.Errorf("demo: %s as %s: %w", r.Name, f.format, err)
+			if err := report.WriteCSV(&b, r, part); err != nil {
+				return nil, fmt.Errorf("internal error: demo: %s as CSV: %w", r.Name, err)
 			}
-			files = append(files, demoFile{name: r.Name + "." + f.format, data: b.Bytes()})
+			name := r.Name + ".csv"
+			if i > 0 {
+				name = r.Name + "-" + strings.ReplaceAll(part, "_", "-") + ".csv"
+			}
+			files = append(files, demoFile{name: name, data: b.Bytes()})
 		}
-		return nil
+		var b bytes.Buffer
+		if err := report.WriteJSON(&b, r); err != nil {
+			return nil, fmt.Errorf("internal error: demo: %s as JSON: %w", r.Name, err)
+		}
+		files = append(files, demoFile{name: r.Name + ".json", data: b.Bytes()})
 	}
-
-	fluid := fluidReport(st, sys)
-	if err := add(fluid, fluid, fluid); err != nil {
-		return nil, nil, err
-	}
-	sat, up, err := satpointReport(st, sys, st.Reservoir.Temperature)
-	if err != nil {
-		return nil, nil, err
-	}
-	if err := add(sat, sat, sat); err != nil {
-		return nil, nil, err
-	}
-	noteMargin(o, st, up)
-	env, warnings, err := envelopeReport(st, sys, true)
-	if err != nil {
-		return nil, nil, err
-	}
-	o.warn(warnings...)
-	envSummary := *env
-	envSummary.Tables = env.Tables[len(env.Tables)-1:] // the critical point and extremes
-	if err := add(&envSummary, env, env); err != nil {
-		return nil, nil, err
-	}
-
-	tr := trainOf(st, sys)
-	d, err := cvd.Deplete(st.Fluid, st.Z, st.Reservoir.Temperature, cvd.DepletionOptions{Pressures: st.Depletion, Train: &tr})
-	if err != nil {
-		return nil, nil, fmt.Errorf("constant-volume depletion at %s: %w", temperatureText(sys, st.Reservoir.Temperature), err)
-	}
-	dep := depletionReport(st, sys, tr, d, false)
-	depSummary := *dep
-	depSummary.Tables = dep.Tables[:1] // the steps, without the compositions
-	if err := add(&depSummary, dep, depletionReport(st, sys, tr, d, true)); err != nil {
-		return nil, nil, err
-	}
-	sep, err := separateReport(st, sys, false)
-	if err != nil {
-		return nil, nil, err
-	}
-	sepCSV, err := separateReport(st, sys, true)
-	if err != nil {
-		return nil, nil, err
-	}
-	if err := add(sepCSV, sep, sepCSV); err != nil {
-		return nil, nil, err
-	}
-
-	ip, err := inplaceReport(o, st)
-	if err != nil {
-		return nil, nil, err
-	}
-	if err := add(ip, ip, ip); err != nil {
-		return nil, nil, err
-	}
-	rec, err := recoverReport(o, st, mbal.RecoverOptions{Steps: defaultRecoverySteps})
-	if err != nil {
-		return nil, nil, err
-	}
-	if err := add(rec, rec, rec); err != nil {
-		return nil, nil, err
-	}
-	h, err := historyRun(o, st, mbal.DefaultConfidence)
-	if err != nil {
-		return nil, nil, err
-	}
-	if h.ho.WaterInfluxSuspected {
-		o.warn("water influx suspected: " + h.ho.Reason)
-	} else {
-		fmt.Fprintln(o.stderr, "demo: history influx test: "+h.ho.Reason)
-	}
-	hist := historyReportOf(st, sys, h, o.format != formatTable)
-	histFull := historyReportOf(st, sys, h, true)
-	if err := add(hist, histFull, histFull); err != nil {
-		return nil, nil, err
-	}
-	return out, files, nil
+	return files, nil
 }
 
 // A demoRefusal says why demo will not replace a folder.
@@ -355,10 +318,10 @@ func readDemoMarker(dir string) (map[string]demoEntry, bool) {
 func demoMarkerText(files []demoFile) []byte {
 	var b bytes.Buffer
 	fmt.Fprintln(&b, demoSignature)
-	fmt.Fprintf(&b, "\nThese tables were written by `dewcell demo` from the bundled example study, examples/%s\n", examples.StudyName)
-	fmt.Fprintln(&b, "(an invented field). Each table is given as CSV and as JSON, with the unit at the end of")
-	fmt.Fprintln(&b, "every column name. The next `dewcell demo` into this folder replaces it, as long as it")
-	fmt.Fprintln(&b, "holds only these files, unchanged (name, size in bytes, SHA-256):")
+	fmt.Fprintln(&b, "\nThese files were written by `dewcell demo`: every result as JSON, its tables as CSV (the")
+	fmt.Fprintln(&b, "unit at the end of every column name), its figures as SVG and PNG, all of them in the")
+	fmt.Fprintf(&b, "workbook %s, and the study report %s. The next `dewcell demo` into this folder\n", demoWorkbook, demoReport)
+	fmt.Fprintln(&b, "replaces it, as long as it holds only these files, unchanged (name, size in bytes, SHA-256):")
 	fmt.Fprintln(&b)
 	for _, f := range files {
 		e := entryOf(f.data)
@@ -460,7 +423,7 @@ func noteMargin(o *options, st *study.Study, up eos.Saturation) {
 	pU := o.sys.Unit(units.Pressure)
 	d := pU.FromSI(pi) - pU.FromSI(up.P)
 	if d >= 0 {
-		fmt.Fprintf(o.stderr, "demo: the initial pressure is %.4g %s above the computed %s point\n", d, pU.Symbol, up.Type)
+		o.note(fmt.Sprintf("the initial pressure is %.4g %s above the computed %s point", d, pU.Symbol, up.Type))
 		return
 	}
 	o.warn(fmt.Sprintf("the initial pressure of %s is %.4g %s below the computed %s point: the reservoir would be two-phase at discovery",

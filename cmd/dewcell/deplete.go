@@ -7,6 +7,7 @@ import (
 
 	"github.com/urfave/cli/v2"
 
+	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/cvd"
@@ -31,6 +32,9 @@ const (
 // copies a dew point to its printed digits starts at that dew point.
 const atDewTolerance = 1e-6
 
+// atDewToleranceText is atDewTolerance for people.
+const atDewToleranceText = "one part in a million"
+
 func depleteCommand() *cli.Command {
 	return studyCommand("deplete",
 		"simulated constant-volume depletion at the reservoir temperature, in the laboratory's steps: liquid dropout, produced moles, Z-factors, phase properties and surface yields per step, and the maximum dropout of the continuous depletion. The cumulative yields are the laboratory's, whose finite steps produce leaner gas than a reservoir does: for the reservoir's recovery use recover",
@@ -39,13 +43,14 @@ func depleteCommand() *cli.Command {
 			&cli.IntFlag{Name: flagSteps, Usage: fmt.Sprintf("`N` even steps, 1 to %d, from the dew point down to reservoir.abandonment_pressure, instead of the study's [depletion] pressures", maxSteps),
 				DefaultText: fmt.Sprintf("the study's [depletion] pressures, or %d steps without them", defaultDepletionSteps)},
 			&cli.BoolFlag{Name: flagFromInitial, Usage: "start at reservoir.initial_pressure above the dew point; the steps may then lie above the dew point"},
+			plotFlag(),
 		},
 		func(c *cli.Context, o *options, st *study.Study) error {
 			r, err := depleteReport(c, o, st)
 			if err != nil {
 				return err
 			}
-			return o.emit(r)
+			return o.emitPlots(c, r)
 		})
 }
 
@@ -117,8 +122,8 @@ func depletionOptions(c *cli.Context, o *options, st *study.Study, sat eos.Satur
 			return opt, bad("--%s: reservoir.initial_pressure of %s (%s) is below the computed %s (%s): the cell would start two-phase; leave out --%s to start at the %s",
 				flagFromInitial, st.File, pressureText(o.sys, pi), point, pressureText(o.sys, pd), flagFromInitial, point)
 		case pi <= pd*(1+atDewTolerance):
-			fmt.Fprintf(o.stderr, "deplete: reservoir.initial_pressure of %s is the computed %s (%s) within %g relative: the depletion starts at the %s\n",
-				st.File, point, pressureText(o.sys, pd), atDewTolerance, point)
+			o.note(fmt.Sprintf("reservoir.initial_pressure of %s is the computed %s (%s) within %s: the depletion starts at the %s",
+				st.File, point, pressureText(o.sys, pd), atDewToleranceText, point))
 		default:
 			opt.Start = pi
 		}
@@ -173,7 +178,7 @@ func depletionOptions(c *cli.Context, o *options, st *study.Study, sat eos.Satur
 			return opt, bad("--%s: %d, want a number of steps from 1 to %d", flagSteps, opt.Steps, maxSteps)
 		}
 		if st.Depletion != nil {
-			fmt.Fprintf(o.stderr, "deplete: --%s given: the [depletion] pressures of %s are not used\n", flagSteps, st.File)
+			o.note(fmt.Sprintf("--%s given: the [depletion] pressures of %s are not used", flagSteps, st.File))
 		}
 	}
 	pa := st.Reservoir.AbandonmentPressure
@@ -219,13 +224,13 @@ func depleteReport(c *cli.Context, o *options, st *study.Study) (*Report, error)
 	if err != nil {
 		return nil, fmt.Errorf("constant-volume depletion at %s: %w", temperatureText(o.sys, t), err)
 	}
-	return depletionReport(st, o.sys, tr, d, o.format == formatCSV), nil
+	return depletionReport(st, o.sys, tr, d), nil
 }
 
-// depletionReport shows d in sys. For table and JSON the compositions are
-// tables of their own; a CSV table holds them as columns of the steps
-// (gas_composition_C1, …, liquid_composition_C1, …).
-func depletionReport(st *study.Study, sys units.System, tr cvd.Train, d *cvd.Depletion, csvOnly bool) *Report {
+// depletionReport shows d in sys: the steps, the compositions of the
+// produced gas and of the retrograde liquid (detail tables), and the
+// figures of liquid dropout and produced-gas composition against pressure.
+func depletionReport(st *study.Study, sys units.System, tr cvd.Train, d *cvd.Depletion) *Report {
 	tU, pU, dU, vU := sys.Unit(units.Temperature), sys.Unit(units.Pressure), sys.Unit(units.Density), sys.Unit(units.MolarVolume)
 	su := surfaceUnitsOf(sys)
 	satName := "dew_pressure"
@@ -233,50 +238,44 @@ func depletionReport(st *study.Study, sys units.System, tr cvd.Train, d *cvd.Dep
 		satName = "bubble_pressure"
 	}
 	r := &Report{
-		Name:  "depletion",
-		Title: fmt.Sprintf("constant-volume depletion of %s at %s", fluidName(st), temperatureText(sys, d.T)),
+		Name:    "depletion",
+		Section: "Constant-volume depletion",
+		Title:   fmt.Sprintf("constant-volume depletion of %s at %s", fluidName(st), temperatureText(sys, d.T)),
 		Fields: append([]Field{
-			{Column{Name: "temperature", Unit: tU}, tU.FromSI(d.T)},
-			{Column{Name: satName, Unit: pU}, pU.FromSI(d.Dew.P)},
-			{Column{Name: "start_pressure", Unit: pU}, pU.FromSI(d.Steps[0].P)},
-			{Column{Name: "cell_volume", Unit: vU}, vU.FromSI(d.CellVolume)},
-			{Column{Name: "max_liquid_dropout", Unit: units.Percent}, units.Percent.FromSI(d.MaxDropout)},
-			{Column{Name: "max_dropout_pressure", Unit: pU}, pU.FromSI(d.MaxDropoutP)},
+			{Column: Column{Name: "temperature", Unit: tU}, Value: tU.FromSI(d.T)},
+			{Column: Column{Name: satName, Unit: pU}, Value: pU.FromSI(d.Dew.P)},
+			{Column: Column{Name: "start_pressure", Unit: pU}, Value: pU.FromSI(d.Steps[0].P)},
+			{Column: Column{Name: "cell_volume", Unit: vU}, Value: vU.FromSI(d.CellVolume)},
+			{Column: Column{Name: "max_liquid_dropout", Label: "Maximum liquid dropout (continuous depletion)", Unit: units.Percent}, Value: units.Percent.FromSI(d.MaxDropout)},
+			{Column: Column{Name: "max_dropout_pressure", Label: "Pressure of the maximum dropout", Unit: pU}, Value: pU.FromSI(d.MaxDropoutP)},
 		}, standardFields(tr, sys)...),
 	}
 	names := componentNames(st.Fluid)
 	cols := []Column{
 		{Name: "pressure", Unit: pU},
 		{Name: "liquid_dropout", Unit: units.Percent},
-		{Name: "produced", Unit: units.Percent},
-		{Name: "z_gas"},
-		{Name: "z_two_phase"},
+		{Name: "produced", Label: "Produced, cumulative", Unit: units.Percent},
+		{Name: "z_gas", Format: report.ZFactor},
+		{Name: "z_two_phase", Format: report.ZFactor},
 		{Name: "gas_density", Unit: dU},
 		{Name: "liquid_density", Unit: dU},
 		{Name: "gas_molar_mass", Unit: units.GPerMol},
 		{Name: "liquid_molar_mass", Unit: units.GPerMol},
 		{Name: "gas_viscosity", Unit: centipoise.Unit},
-		{Name: "cgr", Unit: su.cgr.Unit},
-		{Name: "surface_gas_gravity"},
+		{Name: "cgr", Label: "CGR of the step", Unit: su.cgr.Unit},
+		{Name: "surface_gas_gravity", Format: report.Gravity},
 		{Name: "cum_sales_gas", Unit: su.gasPerMol.Unit},
 		{Name: "cum_condensate", Unit: su.oilPerMol.Unit},
-	}
-	if csvOnly {
-		for _, n := range names {
-			cols = append(cols, Column{Name: "gas_composition_" + n})
-		}
-		for _, n := range names {
-			cols = append(cols, Column{Name: "liquid_composition_" + n})
-		}
 	}
 	steps := Table{Name: "steps", Title: "depletion steps (per mole of fluid initially in the cell)", Columns: cols}
 	compCols := append([]Column{{Name: "pressure", Unit: pU}}, make([]Column, len(names))...)
 	for i, n := range names {
-		compCols[i+1] = Column{Name: n}
+		compCols[i+1] = Column{Name: n, Label: n, Format: report.MoleFraction}
 	}
-	gas := Table{Name: "gas_composition", Title: "produced gas composition, mole fraction", Columns: compCols}
-	liquid := Table{Name: "liquid_composition", Title: "retrograde liquid composition, mole fraction", Columns: compCols}
+	gas := Table{Name: "gas_composition", Title: "produced gas composition, mole fraction", Columns: compCols, Detail: true}
+	liquid := Table{Name: "liquid_composition", Title: "retrograde liquid composition, mole fraction", Columns: compCols, Detail: true}
 
+	dropout := report.Series{Label: "Liquid dropout, laboratory steps", Style: report.LinePoints}
 	for _, s := range d.Steps {
 		var liqRho, liqM, cgr, gravity, cumGas, cumOil any
 		if s.TwoPhase {
@@ -289,7 +288,7 @@ func depletionReport(st *study.Study, sys units.System, tr cvd.Train, d *cvd.Dep
 			}
 		}
 		p := pU.FromSI(s.P)
-		row := []any{
+		steps.Rows = append(steps.Rows, []any{
 			p,
 			units.Percent.FromSI(s.LiquidDropout),
 			units.Percent.FromSI(s.Produced),
@@ -301,26 +300,84 @@ func depletionReport(st *study.Study, sys units.System, tr cvd.Train, d *cvd.Dep
 			liqM,
 			centipoise.of(s.GasViscosity),
 			cgr, gravity, cumGas, cumOil,
-		}
-		gasRow := append([]any{p}, floats(s.Y, len(names))...)
-		liqRow := append([]any{p}, floats(s.X, len(names))...)
-		if csvOnly {
-			row = append(append(row, gasRow[1:]...), liqRow[1:]...)
-		}
-		steps.Rows = append(steps.Rows, row)
-		gas.Rows = append(gas.Rows, gasRow)
+		})
+		gas.Rows = append(gas.Rows, append([]any{p}, floats(s.Y, len(names))...))
 		if s.TwoPhase {
-			liquid.Rows = append(liquid.Rows, liqRow)
+			liquid.Rows = append(liquid.Rows, append([]any{p}, floats(s.X, len(names))...))
 		}
+		dropout.X = append(dropout.X, p)
+		dropout.Y = append(dropout.Y, units.Percent.FromSI(s.LiquidDropout))
 	}
-	r.Tables = []Table{steps}
-	if !csvOnly {
-		r.Tables = append(r.Tables, gas)
-		if len(liquid.Rows) > 0 {
-			r.Tables = append(r.Tables, liquid)
-		}
+	r.Tables = []Table{steps, gas}
+	if len(liquid.Rows) > 0 {
+		r.Tables = append(r.Tables, liquid)
 	}
+	drop := &report.Figure{
+		Name:    "cvd-liquid-dropout",
+		Title:   "Constant-volume depletion: liquid dropout",
+		Caption: "Retrograde liquid as a share of the cell volume at each step, and the maximum of the continuous depletion.",
+		X:       report.Axis{Label: "Pressure", Unit: pU},
+		Y:       report.Axis{Label: "Liquid dropout", Unit: units.Percent},
+		Series:  []report.Series{dropout},
+	}
+	if d.MaxDropout > 0 {
+		drop.Marks = []report.Mark{{Label: "Maximum dropout", X: pU.FromSI(d.MaxDropoutP), Y: units.Percent.FromSI(d.MaxDropout)}}
+	}
+	r.Figures = []*report.Figure{drop, compositionFigure(st, pU, gas)}
 	return r
+}
+
+// heavyMolarMass (kg/mol) divides the components a composition figure
+// draws one by one from those it lumps: heavier than hexane (86.18 g/mol,
+// Poling, Prausnitz and O'Connell, 5th ed., Appendix A) is the C7+ that
+// makes the condensate.
+const heavyMolarMass = 0.090
+
+// compositionFigure draws the produced-gas composition of the table gas
+// (pressure, then a mole fraction per component) against pressure: each
+// component up to hexane on its own, the heavier ones lumped.
+func compositionFigure(st *study.Study, pU units.Unit, gas Table) *report.Figure {
+	f := &report.Figure{
+		Name:    "cvd-gas-composition",
+		Title:   "Constant-volume depletion: produced gas composition",
+		Caption: "Mole fraction of each component in the gas removed at each step; the components heavier than hexane are lumped.",
+		X:       report.Axis{Label: "Pressure", Unit: pU},
+		Y:       report.Axis{Label: "Mole fraction", Log: true},
+	}
+	names, comps := componentNames(st.Fluid), st.Fluid.Components()
+	heavy := report.Series{Label: "Heavier than C6 (C7+)", Style: report.LinePoints}
+	var light []report.Series
+	for j, n := range names {
+		if comps[j].M > heavyMolarMass {
+			continue
+		}
+		light = append(light, report.Series{Label: n, Style: report.LinePoints})
+	}
+	for _, row := range gas.Rows {
+		p := row[0].(float64)
+		k, sum, some := 0, 0.0, false
+		for j := range names {
+			y, ok := row[j+1].(float64)
+			if comps[j].M > heavyMolarMass {
+				if ok {
+					sum, some = sum+y, true
+				}
+				continue
+			}
+			if ok {
+				light[k].X, light[k].Y = append(light[k].X, p), append(light[k].Y, y)
+			}
+			k++
+		}
+		if some {
+			heavy.X, heavy.Y = append(heavy.X, p), append(heavy.Y, sum)
+		}
+	}
+	f.Series = light
+	if len(heavy.X) > 0 {
+		f.Series = append(f.Series, heavy)
+	}
+	return f
 }
 
 // floats gives x as n cells, each missing when x is nil.

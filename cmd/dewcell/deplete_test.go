@@ -330,11 +330,23 @@ func TestDepleteFormats(t *testing.T) {
 	for i, h := range recs[0] {
 		col[h] = i
 	}
-	for _, k := range []string{"pressure_psia", "liquid_dropout_pct", "produced_pct", "z_gas", "z_two_phase", "gas_viscosity_cP",
-		"cgr_stb_mmscf", "gas_composition_C1", "liquid_composition_P2", "max_liquid_dropout_pct", "max_dropout_pressure_psia"} {
+	for _, k := range []string{"pressure_psia", "liquid_dropout_pct", "produced_pct", "z_gas", "z_two_phase", "gas_viscosity_cP", "cgr_stb_mmscf"} {
 		if _, ok := col[k]; !ok {
 			t.Errorf("csv header %q lacks %s", recs[0], k)
 		}
+	}
+	// The CSV holds one table in full; the others, and the summary, are
+	// asked for by name, and a wrong name lists them.
+	for _, c := range []struct{ part, key string }{
+		{"gas_composition", "C1"}, {"liquid_composition", "P2"}, {"summary", "max_liquid_dropout_pct"}, {"summary", "max_dropout_pressure_psia"},
+	} {
+		code, out, stderr := dewcell("deplete", "--format", "csv", "--table", c.part, o9Study)
+		if code != 0 || !strings.Contains(strings.SplitN(out, "\n", 2)[0], c.key) {
+			t.Errorf("--table %s: exit %d, header lacks %s: %s%s", c.part, code, c.key, out, stderr)
+		}
+	}
+	if code, _, stderr := dewcell("deplete", "--format", "csv", "--table", "nonesuch", o9Study); code != 2 || !strings.Contains(stderr, "gas_composition") {
+		t.Errorf("--table nonesuch: exit %d, want a failure listing the tables: %s", code, stderr)
 	}
 	if i, ok := col["liquid_dropout_pct"]; ok {
 		got, err := strconv.ParseFloat(recs[3][i], 64) // 3000 psia
@@ -344,7 +356,7 @@ func TestDepleteFormats(t *testing.T) {
 		checkAbs(t, "csv liquid_dropout_pct at 3000 psia", got, 8.9723429, cvdPctTol, "pr-open.md, CVD at 220 degF")
 	}
 	code, out, _ = dewcell("deplete", o9Study)
-	for _, want := range []string{"max liquid dropout [%]", "liquid dropout [%]", "z two phase", "produced gas composition", "retrograde liquid composition"} {
+	for _, want := range []string{"Maximum liquid dropout", "Liquid", "dropout", "[%]", "two-phase", "Produced gas composition", "Retrograde liquid composition"} {
 		if code != 0 || !strings.Contains(out, want) {
 			t.Errorf("table: exit %d, output lacks %q:\n%s", code, want, out)
 		}

@@ -5,6 +5,7 @@ import (
 
 	"github.com/urfave/cli/v2"
 
+	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/eos"
@@ -13,31 +14,32 @@ import (
 func envelopeCommand() *cli.Command {
 	return studyCommand("envelope",
 		"the phase envelope: dew and bubble branches, critical point, cricondenbar, cricondentherm",
-		nil, func(_ *cli.Context, o *options, st *study.Study) error {
-			r, warnings, err := envelopeReport(st, o.sys, true)
+		[]cli.Flag{plotFlag()}, func(c *cli.Context, o *options, st *study.Study) error {
+			r, err := envelopeReport(st, o.sys)
 			if err != nil {
 				return err
 			}
-			o.warn(warnings...)
-			return o.emit(r)
+			return o.emitPlots(c, r)
 		})
 }
 
-// envelopeReport traces the phase envelope of the study's feed. The summary
-// table holds the critical point (when found), the cricondenbar and the
-// cricondentherm; the points table, when withPoints, every traced point.
-// The warnings say where the trace stopped short.
-func envelopeReport(st *study.Study, sys units.System, withPoints bool) (*Report, []string, error) {
+// envelopeReport traces the phase envelope of the study's feed: the
+// critical point (when found), the cricondenbar and the cricondentherm,
+// every traced point (a detail table), the figure with the reservoir's
+// temperature and its initial and saturation points, and a warning where
+// the trace stopped short.
+func envelopeReport(st *study.Study, sys units.System) (*Report, error) {
 	env, err := eos.TraceEnvelope(st.Fluid, st.Z, nil)
 	if err != nil {
-		return nil, nil, fmt.Errorf("phase envelope: %w", err)
+		return nil, fmt.Errorf("phase envelope: %w", err)
 	}
 	tU, pU := sys.Unit(units.Temperature), sys.Unit(units.Pressure)
-	var warnings []string
+	r := &Report{Name: "envelope", Section: "Phase envelope", Title: "phase envelope of " + fluidName(st),
+		Fields: []Field{{Column: Column{Name: "trace_end", Label: "End of the trace"}, Value: env.End.String()}}}
 	if msg := envelopeEndText(env, tU, pU); msg != "" {
-		warnings = append(warnings, "phase envelope: "+msg)
+		r.Warn("phase envelope: " + msg)
 	}
-	cols := []Column{{Name: "type"}, {Name: "temperature", Unit: tU}, {Name: "pressure", Unit: pU}}
+	cols := []Column{{Name: "type", Label: "Point"}, {Name: "temperature", Unit: tU}, {Name: "pressure", Unit: pU}}
 	row := func(kind string, t, p float64) []any { return []any{kind, tU.FromSI(t), pU.FromSI(p)} }
 	summary := Table{Name: "summary", Title: "critical point and extremes", Columns: cols}
 	if env.HasCritical {
@@ -46,17 +48,66 @@ func envelopeReport(st *study.Study, sys units.System, withPoints bool) (*Report
 	summary.Rows = append(summary.Rows,
 		row("cricondenbar", env.Cricondenbar[0], env.Cricondenbar[1]),
 		row("cricondentherm", env.Cricondentherm[0], env.Cricondentherm[1]))
-	r := &Report{Name: "envelope", Title: "phase envelope of " + fluidName(st),
-		Fields: []Field{{Column{Name: "trace_end"}, env.End.String()}}}
-	if withPoints {
-		points := Table{Name: "points", Title: "envelope points", Columns: cols}
-		for _, pt := range env.Points {
-			points.Rows = append(points.Rows, row(pt.Type.String(), pt.T, pt.P))
-		}
-		r.Tables = append(r.Tables, points)
+	points := Table{Name: "points", Title: "envelope points", Columns: cols, Detail: true}
+	for _, pt := range env.Points {
+		points.Rows = append(points.Rows, row(pt.Type.String(), pt.T, pt.P))
 	}
-	r.Tables = append(r.Tables, summary)
-	return r, warnings, nil
+	r.Tables = []Table{points, summary}
+	r.Figures = []*report.Figure{envelopeFigure(st, sys, env)}
+	return r, nil
+}
+
+// envelopeFigure draws the dew and bubble branches of env with its
+// critical point and extremes, the reservoir temperature, and the
+// reservoir's initial state and saturation point on it.
+func envelopeFigure(st *study.Study, sys units.System, env *eos.Envelope) *report.Figure {
+	tU, pU := sys.Unit(units.Temperature), sys.Unit(units.Pressure)
+	f := &report.Figure{
+		Name:  "phase-envelope",
+		Title: "Phase envelope",
+		Caption: "Saturation pressure against temperature from the equation of state: the dew branch, and the bubble branch beyond the critical point; " +
+			"the reservoir depletes along its temperature line.",
+		X: report.Axis{Label: "Temperature", Unit: tU},
+		Y: report.Axis{Label: "Pressure", Unit: pU},
+	}
+	var dew, bubble report.Series
+	dew = report.Series{Label: "Dew points", Style: report.Line}
+	bubble = report.Series{Label: "Bubble points", Style: report.Dashed}
+	for _, pt := range env.Points {
+		s := &dew
+		if pt.Type == eos.Bubble {
+			s = &bubble
+		}
+		s.X = append(s.X, tU.FromSI(pt.T))
+		s.Y = append(s.Y, pU.FromSI(pt.P))
+	}
+	// The branches meet at the critical point.
+	if env.HasCritical && len(dew.X) > 0 && len(bubble.X) > 0 {
+		tc, pc := tU.FromSI(env.Critical[0]), pU.FromSI(env.Critical[1])
+		dew.X, dew.Y = append(dew.X, tc), append(dew.Y, pc)
+		bubble.X, bubble.Y = append([]float64{tc}, bubble.X...), append([]float64{pc}, bubble.Y...)
+	}
+	for _, s := range []report.Series{dew, bubble} {
+		if len(s.X) > 0 {
+			f.Series = append(f.Series, s)
+		}
+	}
+	if env.HasCritical {
+		f.Marks = append(f.Marks, report.Mark{Label: "Critical point", X: tU.FromSI(env.Critical[0]), Y: pU.FromSI(env.Critical[1])})
+	}
+	f.Marks = append(f.Marks,
+		report.Mark{Label: "Cricondenbar", X: tU.FromSI(env.Cricondenbar[0]), Y: pU.FromSI(env.Cricondenbar[1])},
+		report.Mark{Label: "Cricondentherm", X: tU.FromSI(env.Cricondentherm[0]), Y: pU.FromSI(env.Cricondentherm[1])})
+	if t := st.Reservoir.Temperature; t > 0 {
+		f.Lines = append(f.Lines, report.RefLine{Label: "Reservoir temperature", Value: tU.FromSI(t), Vertical: true})
+		if pi := st.Reservoir.InitialPressure; pi > 0 {
+			f.Marks = append(f.Marks, report.Mark{Label: "Initial state", X: tU.FromSI(t), Y: pU.FromSI(pi)})
+		}
+		if sat, err := eos.UpperSaturation(st.Fluid, t, st.Z, nil); err == nil {
+			f.Marks = append(f.Marks, report.Mark{Label: report.Capitalize(sat.Type.String()) + " point at reservoir temperature", X: tU.FromSI(t), Y: pU.FromSI(sat.P)})
+		}
+	}
+	return f
 }
 
 // envelopeEndText says in one line where the trace of env stopped and what

@@ -6,6 +6,7 @@ import (
 
 	"github.com/urfave/cli/v2"
 
+	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/cvd"
@@ -25,6 +26,7 @@ func expandCommand() *cli.Command {
 		[]cli.Flag{
 			&cli.StringFlag{Name: flagPressures, Usage: "the pressures, in any order, comma-separated, each with its unit: `LIST` such as \"5000 psia, 4000 psia, 3000 psia\" (default: 1.3, 1.2, 1.1 and 1.05 times the saturation pressure, the saturation pressure, then 10 even steps down to reservoir.abandonment_pressure)"},
 			&cli.StringFlag{Name: flagTemperature, Usage: "temperature `T` with its unit, e.g. \"220 degF\" (default: the reservoir temperature)"},
+			plotFlag(),
 		},
 		func(c *cli.Context, o *options, st *study.Study) error {
 			t, err := temperatureOrReservoir(c, st)
@@ -55,7 +57,7 @@ func expandCommand() *cli.Command {
 			if err != nil {
 				return fmt.Errorf("constant-composition expansion at %s: %w", temperatureText(o.sys, t), err)
 			}
-			return o.emit(expansionReport(st, o.sys, e))
+			return o.emitPlots(c, expansionReport(st, o.sys, e))
 		})
 }
 
@@ -95,14 +97,15 @@ func expansionReport(st *study.Study, sys units.System, e *cvd.Expansion) *Repor
 		satName = "bubble_pressure"
 	}
 	r := &Report{
-		Name:  "expansion",
-		Title: fmt.Sprintf("constant-composition expansion of %s at %s", fluidName(st), temperatureText(sys, e.T)),
+		Name:    "expansion",
+		Section: "Constant-composition expansion",
+		Title:   fmt.Sprintf("constant-composition expansion of %s at %s", fluidName(st), temperatureText(sys, e.T)),
 		Fields: []Field{
-			{Column{Name: "temperature", Unit: tU}, tU.FromSI(e.T)},
-			{Column{Name: "type"}, e.Saturation.Type.String()},
-			{Column{Name: satName, Unit: pU}, pU.FromSI(e.Saturation.P)},
-			{Column{Name: "z_saturation"}, e.Saturation.Feed.Z},
-			{Column{Name: "saturation_volume", Unit: vU}, vU.FromSI(e.VSat)},
+			{Column: Column{Name: "temperature", Unit: tU}, Value: tU.FromSI(e.T)},
+			{Column: Column{Name: "type"}, Value: e.Saturation.Type.String()},
+			{Column: Column{Name: satName, Unit: pU}, Value: pU.FromSI(e.Saturation.P)},
+			{Column: Column{Name: "z_saturation", Label: "Z at saturation", Format: report.ZFactor}, Value: e.Saturation.Feed.Z},
+			{Column: Column{Name: "saturation_volume", Unit: vU}, Value: vU.FromSI(e.VSat)},
 		},
 	}
 	steps := Table{
@@ -110,15 +113,21 @@ func expansionReport(st *study.Study, sys units.System, e *cvd.Expansion) *Repor
 		Title: "expansion steps (volumes relative to the volume at the saturation point)",
 		Columns: []Column{
 			{Name: "pressure", Unit: pU},
-			{Name: "relative_volume"},
+			{Name: "relative_volume", Format: report.Fixed(4)},
 			{Name: "liquid_volume", Unit: units.Percent},
-			{Name: "z"},
-			{Name: "z_two_phase"},
-			{Name: "vapor_fraction"},
+			{Name: "z", Format: report.ZFactor},
+			{Name: "z_two_phase", Format: report.ZFactor},
+			{Name: "vapor_fraction", Label: "Vapour mole fraction", Format: report.MoleFraction},
 			{Name: "compressibility", Unit: cU},
 		},
 	}
+	relVol := report.Series{Label: "Relative volume", Style: report.LinePoints}
+	liqVol := report.Series{Label: "Liquid volume", Style: report.LinePoints}
 	for _, s := range e.Steps {
+		relVol.X, relVol.Y = append(relVol.X, pU.FromSI(s.P)), append(relVol.Y, s.RelativeVolume)
+		if s.TwoPhase {
+			liqVol.X, liqVol.Y = append(liqVol.X, pU.FromSI(s.P)), append(liqVol.Y, units.Percent.FromSI(s.LiquidVolume))
+		}
 		var liq, z, z2, comp any
 		if s.TwoPhase {
 			liq, z2 = units.Percent.FromSI(s.LiquidVolume), s.Z
@@ -131,5 +140,25 @@ func expansionReport(st *study.Study, sys units.System, e *cvd.Expansion) *Repor
 		steps.Rows = append(steps.Rows, []any{pU.FromSI(s.P), s.RelativeVolume, liq, z, z2, s.VaporFraction, comp})
 	}
 	r.Tables = []Table{steps}
+	sat := report.Capitalize(e.Saturation.Type.String()) + " point"
+	r.Figures = []*report.Figure{{
+		Name:    "cce-relative-volume",
+		Title:   "Constant-composition expansion: relative volume",
+		Caption: "Volume of the fluid relative to its volume at the saturation point, at constant composition and temperature.",
+		X:       report.Axis{Label: "Pressure", Unit: pU},
+		Y:       report.Axis{Label: "Relative volume V/Vsat"},
+		Series:  []report.Series{relVol},
+		Marks:   []report.Mark{{Label: sat, X: pU.FromSI(e.Saturation.P), Y: 1}},
+	}}
+	if len(liqVol.X) > 1 {
+		r.Figures = append(r.Figures, &report.Figure{
+			Name:    "cce-liquid-volume",
+			Title:   "Constant-composition expansion: liquid volume",
+			Caption: "Liquid as a share of the total volume below the saturation point, at constant composition.",
+			X:       report.Axis{Label: "Pressure", Unit: pU},
+			Y:       report.Axis{Label: "Liquid volume", Unit: units.Percent},
+			Series:  []report.Series{liqVol},
+		})
+	}
 	return r
 }

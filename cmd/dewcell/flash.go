@@ -5,6 +5,7 @@ import (
 
 	"github.com/urfave/cli/v2"
 
+	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/eos"
@@ -32,21 +33,20 @@ func flashCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
-			r, warnings, err := flashReport(st, o.sys, t, p)
+			r, err := flashReport(st, o.sys, t, p)
 			if err != nil {
 				return err
 			}
-			o.warn(warnings...)
 			return o.emit(r)
 		})
 }
 
 // flashReport flashes the study's feed at t (K) and p (Pa). The warnings
 // say when the split shown is not the equilibrium.
-func flashReport(st *study.Study, sys units.System, t, p float64) (*Report, []string, error) {
+func flashReport(st *study.Study, sys units.System, t, p float64) (*Report, error) {
 	var res eos.FlashResult
 	if err := eos.NewFlasher(st.Fluid, nil).Flash(&res, t, p, st.Z); err != nil {
-		return nil, nil, fmt.Errorf("flash at %s: %w", stateText(sys, t, p), err)
+		return nil, fmt.Errorf("flash at %s: %w", stateText(sys, t, p), err)
 	}
 	var warnings []string
 	tU, pU, dU := sys.Unit(units.Temperature), sys.Unit(units.Pressure), sys.Unit(units.Density)
@@ -71,23 +71,24 @@ func flashReport(st *study.Study, sys units.System, t, p float64) (*Report, []st
 		return v
 	}
 	r := &Report{
-		Name:  "flash",
-		Title: fmt.Sprintf("flash of %s at %s", fluidName(st), stateText(sys, t, p)),
+		Name:    "flash",
+		Section: "Flash",
+		Title:   fmt.Sprintf("flash of %s at %s", fluidName(st), stateText(sys, t, p)),
 		Fields: []Field{
-			{Column{Name: "pressure", Unit: pU}, pU.FromSI(p)},
-			{Column{Name: "temperature", Unit: tU}, tU.FromSI(t)},
-			{Column{Name: "phases"}, res.Phases},
-			{Column{Name: "state"}, phaseState},
-			{Column{Name: "three_phase"}, res.ThreePhase},
-			{Column{Name: "vapor_fraction"}, res.Beta},
-			{Column{Name: "z_liquid"}, only(liquid, res.L.Z)},
-			{Column{Name: "z_vapor"}, only(vapor, res.V.Z)},
-			{Column{Name: "density_liquid", Unit: dU}, only(liquid, dU.FromSI(res.L.Rho))},
-			{Column{Name: "density_vapor", Unit: dU}, only(vapor, dU.FromSI(res.V.Rho))},
-			{Column{Name: "molar_mass_liquid", Unit: units.GPerMol}, only(liquid, units.GPerMol.FromSI(res.L.M))},
-			{Column{Name: "molar_mass_vapor", Unit: units.GPerMol}, only(vapor, units.GPerMol.FromSI(res.V.M))},
-			{Column{Name: "iterations"}, res.Iter},
-			{Column{Name: "residual"}, res.Resid},
+			{Column: Column{Name: "pressure", Unit: pU}, Value: pU.FromSI(p)},
+			{Column: Column{Name: "temperature", Unit: tU}, Value: tU.FromSI(t)},
+			{Column: Column{Name: "phases"}, Value: res.Phases},
+			{Column: Column{Name: "state"}, Value: phaseState},
+			{Column: Column{Name: "three_phase"}, Value: res.ThreePhase},
+			{Column: Column{Name: "vapor_fraction", Label: "Vapour mole fraction", Format: report.MoleFraction}, Value: res.Beta},
+			{Column: Column{Name: "z_liquid", Format: report.ZFactor}, Value: only(liquid, res.L.Z)},
+			{Column: Column{Name: "z_vapor", Label: "Z vapour", Format: report.ZFactor}, Value: only(vapor, res.V.Z)},
+			{Column: Column{Name: "density_liquid", Unit: dU}, Value: only(liquid, dU.FromSI(res.L.Rho))},
+			{Column: Column{Name: "density_vapor", Label: "Density vapour", Unit: dU}, Value: only(vapor, dU.FromSI(res.V.Rho))},
+			{Column: Column{Name: "molar_mass_liquid", Unit: units.GPerMol}, Value: only(liquid, units.GPerMol.FromSI(res.L.M))},
+			{Column: Column{Name: "molar_mass_vapor", Label: "Molar mass vapour", Unit: units.GPerMol}, Value: only(vapor, units.GPerMol.FromSI(res.V.M))},
+			{Column: Column{Name: "iterations", Verbose: true}, Value: res.Iter},
+			{Column: Column{Name: "residual", Verbose: true, Format: report.Diagnostic}, Value: res.Resid},
 		},
 	}
 	names := componentNames(st.Fluid)
@@ -96,9 +97,10 @@ func flashReport(st *study.Study, sys units.System, t, p float64) (*Report, []st
 		r.Vectors = append(r.Vectors, Vector{Name: "liquid_composition", Label: "component", Labels: names, Values: res.X})
 	}
 	if vapor {
-		r.Vectors = append(r.Vectors, Vector{Name: "vapor_composition", Label: "component", Labels: names, Values: res.Y})
+		r.Vectors = append(r.Vectors, Vector{Name: "vapor_composition", Title: "Vapour composition", Label: "component", Labels: names, Values: res.Y})
 	}
-	return r, warnings, nil
+	r.Warn(warnings...)
+	return r, nil
 }
 
 func componentNames(fl *eos.Fluid) []string {

@@ -3,6 +3,7 @@ package main
 import (
 	"github.com/urfave/cli/v2"
 
+	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
 )
@@ -27,18 +28,18 @@ func fluidReport(st *study.Study, sys units.System) *Report {
 		Title: "components",
 		Columns: []Column{
 			{Name: "component"},
-			{Name: "mole", Unit: units.Percent},
+			{Name: "mole", Label: "Mole percent", Unit: units.Percent, Format: report.MolePercent},
 			{Name: "molar_mass", Unit: units.GPerMol},
 			{Name: "critical_temperature", Unit: tU},
 			{Name: "critical_pressure", Unit: pU},
-			{Name: "acentric_factor"},
-			{Name: "volume_shift"},
+			{Name: "acentric_factor", Format: report.Fixed(4)},
+			{Name: "volume_shift", Format: report.Fixed(4)},
 			{Name: "critical_volume", Unit: vU},
-			{Name: "estimated"},
+			{Name: "estimated", Label: "How estimated"},
 		},
 	}
 	n := fl.N()
-	m := &Matrix{Name: "kij", Title: "binary interaction coefficients kij", Labels: make([]string, n), Values: make([][]float64, n)}
+	m := &Matrix{Name: "kij", Title: "binary interaction coefficients kij", Format: report.Fixed(4), Labels: make([]string, n), Values: make([][]float64, n)}
 	for i, c := range fl.Components() {
 		vc, _ := fl.CriticalVolume(i) // the estimate, when the study gives none
 		est := ""
@@ -64,11 +65,12 @@ func fluidReport(st *study.Study, sys units.System) *Report {
 	}
 	opt := fl.Options()
 	return &Report{
-		Name:  "fluid",
-		Title: fluidTitle(st),
+		Name:    "fluid",
+		Section: "Fluid model",
+		Title:   fluidTitle(st),
 		Fields: []Field{
-			{Column{Name: "equation"}, opt.Equation.String()},
-			{Column{Name: "volume_shift_applied"}, opt.VolumeShift},
+			{Column: Column{Name: "equation"}, Value: opt.Equation.String()},
+			{Column: Column{Name: "volume_shift_applied"}, Value: opt.VolumeShift},
 		},
 		Tables: []Table{t},
 		Matrix: m,

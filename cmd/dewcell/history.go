@@ -8,6 +8,7 @@ import (
 
 	"github.com/urfave/cli/v2"
 
+	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/cvd"
@@ -31,6 +32,7 @@ func historyCommand() *cli.Command {
 		[]cli.Flag{
 			&cli.Float64Flag{Name: flagConfidence, Value: mbal.DefaultConfidence, Usage: "two-sided confidence `LEVEL` of the interval on the gas in place and of the influx tests, between 0 and 1"},
 			startAtDewPointFlag(),
+			plotFlag(),
 		},
 		func(c *cli.Context, o *options, st *study.Study) error {
 			conf := c.Float64(flagConfidence)
@@ -41,12 +43,7 @@ func historyCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
-			if h.ho.WaterInfluxSuspected {
-				o.warn("water influx suspected: " + h.ho.Reason)
-			} else {
-				fmt.Fprintln(o.stderr, "history: influx test: "+h.ho.Reason)
-			}
-			return o.emit(historyReportOf(st, o.sys, h, o.format != formatTable))
+			return o.emitPlots(c, historyReportOf(st, o.sys, h))
 		})
 }
 
@@ -234,47 +231,51 @@ func historyError(st *study.Study, first int, err error) error {
 // historyReportOf shows the history material balance in sys.
 // withReason adds the influx test in words, a long line that the table for
 // people leaves to standard error.
-func historyReportOf(st *study.Study, sys units.System, h *historyResult, withReason bool) *Report {
+func historyReportOf(st *study.Study, sys units.System, h *historyResult) *Report {
 	u := inPlaceUnitsOf(sys)
 	su := surfaceUnitsOf(sys)
 	pU, cU := u.press, sys.Unit(units.Compressibility)
 	line := h.ho.Line
 	ip := h.rec.InPlace
 	r := &Report{
-		Name:  "history",
-		Title: "production history of " + fluidName(st) + ": two-phase p/z material balance (Havlena–Odeh form)",
+		Name:    "history",
+		Section: "Production history: material balance",
+		Title:   "production history of " + fluidName(st) + ": two-phase p/z material balance (Havlena–Odeh form)",
 		Fields: []Field{
-			{Column{Name: "points_fitted"}, len(h.points)},
-			{Column{Name: "initial_pressure", Unit: pU}, pU.FromSI(h.res.Pi)},
-			{Column{Name: "z_initial"}, h.zi},
-			{Column{Name: "p_over_z_initial", Unit: pU}, pU.FromSI(h.res.Pi / h.zi)},
-			{Column{Name: "dew_pressure", Unit: pU}, pU.FromSI(h.dewPoint)},
-			{Column{Name: "initial_condensate_gas_equivalent", Unit: su.gor.Unit}, su.gor.of(h.ge)},
-			{Column{Name: "effective_compressibility", Unit: cU}, cU.FromSI(h.ho.Ce)},
-			{Column{Name: "confidence"}, line.Confidence},
-			{Column{Name: "wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(line.G)},
-			{Column{Name: "wet_gas_in_place_low", Unit: u.gas}, u.gas.FromSI(line.GLow)},
-			{Column{Name: "wet_gas_in_place_high", Unit: u.gas}, u.gas.FromSI(line.GHigh)},
-			{Column{Name: "wet_gas_in_place_standard_error", Unit: u.gas}, u.gas.FromSI(line.GSE)},
-			{Column{Name: "r_squared"}, line.R2},
-			{Column{Name: "p_over_z_residual_standard_error", Unit: pU}, pU.FromSI(line.ResidualSE)},
-			{Column{Name: "uncorrected_p_over_z_wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(h.plain.G)},
-			{Column{Name: "volumetric_wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(ip.WetGas)},
-			{Column{Name: "difference_from_volumetric", Unit: u.gas}, u.gas.FromSI(h.vol.Difference)},
-			{Column{Name: "difference_from_volumetric", Unit: units.Percent}, 100 * (h.vol.Ratio - 1)},
-			{Column{Name: "volumetric_inside_interval"}, h.vol.Inside},
-			{Column{Name: "f_over_expansion_trend"}, h.ho.TrendSlope},
-			{Column{Name: "f_over_expansion_trend_p_value"}, h.ho.TrendP},
-			{Column{Name: "f_over_expansion_change", Unit: units.Percent}, 100 * h.ho.TrendChange},
-			{Column{Name: "curvature_p_value"}, line.CurvatureP},
-			{Column{Name: "curvature_departure", Unit: units.Percent}, 100 * h.ho.CurvatureChange},
-			{Column{Name: "water_influx_suspected"}, h.ho.WaterInfluxSuspected},
-			{Column{Name: "water_formation_volume_factor_source"}, h.bwFrom},
-			{Column{Name: "started_at_model_dew_point"}, h.started},
+			{Column: Column{Name: "points_fitted"}, Value: len(h.points)},
+			{Column: Column{Name: "initial_pressure", Unit: pU}, Value: pU.FromSI(h.res.Pi)},
+			{Column: Column{Name: "z_initial", Format: report.ZFactor}, Value: h.zi},
+			{Column: Column{Name: "p_over_z_initial", Unit: pU}, Value: pU.FromSI(h.res.Pi / h.zi)},
+			{Column: Column{Name: "dew_pressure", Unit: pU}, Value: pU.FromSI(h.dewPoint)},
+			{Column: Column{Name: "initial_condensate_gas_equivalent", Unit: su.gor.Unit}, Value: su.gor.of(h.ge)},
+			{Column: Column{Name: "effective_compressibility", Unit: cU}, Value: cU.FromSI(h.ho.Ce)},
+			{Column: Column{Name: "confidence", Label: "Confidence level", Format: report.Fixed(2)}, Value: line.Confidence},
+			{Column: Column{Name: "wet_gas_in_place", Unit: u.gas}, Value: u.gas.FromSI(line.G)},
+			{Column: Column{Name: "wet_gas_in_place_low", Label: "Wet gas in place, low end of the interval", Unit: u.gas}, Value: u.gas.FromSI(line.GLow)},
+			{Column: Column{Name: "wet_gas_in_place_high", Label: "Wet gas in place, high end of the interval", Unit: u.gas}, Value: u.gas.FromSI(line.GHigh)},
+			{Column: Column{Name: "wet_gas_in_place_standard_error", Unit: u.gas}, Value: u.gas.FromSI(line.GSE)},
+			{Column: Column{Name: "r_squared", Format: report.Fixed(5)}, Value: line.R2},
+			{Column: Column{Name: "p_over_z_residual_standard_error", Unit: pU}, Value: pU.FromSI(line.ResidualSE)},
+			{Column: Column{Name: "uncorrected_p_over_z_wet_gas_in_place", Unit: u.gas}, Value: u.gas.FromSI(h.plain.G)},
+			{Column: Column{Name: "volumetric_wet_gas_in_place", Unit: u.gas}, Value: u.gas.FromSI(ip.WetGas)},
+			{Column: Column{Name: "difference_from_volumetric", Unit: u.gas}, Value: u.gas.FromSI(h.vol.Difference)},
+			{Column: Column{Name: "difference_from_volumetric", Label: "Difference from volumetric, share", Unit: units.Percent}, Value: 100 * (h.vol.Ratio - 1)},
+			{Column: Column{Name: "volumetric_inside_interval", Label: "Volumetric figure inside the interval"}, Value: h.vol.Inside},
+			{Column: Column{Name: "f_over_expansion_trend", Label: "F/(Eg+Efw) slope against cumulative wet gas", Format: report.Format{Decimals: 4, MinDigits: 2, MaxDecimals: 8}}, Value: h.ho.TrendSlope},
+			{Column: Column{Name: "f_over_expansion_trend_p_value", Label: "F/(Eg+Efw) trend, p-value", Format: report.Statistic}, Value: h.ho.TrendP},
+			{Column: Column{Name: "f_over_expansion_change", Label: "F/(Eg+Efw) change over the history", Unit: units.Percent, Format: report.Fixed(3)}, Value: 100 * h.ho.TrendChange},
+			{Column: Column{Name: "curvature_p_value", Label: "Curvature of the p/Z line, p-value", Format: report.Statistic}, Value: line.CurvatureP},
+			{Column: Column{Name: "curvature_departure", Label: "Curvature departure from the line", Unit: units.Percent, Format: report.Fixed(3)}, Value: 100 * h.ho.CurvatureChange},
+			{Column: Column{Name: "water_influx_suspected"}, Value: h.ho.WaterInfluxSuspected},
+			{Column: Column{Name: "water_formation_volume_factor_source"}, Value: h.bwFrom},
+			{Column: Column{Name: "started_at_model_dew_point"}, Value: h.started},
 		},
 	}
-	if withReason {
-		r.Fields = append(r.Fields, Field{Column{Name: "influx_test"}, h.ho.Reason})
+	r.Fields = append(r.Fields, Field{Column: Column{Name: "influx_test"}, Value: h.ho.Reason})
+	if h.ho.WaterInfluxSuspected {
+		r.Warn("water influx suspected: " + h.ho.Reason)
+	} else {
+		r.Note("influx test: " + h.ho.Reason)
 	}
 	labelName := "row"
 	if len(h.rows) > 0 {
@@ -294,10 +295,10 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult, withRe
 			{Name: "cum_sales_gas", Unit: u.gas},
 			{Name: "cum_condensate", Unit: u.liquid},
 			{Name: "cum_water", Unit: u.liquid},
-			{Name: "water_formation_volume_factor"},
+			{Name: "water_formation_volume_factor", Label: "Bw", Format: report.Fixed(4)},
 			{Name: "condensate_gas_equivalent", Unit: su.gor.Unit},
 			{Name: "cum_wet_gas", Unit: u.gas},
-			{Name: "z_two_phase"},
+			{Name: "z_two_phase", Format: report.ZFactor},
 			{Name: "p_over_z", Unit: pU},
 			{Name: "corrected_p_over_z", Unit: pU},
 			{Name: "fitted_p_over_z", Unit: pU},
@@ -323,5 +324,36 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult, withRe
 		})
 	}
 	r.Tables = []Table{pts}
+	r.Figures = []*report.Figure{pzFigure(h, u.gas, pU)}
 	return r
+}
+
+// pzFigure draws p/Z against cumulative wet gas: the history's points as
+// measured, the same corrected for the rock and water expansion (at the
+// wet gas plus the produced water's reservoir volume as gas, the abscissa
+// of the fit), and the fitted line down to p/Z = 0 at the gas in place.
+func pzFigure(h *historyResult, gasU, pU units.Unit) *report.Figure {
+	f := &report.Figure{
+		Name:  "history-p-over-z",
+		Title: "Material balance: p/Z against cumulative wet gas",
+		Caption: "Two-phase p/Z of each history point against the cumulative wet gas produced, as measured and corrected for rock and water expansion " +
+			"(where water is produced, its reservoir volume counts as gas), with the fitted straight line; it reaches p/Z = 0 at the original wet gas in place.",
+		X: report.Axis{Label: "Cumulative wet gas", Unit: gasU},
+		Y: report.Axis{Label: "p/Z", Unit: pU},
+	}
+	measured := report.Series{Label: "p/Z, history", Style: report.Points}
+	corrected := report.Series{Label: "p/Z corrected for rock and water expansion", Style: report.Points}
+	for i, pt := range h.points {
+		hp := h.ho.Points[i]
+		x := pt.CumWetGas + pt.CumWater*hp.Bw/hp.Bg // G_p + W_p B_w/B_g
+		measured.X, measured.Y = append(measured.X, gasU.FromSI(pt.CumWetGas)), append(measured.Y, pU.FromSI(pt.P/pt.Z2))
+		corrected.X = append(corrected.X, gasU.FromSI(x))
+		corrected.Y = append(corrected.Y, pU.FromSI(pt.P/pt.Z2*(1-h.ho.Ce*(h.res.Pi-pt.P))))
+	}
+	line := h.ho.Line
+	fit := report.Series{Label: "Fitted line", Style: report.Dashed,
+		X: []float64{0, gasU.FromSI(line.G)}, Y: []float64{pU.FromSI(line.PZAt(0)), 0}}
+	f.Series = []report.Series{measured, corrected, fit}
+	f.Marks = []report.Mark{{Label: "Wet gas in place", X: gasU.FromSI(line.G), Y: 0}}
+	return f
 }

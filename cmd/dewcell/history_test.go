@@ -132,7 +132,7 @@ func TestHistoryExample(t *testing.T) {
 		"examples/sablewick.toml: the history is the model's, rounded to 4 digits")
 	checkAbs(t, "difference_from_volumetric_pct", num(t, doc, "difference_from_volumetric_pct"),
 		100*(num(t, doc, "wet_gas_in_place_mmscf")/num(t, doc, "volumetric_wet_gas_in_place_mmscf")-1), 1e-9, "definition")
-	if doc["water_influx_suspected"] != false || !strings.Contains(stderr, "history: influx test:") || !strings.Contains(doc["influx_test"].(string), "volumetric") {
+	if doc["water_influx_suspected"] != false || !strings.Contains(stderr, "note: influx test:") || !strings.Contains(doc["influx_test"].(string), "volumetric") {
 		t.Errorf("water_influx_suspected %v, stderr %q: want no influx for the model's own history", doc["water_influx_suspected"], stderr)
 	}
 	// The first row is the initial state: eight rows with production remain.
@@ -187,13 +187,21 @@ func TestHistoryFormats(t *testing.T) {
 		t.Fatalf("csv does not parse: %v\n%s", err, out)
 	}
 	checkHeader(t, "history csv", recs[0], "date", "pressure_bara", "cum_sales_gas_1e6sm3", "cum_condensate_sm3", "cum_wet_gas_1e6sm3",
-		"z_two_phase", "p_over_z_bara", "f_over_expansion_1e6sm3", "wet_gas_in_place_1e6sm3", "wet_gas_in_place_low_1e6sm3",
-		"wet_gas_in_place_high_1e6sm3", "r_squared", "volumetric_wet_gas_in_place_1e6sm3", "water_influx_suspected", "influx_test")
+		"z_two_phase", "p_over_z_bara", "f_over_expansion_1e6sm3")
 	if len(recs) != 9 {
 		t.Errorf("csv: %d rows, want 8 points", len(recs)-1)
 	}
+	code, out, stderr = dewcell("history", "--format", "csv", "--table", "summary", "--units", "metric", exampleStudy)
+	if code != 0 {
+		t.Fatalf("csv --table summary: exit %d: %s", code, stderr)
+	}
+	if recs, err = csv.NewReader(strings.NewReader(out)).ReadAll(); err != nil || len(recs) != 2 {
+		t.Fatalf("csv --table summary: %v, %d records; want a header and one row", err, len(recs))
+	}
+	checkHeader(t, "history csv summary", recs[0], "wet_gas_in_place_1e6sm3", "wet_gas_in_place_low_1e6sm3",
+		"wet_gas_in_place_high_1e6sm3", "r_squared", "volumetric_wet_gas_in_place_1e6sm3", "water_influx_suspected", "influx_test")
 	code, out, _ = dewcell("history", "--confidence", "0.9", exampleStudy)
-	if code != 0 || !strings.Contains(out, "wet gas in place low [MMscf]") || !strings.Contains(out, " 0.9 |") {
+	if code != 0 || !strings.Contains(out, "Wet gas in place, low end of the interval") || !strings.Contains(out, " 0.90 |") {
 		t.Errorf("table: exit %d, output lacks the interval at 90 %%:\n%s", code, out)
 	}
 }

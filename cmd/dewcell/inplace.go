@@ -6,6 +6,7 @@ import (
 
 	"github.com/urfave/cli/v2"
 
+	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/cvd"
@@ -52,8 +53,8 @@ func startAtDewPoint(o *options, st *study.Study, res *mbal.Reservoir, what stri
 			flagStartAtDew, st.File, at, pressureText(o.sys, sat.P), what), exitUsage)
 	}
 	if sat.P <= res.Pi {
-		fmt.Fprintf(o.stderr, "%s: --%s: the model's dew point at %s (%s) lies below reservoir.initial_pressure (%s); the reservoir starts at the initial pressure\n",
-			what, flagStartAtDew, at, pressureText(o.sys, sat.P), pressureText(o.sys, res.Pi))
+		o.note(fmt.Sprintf("%s: --%s: the model's dew point at %s (%s) lies below reservoir.initial_pressure (%s); the reservoir starts at the initial pressure",
+			what, flagStartAtDew, at, pressureText(o.sys, sat.P), pressureText(o.sys, res.Pi)))
 		return false, nil
 	}
 	pi := sat.P * (1 + 1e-9)
@@ -234,10 +235,10 @@ func inplaceReportAt(o *options, st *study.Study, atDew bool) (*Report, error) {
 			return nil, err
 		}
 	} else {
-		fmt.Fprintf(o.stderr, "inplace: %s has no [surface] section: the quick look from separator data is left out\n", st.File)
+		o.note(fmt.Sprintf("%s has no [surface] section: the quick look from separator data is left out", st.File))
 	}
 	r := inPlaceReportOf(st, sys, tr, res, ip, w, q)
-	r.Fields = append(r.Fields[:2:2], append([]Field{{Column{Name: "started_at_model_dew_point"}, started}}, r.Fields[2:]...)...)
+	r.Fields = append(r.Fields[:2:2], append([]Field{{Column: Column{Name: "started_at_model_dew_point"}, Value: started}}, r.Fields[2:]...)...)
 	return r, nil
 }
 
@@ -253,54 +254,57 @@ func inPlaceReportOf(st *study.Study, sys units.System, tr cvd.Train, res mbal.R
 		bulkV = u.bulk.FromSI(bulk)
 	}
 	r := &Report{
-		Name:  "in_place",
-		Title: "initial gas and condensate in place: " + fluidName(st),
+		Name:    "in_place",
+		Section: "Volumes in place",
+		Title:   "initial gas and condensate in place: " + fluidName(st),
 		Fields: []Field{
-			{Column{Name: "temperature", Unit: tU}, tU.FromSI(res.T)},
-			{Column{Name: "initial_pressure", Unit: u.press}, u.press.FromSI(res.Pi)},
-			{Column{Name: "bulk_volume", Unit: u.bulk}, bulkV},
-			{Column{Name: "pore_volume", Unit: u.pore}, u.pore.FromSI(res.PV())},
-			{Column{Name: "hydrocarbon_pore_volume", Unit: u.pore}, u.pore.FromSI(ip.HCPV)},
-			{Column{Name: "water_saturation"}, res.Sw},
+			{Column: Column{Name: "temperature", Unit: tU}, Value: tU.FromSI(res.T)},
+			{Column: Column{Name: "initial_pressure", Unit: u.press}, Value: u.press.FromSI(res.Pi)},
+			{Column: Column{Name: "bulk_volume", Unit: u.bulk}, Value: bulkV},
+			{Column: Column{Name: "pore_volume", Unit: u.pore}, Value: u.pore.FromSI(res.PV())},
+			{Column: Column{Name: "hydrocarbon_pore_volume", Unit: u.pore}, Value: u.pore.FromSI(ip.HCPV)},
+			{Column: Column{Name: "water_saturation", Format: report.Saturation}, Value: res.Sw},
 		},
 	}
 	r.Fields = append(r.Fields, standardFields(tr, sys)...)
 	// inPlace gives the three volumes in place, in total and per bulk volume,
 	// under keys that start with prefix.
 	inPlace := func(prefix string, wet, sales, cond float64) []Field {
+		perBulkLabel := func(name string) string { return report.LabelOf(prefix+name) + " per bulk volume" }
 		return []Field{
-			{Column{Name: prefix + "wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(wet)},
-			{Column{Name: prefix + "sales_gas_in_place", Unit: u.gas}, u.gas.FromSI(sales)},
-			{Column{Name: prefix + "condensate_in_place", Unit: u.liquid}, u.liquid.FromSI(cond)},
-			{Column{Name: prefix + "wet_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, wet, bulk)},
-			{Column{Name: prefix + "sales_gas_in_place", Unit: u.gasBulk}, perBulk(u.gasBulk, sales, bulk)},
-			{Column{Name: prefix + "condensate_in_place", Unit: u.liqBulk}, perBulk(u.liqBulk, cond, bulk)},
+			{Column: Column{Name: prefix + "wet_gas_in_place", Unit: u.gas}, Value: u.gas.FromSI(wet)},
+			{Column: Column{Name: prefix + "sales_gas_in_place", Unit: u.gas}, Value: u.gas.FromSI(sales)},
+			{Column: Column{Name: prefix + "condensate_in_place", Unit: u.liquid}, Value: u.liquid.FromSI(cond)},
+			{Column: Column{Name: prefix + "wet_gas_in_place", Label: perBulkLabel("wet_gas_in_place"), Unit: u.gasBulk}, Value: perBulk(u.gasBulk, wet, bulk)},
+			{Column: Column{Name: prefix + "sales_gas_in_place", Label: perBulkLabel("sales_gas_in_place"), Unit: u.gasBulk}, Value: perBulk(u.gasBulk, sales, bulk)},
+			{Column: Column{Name: prefix + "condensate_in_place", Label: perBulkLabel("condensate_in_place"), Unit: u.liqBulk}, Value: perBulk(u.liqBulk, cond, bulk)},
 		}
 	}
 	r.Fields = append(r.Fields,
-		Field{Column{Name: "z_initial"}, ip.Z},
+		Field{Column: Column{Name: "z_initial", Format: report.ZFactor}, Value: ip.Z},
 	)
 	r.Fields = append(r.Fields, inPlace("", ip.WetGas, ip.SalesGas, ip.Condensate)...)
 	r.Fields = append(r.Fields,
-		Field{Column{Name: "gor", Unit: su.gor.Unit}, su.gor.of(ip.Surface.GOR)},
-		Field{Column{Name: "cgr", Unit: su.cgr.Unit}, su.cgr.of(ip.Surface.CGR)},
-		Field{Column{Name: "stock_tank_oil_density", Unit: dU}, finite(dU.FromSI(ip.Surface.OilDensity))},
-		Field{Column{Name: "api_gravity"}, finite(ip.Surface.API)},
+		Field{Column: Column{Name: "gor", Unit: su.gor.Unit}, Value: su.gor.of(ip.Surface.GOR)},
+		Field{Column: Column{Name: "cgr", Unit: su.cgr.Unit}, Value: su.cgr.of(ip.Surface.CGR)},
+		Field{Column: Column{Name: "stock_tank_oil_density", Unit: dU}, Value: finite(dU.FromSI(ip.Surface.OilDensity))},
+		Field{Column: Column{Name: "api_gravity", Label: "Stock tank oil API gravity", Format: report.Fixed(1)}, Value: finite(ip.Surface.API)},
 	)
 	routes := Table{
 		Name:  "routes",
 		Title: "the two routes side by side (difference: quick look minus equation of state)",
 		Columns: []Column{
 			{Name: "route"},
-			{Name: "z"},
-			{Name: "wet_gas", Unit: u.gas},
-			{Name: "sales_gas", Unit: u.gas},
-			{Name: "condensate", Unit: u.liquid},
-			{Name: "wet_gas", Unit: u.gasBulk},
-			{Name: "sales_gas", Unit: u.gasBulk},
-			{Name: "condensate", Unit: u.liqBulk},
-			{Name: "dry_gas_fraction"},
+			{Name: "z", Label: "Z initial", Format: report.ZFactor},
+			{Name: "wet_gas", Label: "Wet gas in place", Unit: u.gas},
+			{Name: "sales_gas", Label: "Sales gas in place", Unit: u.gas},
+			{Name: "condensate", Label: "Condensate in place", Unit: u.liquid},
+			{Name: "wet_gas", Label: "Wet gas per bulk volume", Unit: u.gasBulk},
+			{Name: "sales_gas", Label: "Sales gas per bulk volume", Unit: u.gasBulk},
+			{Name: "condensate", Label: "Condensate per bulk volume", Unit: u.liqBulk},
+			{Name: "dry_gas_fraction", Label: "Surface gas mole fraction", Format: report.MoleFraction},
 		},
+		Transpose: true,
 	}
 	row := func(name string, z, wet, sales, cond, frac float64) []any {
 		return []any{name, z, u.gas.FromSI(wet), u.gas.FromSI(sales), u.liquid.FromSI(cond),
@@ -325,26 +329,26 @@ func inPlaceReportOf(st *study.Study, sys units.System, tr cvd.Train, res mbal.R
 		oilM = "Cragoe (1929) from the API gravity"
 	}
 	r.Fields = append(r.Fields,
-		Field{Column{Name: "quick_look_z"}, q.Z},
+		Field{Column: Column{Name: "quick_look_z", Format: report.ZFactor}, Value: q.Z},
 	)
 	r.Fields = append(r.Fields, inPlace("quick_look_", q.WetGas, q.SalesGas, q.Condensate)...)
 	r.Fields = append(r.Fields,
-		Field{Column{Name: "quick_look_dry_gas_fraction"}, w.GasFraction},
-		Field{Column{Name: "quick_look_gor", Unit: su.gor.Unit}, su.gor.of(w.GOR)},
-		Field{Column{Name: "quick_look_surface_gas_gravity"}, w.GasGravity},
-		Field{Column{Name: "quick_look_oil_api_gravity"}, w.OilAPI},
-		Field{Column{Name: "quick_look_oil_molar_mass", Unit: units.GPerMol}, units.GPerMol.FromSI(w.OilM)},
-		Field{Column{Name: "quick_look_oil_molar_mass_source"}, oilM},
-		Field{Column{Name: "well_stream_gravity"}, w.Gravity},
-		Field{Column{Name: "pseudo_critical_correlation"}, w.Correlation.String()},
-		Field{Column{Name: "pseudo_critical_temperature", Unit: pcTU}, pcTU.FromSI(w.Critical.Tpc)},
-		Field{Column{Name: "pseudo_critical_pressure", Unit: pU}, pU.FromSI(w.Critical.Ppc)},
-		Field{Column{Name: "pseudo_reduced_temperature"}, q.Tpr},
-		Field{Column{Name: "pseudo_reduced_pressure"}, q.Ppr},
-		Field{Column{Name: "quick_look_difference_z", Unit: units.Percent}, relDiffPct(q.Z, ip.Z)},
-		Field{Column{Name: "quick_look_difference_wet_gas", Unit: units.Percent}, relDiffPct(q.WetGas, ip.WetGas)},
-		Field{Column{Name: "quick_look_difference_sales_gas", Unit: units.Percent}, relDiffPct(q.SalesGas, ip.SalesGas)},
-		Field{Column{Name: "quick_look_difference_condensate", Unit: units.Percent}, relDiffPct(q.Condensate, ip.Condensate)},
+		Field{Column: Column{Name: "quick_look_dry_gas_fraction", Label: "Quick-look surface gas mole fraction", Format: report.MoleFraction}, Value: w.GasFraction},
+		Field{Column: Column{Name: "quick_look_gor", Unit: su.gor.Unit}, Value: su.gor.of(w.GOR)},
+		Field{Column: Column{Name: "quick_look_surface_gas_gravity", Format: report.Gravity}, Value: w.GasGravity},
+		Field{Column: Column{Name: "quick_look_oil_api_gravity", Format: report.Fixed(1)}, Value: w.OilAPI},
+		Field{Column: Column{Name: "quick_look_oil_molar_mass", Unit: units.GPerMol}, Value: units.GPerMol.FromSI(w.OilM)},
+		Field{Column: Column{Name: "quick_look_oil_molar_mass_source"}, Value: oilM},
+		Field{Column: Column{Name: "well_stream_gravity", Format: report.Gravity}, Value: w.Gravity},
+		Field{Column: Column{Name: "pseudo_critical_correlation"}, Value: w.Correlation.String()},
+		Field{Column: Column{Name: "pseudo_critical_temperature", Unit: pcTU}, Value: pcTU.FromSI(w.Critical.Tpc)},
+		Field{Column: Column{Name: "pseudo_critical_pressure", Unit: pU}, Value: pU.FromSI(w.Critical.Ppc)},
+		Field{Column: Column{Name: "pseudo_reduced_temperature", Format: report.Fixed(3)}, Value: q.Tpr},
+		Field{Column: Column{Name: "pseudo_reduced_pressure", Format: report.Fixed(3)}, Value: q.Ppr},
+		Field{Column: Column{Name: "quick_look_difference_z", Unit: units.Percent}, Value: relDiffPct(q.Z, ip.Z)},
+		Field{Column: Column{Name: "quick_look_difference_wet_gas", Unit: units.Percent}, Value: relDiffPct(q.WetGas, ip.WetGas)},
+		Field{Column: Column{Name: "quick_look_difference_sales_gas", Unit: units.Percent}, Value: relDiffPct(q.SalesGas, ip.SalesGas)},
+		Field{Column: Column{Name: "quick_look_difference_condensate", Unit: units.Percent}, Value: relDiffPct(q.Condensate, ip.Condensate)},
 	)
 	return r
 }

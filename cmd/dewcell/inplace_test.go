@@ -5,6 +5,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -193,11 +194,16 @@ func TestInPlaceFormats(t *testing.T) {
 	if err != nil {
 		t.Fatalf("csv does not parse: %v\n%s", err, out)
 	}
-	checkHeader(t, "inplace csv", recs[0], "route", "wet_gas_mmscf", "wet_gas_in_place_mmscf", "sales_gas_in_place_mmscf",
-		"condensate_in_place_stb", "wet_gas_in_place_mscf_per_acre_ft", "condensate_in_place_stb_per_acre_ft", "quick_look_wet_gas_in_place_mmscf")
+	checkHeader(t, "inplace csv", recs[0], "route", "wet_gas_mmscf", "condensate_stb", "wet_gas_mscf_per_acre_ft")
 	if len(recs) != 4 {
 		t.Errorf("csv: %d rows, want the two routes and their difference", len(recs)-1)
 	}
+	code, out, stderr = dewcell("inplace", "--format", "csv", "--table", "summary", exampleStudy)
+	if recs, err = csv.NewReader(strings.NewReader(out)).ReadAll(); code != 0 || err != nil || len(recs) != 2 {
+		t.Fatalf("csv --table summary: exit %d, %v, %d records: %s", code, err, len(recs), stderr)
+	}
+	checkHeader(t, "inplace csv summary", recs[0], "wet_gas_in_place_mmscf", "sales_gas_in_place_mmscf",
+		"condensate_in_place_stb", "wet_gas_in_place_mscf_per_acre_ft", "condensate_in_place_stb_per_acre_ft", "quick_look_wet_gas_in_place_mmscf")
 	for _, units := range []string{"field", "metric"} {
 		code, out, _ = dewcell("inplace", "--format", "json", "--units", units, exampleStudy)
 		if code != 0 {
@@ -206,7 +212,8 @@ func TestInPlaceFormats(t *testing.T) {
 		decodeJSON(t, out)
 	}
 	code, out, _ = dewcell("inplace", exampleStudy)
-	if code != 0 || !strings.Contains(out, "wet gas in place [MMscf]") || !strings.Contains(out, "condensate in place [STB/acre-ft]") {
+	if code != 0 || !regexp.MustCompile(`\| Wet gas in place +\| +[0-9.]+ \| Bscf +\|`).MatchString(out) ||
+		!regexp.MustCompile(`\| Condensate in place per bulk volume +\| +[0-9.]+ \| STB/acre-ft +\|`).MatchString(out) {
 		t.Errorf("table: exit %d, output lacks the in-place figures:\n%s", code, out)
 	}
 }

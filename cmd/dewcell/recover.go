@@ -6,6 +6,7 @@ import (
 
 	"github.com/urfave/cli/v2"
 
+	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/mbal"
@@ -30,6 +31,7 @@ func recoverCommand() *cli.Command {
 			&cli.IntFlag{Name: flagFixedSteps, Usage: fmt.Sprintf("integrate instead with `N` even first-order steps, 1 to %d, from the dew point (the laboratory's constant-volume depletion), and report each: for checking; the recovery falls short of the converged one by about in proportion to the step", mbal.MaxFixedSteps)},
 			&cli.BoolFlag{Name: flagMobileLiquid, Usage: "let the condensate above the critical condensate saturation flow with the gas in proportion to its mobility (fractional flow with the [relative_permeability] curves and the phases' viscosities): the upper bound of condensate recovery; by default the condensate stays in the rock (the lower bound)"},
 			startAtDewPointFlag(),
+			plotFlag(),
 		},
 		func(c *cli.Context, o *options, st *study.Study) error {
 			ro, err := recoverOptions(c, o, st)
@@ -40,7 +42,7 @@ func recoverCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
-			return o.emit(rep)
+			return o.emitPlots(c, rep)
 		})
 }
 
@@ -90,7 +92,7 @@ func recoverOptions(c *cli.Context, o *options, st *study.Study) (mbal.RecoverOp
 		}
 	}
 	if pa > 0 && ps[len(ps)-1] > pa {
-		fmt.Fprintf(o.stderr, "recover: the --%s list stops above reservoir.abandonment_pressure; %s is added as the last step\n", flagPressures, pressureText(o.sys, pa))
+		o.note(fmt.Sprintf("the --%s list stops above reservoir.abandonment_pressure; %s is added as the last step", flagPressures, pressureText(o.sys, pa)))
 		ps = append(ps, pa)
 	}
 	ro.Pressures = ps
@@ -153,7 +155,7 @@ func recoverReportAt(o *options, st *study.Study, ro mbal.RecoverOptions, atDew 
 		msg := fmt.Sprintf("the condensate saturation passes the critical condensate saturation (%.3g, reservoir.critical_condensate_saturation) at %s",
 			sc, pressureText(o.sys, rec.CriticalP))
 		if ro.MobileLiquid {
-			fmt.Fprintf(o.stderr, "recover: %s: below it the condensate flows with the gas in proportion to its mobility (--%s)\n", msg, flagMobileLiquid)
+			o.note(fmt.Sprintf("%s: below it the condensate flows with the gas in proportion to its mobility (--%s)", msg, flagMobileLiquid))
 		} else {
 			o.warn(msg + fmt.Sprintf(": the condensate could flow below it, which this run leaves in the rock; --%s gives that upper bound", flagMobileLiquid))
 		}
@@ -199,45 +201,46 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 	}
 	lastM, lastI := mobile.Steps[len(mobile.Steps)-1], immobile.Steps[len(immobile.Steps)-1]
 	r := &Report{
-		Name:  "recovery",
-		Title: "depletion recovery of " + fluidName(st),
+		Name:    "recovery",
+		Section: "Depletion recovery",
+		Title:   "depletion recovery of " + fluidName(st),
 		Fields: []Field{
-			{Column{Name: "condensate_model"}, model},
-			{Column{Name: "mobile_liquid"}, ro.MobileLiquid},
-			{Column{Name: "integration"}, integration},
-			{Column{Name: "started_at_model_dew_point"}, started},
-			{Column{Name: "initial_pressure", Unit: pU}, pU.FromSI(res.Pi)},
-			{Column{Name: "dew_pressure", Unit: pU}, pU.FromSI(d.Dew.P)},
-			{Column{Name: "abandonment_pressure", Unit: pU}, pU.FromSI(last.P)},
-			{Column{Name: "wet_gas_in_place", Unit: u.gas}, u.gas.FromSI(ip.WetGas)},
-			{Column{Name: "sales_gas_in_place", Unit: u.gas}, u.gas.FromSI(ip.SalesGas)},
-			{Column{Name: "condensate_in_place", Unit: u.liquid}, u.liquid.FromSI(ip.Condensate)},
-			{Column{Name: "water_saturation"}, res.Sw},
-			{Column{Name: "critical_condensate_saturation"}, sc},
-			{Column{Name: "gas_relative_permeability_exponent"}, or(kr.GasExponent, mbal.DefaultGasExponent)},
-			{Column{Name: "condensate_relative_permeability_exponent"}, or(kr.CondensateExponent, mbal.DefaultCondensateExponent)},
-			{Column{Name: "gas_end_point_relative_permeability"}, or(kr.GasEndpoint, mbal.DefaultGasEndpoint)},
-			{Column{Name: "condensate_end_point_relative_permeability"}, or(kr.CondensateEndpoint, mbal.DefaultCondensateEndpoint)},
-			{Column{Name: "rock_compressibility", Unit: cU}, cU.FromSI(res.Cf)},
-			{Column{Name: "water_compressibility", Unit: cU}, cU.FromSI(res.Cw)},
-			{Column{Name: "effective_compressibility", Unit: cU}, cU.FromSI(res.EffectiveCompressibility())},
-			{Column{Name: "max_condensate_saturation"}, rec.MaxSo},
-			{Column{Name: "max_condensate_saturation_pressure", Unit: pU}, maxP},
-			{Column{Name: "critical_saturation_pressure", Unit: pU}, critP},
-			{Column{Name: "cum_wet_gas_at_abandonment", Unit: u.gas}, u.gas.FromSI(last.WetGas)},
-			{Column{Name: "cum_sales_gas_at_abandonment", Unit: u.gas}, u.gas.FromSI(last.SalesGas)},
-			{Column{Name: "cum_condensate_at_abandonment", Unit: u.liquid}, u.liquid.FromSI(last.Condensate)},
-			{Column{Name: "wet_gas_recovery_at_abandonment", Unit: units.Percent}, units.Percent.FromSI(last.WetGasRF)},
-			{Column{Name: "sales_gas_recovery_at_abandonment", Unit: units.Percent}, units.Percent.FromSI(last.SalesGasRF)},
-			{Column{Name: "condensate_recovery_at_abandonment", Unit: units.Percent}, units.Percent.FromSI(last.CondensateRF)},
-			{Column{Name: "condensate_recovery_error", Unit: units.Percent}, condErr},
-			{Column{Name: "sales_gas_recovery_error", Unit: units.Percent}, gasErr},
-			{Column{Name: "condensate_recovery_at_abandonment_immobile_liquid", Unit: units.Percent}, units.Percent.FromSI(lastI.CondensateRF)},
-			{Column{Name: "condensate_recovery_at_abandonment_mobile_liquid", Unit: units.Percent}, units.Percent.FromSI(lastM.CondensateRF)},
-			{Column{Name: "condensate_left_in_reservoir", Unit: u.liquid}, u.liquid.FromSI(rec.CondensateLeft)},
-			{Column{Name: "condensate_left_in_reservoir", Unit: units.Percent}, relShare(rec.CondensateLeft, ip.Condensate)},
-			{Column{Name: "stock_tank_liquid_of_remaining_fluid_if_processed", Unit: u.liquid}, u.liquid.FromSI(rec.RemainingFluidCondensate)},
-			{Column{Name: "retrograde_liquid_in_rock", Unit: u.pore}, u.pore.FromSI(last.So * res.PV())},
+			{Column: Column{Name: "condensate_model"}, Value: model},
+			{Column: Column{Name: "mobile_liquid"}, Value: ro.MobileLiquid},
+			{Column: Column{Name: "integration"}, Value: integration},
+			{Column: Column{Name: "started_at_model_dew_point"}, Value: started},
+			{Column: Column{Name: "initial_pressure", Unit: pU}, Value: pU.FromSI(res.Pi)},
+			{Column: Column{Name: "dew_pressure", Unit: pU}, Value: pU.FromSI(d.Dew.P)},
+			{Column: Column{Name: "abandonment_pressure", Unit: pU}, Value: pU.FromSI(last.P)},
+			{Column: Column{Name: "wet_gas_in_place", Unit: u.gas}, Value: u.gas.FromSI(ip.WetGas)},
+			{Column: Column{Name: "sales_gas_in_place", Unit: u.gas}, Value: u.gas.FromSI(ip.SalesGas)},
+			{Column: Column{Name: "condensate_in_place", Unit: u.liquid}, Value: u.liquid.FromSI(ip.Condensate)},
+			{Column: Column{Name: "water_saturation", Format: report.Saturation}, Value: res.Sw},
+			{Column: Column{Name: "critical_condensate_saturation", Format: report.Saturation}, Value: sc},
+			{Column: Column{Name: "gas_relative_permeability_exponent", Format: report.Fixed(2)}, Value: or(kr.GasExponent, mbal.DefaultGasExponent)},
+			{Column: Column{Name: "condensate_relative_permeability_exponent", Format: report.Fixed(2)}, Value: or(kr.CondensateExponent, mbal.DefaultCondensateExponent)},
+			{Column: Column{Name: "gas_end_point_relative_permeability", Format: report.Fixed(3)}, Value: or(kr.GasEndpoint, mbal.DefaultGasEndpoint)},
+			{Column: Column{Name: "condensate_end_point_relative_permeability", Format: report.Fixed(3)}, Value: or(kr.CondensateEndpoint, mbal.DefaultCondensateEndpoint)},
+			{Column: Column{Name: "rock_compressibility", Unit: cU}, Value: cU.FromSI(res.Cf)},
+			{Column: Column{Name: "water_compressibility", Unit: cU}, Value: cU.FromSI(res.Cw)},
+			{Column: Column{Name: "effective_compressibility", Unit: cU}, Value: cU.FromSI(res.EffectiveCompressibility())},
+			{Column: Column{Name: "max_condensate_saturation", Label: "Maximum condensate saturation", Format: report.Saturation}, Value: rec.MaxSo},
+			{Column: Column{Name: "max_condensate_saturation_pressure", Label: "Pressure of the maximum condensate saturation", Unit: pU}, Value: maxP},
+			{Column: Column{Name: "critical_saturation_pressure", Label: "Pressure where the critical saturation is passed", Unit: pU}, Value: critP},
+			{Column: Column{Name: "cum_wet_gas_at_abandonment", Unit: u.gas}, Value: u.gas.FromSI(last.WetGas)},
+			{Column: Column{Name: "cum_sales_gas_at_abandonment", Unit: u.gas}, Value: u.gas.FromSI(last.SalesGas)},
+			{Column: Column{Name: "cum_condensate_at_abandonment", Unit: u.liquid}, Value: u.liquid.FromSI(last.Condensate)},
+			{Column: Column{Name: "wet_gas_recovery_at_abandonment", Unit: units.Percent}, Value: units.Percent.FromSI(last.WetGasRF)},
+			{Column: Column{Name: "sales_gas_recovery_at_abandonment", Unit: units.Percent}, Value: units.Percent.FromSI(last.SalesGasRF)},
+			{Column: Column{Name: "condensate_recovery_at_abandonment", Unit: units.Percent}, Value: units.Percent.FromSI(last.CondensateRF)},
+			{Column: Column{Name: "condensate_recovery_error", Label: "Condensate recovery, estimated integration error", Unit: units.Percent, Format: report.Fixed(4)}, Value: condErr},
+			{Column: Column{Name: "sales_gas_recovery_error", Label: "Sales gas recovery, estimated integration error", Unit: units.Percent, Format: report.Fixed(4)}, Value: gasErr},
+			{Column: Column{Name: "condensate_recovery_at_abandonment_immobile_liquid", Label: "Condensate recovery at abandonment, condensate immobile", Unit: units.Percent}, Value: units.Percent.FromSI(lastI.CondensateRF)},
+			{Column: Column{Name: "condensate_recovery_at_abandonment_mobile_liquid", Label: "Condensate recovery at abandonment, condensate mobile", Unit: units.Percent}, Value: units.Percent.FromSI(lastM.CondensateRF)},
+			{Column: Column{Name: "condensate_left_in_reservoir", Unit: u.liquid}, Value: u.liquid.FromSI(rec.CondensateLeft)},
+			{Column: Column{Name: "condensate_left_in_reservoir", Label: "Condensate left in reservoir, share of in place", Unit: units.Percent}, Value: relShare(rec.CondensateLeft, ip.Condensate)},
+			{Column: Column{Name: "stock_tank_liquid_of_remaining_fluid_if_processed", Unit: u.liquid}, Value: u.liquid.FromSI(rec.RemainingFluidCondensate)},
+			{Column: Column{Name: "retrograde_liquid_in_rock", Unit: u.pore}, Value: u.pore.FromSI(last.So * res.PV())},
 		},
 	}
 	steps := Table{
@@ -252,11 +255,11 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 			{Name: "sales_gas_recovery", Unit: units.Percent},
 			{Name: "condensate_recovery", Unit: units.Percent},
 			{Name: "cgr", Unit: su.cgr.Unit},
-			{Name: "z_two_phase"},
+			{Name: "z_two_phase", Format: report.ZFactor},
 			{Name: "p_over_z", Unit: pU},
-			{Name: "condensate_saturation"},
+			{Name: "condensate_saturation", Format: report.Saturation},
 			{Name: "condensate_mobile"},
-			{Name: "condensate_flow_share"},
+			{Name: "condensate_flow_share", Label: "Condensate share of the flow", Format: report.Fixed(4)},
 		},
 	}
 	for _, s := range rec.Steps {
@@ -268,7 +271,45 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 		})
 	}
 	r.Tables = []Table{steps}
+	r.Figures = recoveryFigures(rec, pU, sc)
 	return r
+}
+
+// recoveryFigures draw the recoveries of wet gas, sales gas and condensate
+// against the reservoir pressure, and the condensate saturation with the
+// critical saturation.
+func recoveryFigures(rec *mbal.Recovery, pU units.Unit, sc float64) []*report.Figure {
+	wet := report.Series{Label: "Wet gas", Style: report.LinePoints}
+	sales := report.Series{Label: "Sales gas", Style: report.LinePoints}
+	cond := report.Series{Label: "Condensate", Style: report.LinePoints}
+	so := report.Series{Label: "Condensate saturation", Style: report.LinePoints}
+	for _, s := range rec.Steps {
+		p := pU.FromSI(s.P)
+		for _, c := range []struct {
+			s *report.Series
+			v float64
+		}{{&wet, s.WetGasRF}, {&sales, s.SalesGasRF}, {&cond, s.CondensateRF}} {
+			c.s.X, c.s.Y = append(c.s.X, p), append(c.s.Y, units.Percent.FromSI(c.v))
+		}
+		so.X, so.Y = append(so.X, p), append(so.Y, s.So)
+	}
+	return []*report.Figure{{
+		Name:    "recovery",
+		Title:   "Depletion recovery",
+		Caption: "Cumulative production as a share of the initial in place, against the reservoir pressure, from the initial pressure down to abandonment.",
+		X:       report.Axis{Label: "Reservoir pressure", Unit: pU, Reverse: true},
+		Y:       report.Axis{Label: "Recovery", Unit: units.Percent},
+		Series:  []report.Series{wet, sales, cond},
+		Lines:   []report.RefLine{{Label: "Dew point", Value: pU.FromSI(rec.Depletion.Dew.P), Vertical: true}},
+	}, {
+		Name:    "condensate-saturation",
+		Title:   "Condensate saturation in the reservoir",
+		Caption: "Retrograde condensate as a fraction of the pore volume against the reservoir pressure; above the critical saturation it can flow.",
+		X:       report.Axis{Label: "Reservoir pressure", Unit: pU, Reverse: true},
+		Y:       report.Axis{Label: "Condensate saturation, fraction of pore volume"},
+		Series:  []report.Series{so},
+		Lines:   []report.RefLine{{Label: "Critical condensate saturation", Value: sc}},
+	}}
 }
 
 // relShare is 100 a/b in percent, or missing when b is not positive.

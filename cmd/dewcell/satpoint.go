@@ -6,6 +6,7 @@ import (
 
 	"github.com/urfave/cli/v2"
 
+	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/eos"
@@ -54,28 +55,29 @@ func satpointReport(st *study.Study, sys units.System, t float64) (*Report, eos.
 		lowP = pU.FromSI(low.P)
 	}
 	r := &Report{
-		Name:  "saturation",
-		Title: fmt.Sprintf("saturation pressures of %s at %s", fluidName(st), at),
+		Name:    "saturation",
+		Section: "Saturation pressures",
+		Title:   fmt.Sprintf("saturation pressures of %s at %s", fluidName(st), at),
 		Fields: []Field{
-			{Column{Name: "type"}, up.Type.String()},
-			{Column{Name: "temperature", Unit: tU}, tU.FromSI(t)},
-			{Column{Name: upperName, Unit: pU}, pU.FromSI(up.P)},
-			{Column{Name: "lower_dew_pressure", Unit: pU}, lowP},
-			{Column{Name: "z_feed"}, up.Feed.Z},
-			{Column{Name: "z_incipient"}, up.Inc.Z},
-			{Column{Name: "density_feed", Unit: dU}, dU.FromSI(up.Feed.Rho)},
-			{Column{Name: "density_incipient", Unit: dU}, dU.FromSI(up.Inc.Rho)},
-			{Column{Name: "iterations"}, up.Iter},
-			{Column{Name: "residual"}, up.Resid},
+			{Column: Column{Name: "type"}, Value: up.Type.String()},
+			{Column: Column{Name: "temperature", Unit: tU}, Value: tU.FromSI(t)},
+			{Column: Column{Name: upperName, Unit: pU}, Value: pU.FromSI(up.P)},
+			{Column: Column{Name: "lower_dew_pressure", Unit: pU}, Value: lowP},
+			{Column: Column{Name: "z_feed", Format: report.ZFactor}, Value: up.Feed.Z},
+			{Column: Column{Name: "z_incipient", Label: "Z incipient phase", Format: report.ZFactor}, Value: up.Inc.Z},
+			{Column: Column{Name: "density_feed", Unit: dU}, Value: dU.FromSI(up.Feed.Rho)},
+			{Column: Column{Name: "density_incipient", Label: "Density incipient phase", Unit: dU}, Value: dU.FromSI(up.Inc.Rho)},
+			{Column: Column{Name: "iterations", Verbose: true}, Value: up.Iter},
+			{Column: Column{Name: "residual", Verbose: true, Format: report.Diagnostic}, Value: up.Resid},
 		},
 	}
 	names := componentNames(st.Fluid)
 	r.Vectors = []Vector{
-		{Name: "feed_composition", Label: "component", Labels: names, Values: st.Z},
-		{Name: "incipient_composition", Label: "component", Labels: names, Values: up.Incipient},
+		{Name: "feed_composition", Title: "Feed", Label: "component", Labels: names, Values: st.Z},
+		{Name: "incipient_composition", Title: "Incipient phase", Label: "component", Labels: names, Values: up.Incipient},
 	}
 	if hasLow {
-		r.Vectors = append(r.Vectors, Vector{Name: "lower_incipient_composition", Label: "component", Labels: names, Values: low.Incipient})
+		r.Vectors = append(r.Vectors, Vector{Name: "lower_incipient_composition", Title: "Incipient phase at the lower dew point", Label: "component", Labels: names, Values: low.Incipient})
 	}
 	return r, up, nil
 }

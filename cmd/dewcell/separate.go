@@ -7,6 +7,7 @@ import (
 
 	"github.com/urfave/cli/v2"
 
+	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/cvd"
@@ -20,12 +21,9 @@ func separateCommand() *cli.Command {
 			if len(st.Separator) == 0 {
 				o.warn(fmt.Sprintf("%s gives no [[separator.stage]]: the fluid goes straight to the stock tank", st.File))
 			}
-			r, err := separateReport(st, o.sys, o.format == formatCSV)
+			r, err := separateReport(st, o.sys)
 			if err != nil {
 				return err
-			}
-			if o.format == formatCSV {
-				fmt.Fprintln(o.stderr, "separate: CSV holds the stage table with the totals; the compositions are in --format table or json")
 			}
 			return o.emit(r)
 		})
@@ -96,11 +94,11 @@ func trainOf(st *study.Study, sys units.System) cvd.Train {
 func standardFields(tr cvd.Train, sys units.System) []Field {
 	tU, pU := sys.Unit(units.Temperature), sys.Unit(units.Pressure)
 	return []Field{
-		{Column{Name: "standard_temperature", Unit: tU}, tU.FromSI(tr.Standard.T)},
-		{Column{Name: "standard_pressure", Unit: pU}, pU.FromSI(tr.Standard.P)},
-		{Column{Name: "stock_tank_temperature", Unit: tU}, tU.FromSI(tr.Tank.T)},
-		{Column{Name: "stock_tank_pressure", Unit: pU}, pU.FromSI(tr.Tank.P)},
-		{Column{Name: "separator_stages"}, len(tr.Stages)},
+		{Column: Column{Name: "standard_temperature", Unit: tU}, Value: tU.FromSI(tr.Standard.T)},
+		{Column: Column{Name: "standard_pressure", Unit: pU}, Value: pU.FromSI(tr.Standard.P)},
+		{Column: Column{Name: "stock_tank_temperature", Unit: tU}, Value: tU.FromSI(tr.Tank.T)},
+		{Column: Column{Name: "stock_tank_pressure", Unit: pU}, Value: pU.FromSI(tr.Tank.P)},
+		{Column: Column{Name: "separator_stages"}, Value: len(tr.Stages)},
 	}
 }
 
@@ -112,10 +110,10 @@ func finite(v float64) any {
 	return v
 }
 
-// separateReport flashes one mole of the study's feed through its train.
-// With csvOnly the report holds what one CSV table can: the stages with the
-// totals, without the compositions.
-func separateReport(st *study.Study, sys units.System, csvOnly bool) (*Report, error) {
+// separateReport flashes one mole of the study's feed through its train:
+// the totals, the stages and the compositions of the feed, the surface gas
+// and the stock-tank oil.
+func separateReport(st *study.Study, sys units.System) (*Report, error) {
 	tr := trainOf(st, sys)
 	sep, err := cvd.NewSeparator(st.Fluid, tr, nil)
 	if err != nil {
@@ -139,20 +137,21 @@ func separateReport(st *study.Study, sys units.System, csvOnly bool) (*Report, e
 		gasM, gasG = units.GPerMol.FromSI(res.GasM), res.GasGravity
 	}
 	r := &Report{
-		Name:  "separator",
-		Title: "surface yields of " + fluidName(st) + " through the separator train",
+		Name:    "separator",
+		Section: "Separator and stock tank",
+		Title:   "surface yields of " + fluidName(st) + " through the separator train",
 		Fields: append(standardFields(tr, sys),
-			Field{Column{Name: "surface_gas_mole_fraction"}, res.GasMoles},
-			Field{Column{Name: "surface_gas", Unit: su.gasPerMol.Unit}, su.gasPerMol.of(res.GasVolume)},
-			Field{Column{Name: "stock_tank_oil", Unit: su.oilPerMol.Unit}, su.oilPerMol.of(res.OilVolume)},
-			Field{Column{Name: "gor", Unit: su.gor.Unit}, su.gor.of(res.GOR)},
-			Field{Column{Name: "cgr", Unit: su.cgr.Unit}, su.cgr.of(res.CGR)},
-			Field{Column{Name: "surface_gas_gravity"}, gasG},
-			Field{Column{Name: "surface_gas_molar_mass", Unit: units.GPerMol}, gasM},
-			Field{Column{Name: "stock_tank_oil_density", Unit: dU}, oil(dU.FromSI(res.OilDensity))},
-			Field{Column{Name: "stock_tank_oil_specific_gravity"}, oil(res.OilSG)},
-			Field{Column{Name: "api_gravity"}, oil(res.API)},
-			Field{Column{Name: "stock_tank_oil_molar_mass", Unit: units.GPerMol}, oil(units.GPerMol.FromSI(res.OilM))},
+			Field{Column: Column{Name: "surface_gas_mole_fraction", Format: report.MoleFraction}, Value: res.GasMoles},
+			Field{Column: Column{Name: "surface_gas", Unit: su.gasPerMol.Unit}, Value: su.gasPerMol.of(res.GasVolume)},
+			Field{Column: Column{Name: "stock_tank_oil", Unit: su.oilPerMol.Unit}, Value: su.oilPerMol.of(res.OilVolume)},
+			Field{Column: Column{Name: "gor", Unit: su.gor.Unit}, Value: su.gor.of(res.GOR)},
+			Field{Column: Column{Name: "cgr", Unit: su.cgr.Unit}, Value: su.cgr.of(res.CGR)},
+			Field{Column: Column{Name: "surface_gas_gravity", Format: report.Gravity}, Value: gasG},
+			Field{Column: Column{Name: "surface_gas_molar_mass", Unit: units.GPerMol}, Value: gasM},
+			Field{Column: Column{Name: "stock_tank_oil_density", Unit: dU}, Value: oil(dU.FromSI(res.OilDensity))},
+			Field{Column: Column{Name: "stock_tank_oil_specific_gravity", Format: report.Gravity}, Value: oil(res.OilSG)},
+			Field{Column: Column{Name: "api_gravity", Format: report.Fixed(1)}, Value: oil(res.API)},
+			Field{Column: Column{Name: "stock_tank_oil_molar_mass", Unit: units.GPerMol}, Value: oil(units.GPerMol.FromSI(res.OilM))},
 		),
 	}
 	stages := Table{
@@ -162,12 +161,12 @@ func separateReport(st *study.Study, sys units.System, csvOnly bool) (*Report, e
 			{Name: "stage"},
 			{Name: "pressure", Unit: pU},
 			{Name: "temperature", Unit: tU},
-			{Name: "feed_mole_fraction"},
-			{Name: "gas_mole_fraction"},
+			{Name: "feed_mole_fraction", Label: "Feed", Format: report.MoleFraction},
+			{Name: "gas_mole_fraction", Label: "Gas", Format: report.MoleFraction},
 			{Name: "gas_volume", Unit: su.gasPerMol.Unit},
-			{Name: "stage_gor", Unit: su.gor.Unit},
-			{Name: "gas_gravity"},
-			{Name: "liquid_mole_fraction"},
+			{Name: "stage_gor", Label: "Stage GOR", Unit: su.gor.Unit},
+			{Name: "gas_gravity", Format: report.Gravity},
+			{Name: "liquid_mole_fraction", Label: "Liquid", Format: report.MoleFraction},
 		},
 	}
 	for i, s := range res.Stages {
@@ -188,13 +187,12 @@ func separateReport(st *study.Study, sys units.System, csvOnly bool) (*Report, e
 		})
 	}
 	r.Tables = []Table{stages}
-	if csvOnly {
-		return r, nil
-	}
 	comps := Table{
-		Name:    "compositions",
-		Title:   "compositions, mole fraction",
-		Columns: []Column{{Name: "component"}, {Name: "feed"}, {Name: "surface_gas"}, {Name: "stock_tank_oil"}},
+		Name:   "compositions",
+		Title:  "compositions, mole fraction",
+		Detail: true,
+		Columns: []Column{{Name: "component"}, {Name: "feed", Format: report.MoleFraction}, {Name: "surface_gas", Format: report.MoleFraction},
+			{Name: "stock_tank_oil", Format: report.MoleFraction}},
 	}
 	at := func(x []float64, i int) any {
 		if x == nil {

@@ -19,12 +19,21 @@ import (
 // any input or model supports.
 const MachineDigits = 14
 
-// SummaryPart is the name of the CSV part that holds the summary.
+// SummaryPart is the name of the CSV part that holds the summary, unless a
+// table has that name; then it is SummaryPart + "_fields".
 const SummaryPart = "summary"
 
-// Parts lists the names of the CSV parts of r: "summary" when r has fields
-// or compositions, then each table, then the matrix. The first is the one
-// CSV writes by default when r has no table; with tables, the first table.
+// summaryPart is the name of r's summary part.
+func (r *Report) summaryPart() string {
+	if r.Table(SummaryPart) != nil {
+		return SummaryPart + "_fields"
+	}
+	return SummaryPart
+}
+
+// Parts lists the names of the CSV parts of r: each table, the summary
+// when r has fields or compositions (first when r has no table), then the
+// matrix. The first is the one CSV writes by default.
 func (r *Report) Parts() []string {
 	var p []string
 	for _, t := range r.Tables {
@@ -32,9 +41,9 @@ func (r *Report) Parts() []string {
 	}
 	if len(r.Fields) > 0 || len(r.Vectors) > 0 {
 		if len(r.Tables) == 0 {
-			p = append([]string{SummaryPart}, p...)
+			p = append([]string{r.summaryPart()}, p...)
 		} else {
-			p = append(p, SummaryPart)
+			p = append(p, r.summaryPart())
 		}
 	}
 	if r.Matrix != nil {
@@ -81,7 +90,7 @@ func WriteCSV(w io.Writer, r *Report, part string) error {
 	var header []string
 	var rows [][]string
 	switch {
-	case part == SummaryPart:
+	case part == r.summaryPart():
 		var row []string
 		for _, f := range r.Fields {
 			if !Missing(f.Value) {

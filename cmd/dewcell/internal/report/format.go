@@ -2,6 +2,7 @@ package report
 
 import (
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 
@@ -130,7 +131,7 @@ func ShowColumn(c Column, values []any) Shown {
 		s.Unit, s.Factor = m, factor
 		hi *= factor
 		lo *= factor
-		s.Decimals = 3
+		s.Decimals = 0 // nothing but zeros
 		if hi > 0 {
 			s.Decimals = clamp(3-int(math.Floor(math.Log10(hi))), 0, 3)
 		}
@@ -251,9 +252,8 @@ func multiple(u units.Unit, hi float64) (units.Unit, float64) {
 
 // displaySymbol writes a power of ten as people read it: "10^6 sm3" for
 // "1e6 sm3".
-func displaySymbol(sym string) string {
-	if strings.HasPrefix(sym, "1e") {
-		return "10^" + sym[2:]
-	}
-	return sym
-}
+func displaySymbol(sym string) string { return powerOfTen.ReplaceAllString(sym, "${1}10^$2") }
+
+// powerOfTen is a power of ten written 1eN at the start of a unit or after
+// a slash.
+var powerOfTen = regexp.MustCompile(`(^|/)1e(-?[0-9]+)`)

@@ -92,6 +92,9 @@ type Table struct {
 	// leaves out: the traced points of an envelope, the compositions of
 	// every step. It is in every file.
 	Detail bool
+	// Transpose shows the table to people with its rows as columns, headed
+	// by the first column's values: a few cases of many quantities.
+	Transpose bool
 }
 
 // A Matrix is a square table of numbers between labelled items, such as
@@ -107,8 +110,11 @@ type Matrix struct {
 
 // A Report is the result of one command.
 type Report struct {
-	Name    string // JSON key when several reports are written together, file name in a folder
-	Title   string // heading for people
+	Name  string // JSON key when several reports are written together, file name in a folder
+	Title string // heading for people
+	// Section is the short heading of the result in a document that holds
+	// several ("Phase envelope"); empty, the title serves.
+	Section string
 	Fields  []Field
 	Vectors []Vector
 	Tables  []Table
@@ -119,6 +125,18 @@ type Report struct {
 	// to standard error with the result, and into the files that hold it.
 	Notes    []string
 	Warnings []string
+}
+
+// Brief is r without its Detail tables: a copy sharing everything else.
+func (r *Report) Brief() *Report {
+	b := *r
+	b.Tables = nil
+	for _, t := range r.Tables {
+		if !t.Detail {
+			b.Tables = append(b.Tables, t)
+		}
+	}
+	return &b
 }
 
 // Warn adds warnings to r.

@@ -42,8 +42,7 @@ func WriteText(w io.Writer, opt TextOptions, reports ...*Report) error {
 
 func (r *Report) text(b *strings.Builder, opt TextOptions) {
 	if r.Title != "" {
-		b.WriteString(Capitalize(r.Title))
-		b.WriteByte('\n')
+		b.WriteString(wrap(Capitalize(r.Title), opt.Width, ""))
 	}
 	if fields := r.shownFields(opt.Verbose); len(fields) > 0 {
 		var short []Field
@@ -74,12 +73,15 @@ func (r *Report) text(b *strings.Builder, opt TextOptions) {
 		if title == "" {
 			title = LabelOf(t.Name)
 		}
-		b.WriteString("\n" + Capitalize(title) + "\n")
+		b.WriteString("\n" + wrap(Capitalize(title), opt.Width, ""))
 		if len(t.Rows) == 0 {
 			b.WriteString("(none)\n")
 			continue
 		}
 		g, notes := tableGrid(t, opt.Verbose)
+		if t.Transpose {
+			g = transposedGrid(t, opt.Verbose)
+		}
 		g.write(b, opt.Width)
 		for _, n := range notes {
 			b.WriteString(wrap(n, opt.Width, "     "))
@@ -90,7 +92,7 @@ func (r *Report) text(b *strings.Builder, opt TextOptions) {
 		if title == "" {
 			title = LabelOf(m.Name)
 		}
-		b.WriteString("\n" + Capitalize(title) + "\n")
+		b.WriteString("\n" + wrap(Capitalize(title), opt.Width, ""))
 		matrixGrid(m).write(b, opt.Width)
 	}
 }
@@ -339,6 +341,34 @@ func tableGrid(t *Table, verbose bool) (*grid, []string) {
 	g.head = [][]cell{head}
 	g.rows = body
 	return g, notes
+}
+
+// transposedGrid lays out t with a row per column of t (its title, then
+// each case's value, then the unit) and a column per row of t, headed by
+// the row's first cell.
+func transposedGrid(t *Table, verbose bool) *grid {
+	head := []cell{textCell("Quantity")}
+	for _, row := range t.Rows {
+		head = append(head, cell{lines: []string{(Shown{}).Text(row[0])}, right: true})
+	}
+	head = append(head, textCell("Unit"))
+	g := &grid{head: [][]cell{head}, fixed: 1}
+	for j, c := range t.Columns[1:] {
+		if c.Verbose && !verbose {
+			continue
+		}
+		vals := make([]any, len(t.Rows))
+		for i, row := range t.Rows {
+			vals[i] = row[j+1]
+		}
+		s := ShowColumn(c, vals)
+		line := []cell{textCell(c.Title())}
+		for _, v := range vals {
+			line = append(line, cell{lines: []string{s.Text(v)}, right: numeric(v) || Missing(v)})
+		}
+		g.rows = append(g.rows, append(line, textCell(s.Symbol)))
+	}
+	return g
 }
 
 // vectorGrid lays out vectors over the same labels side by side.
