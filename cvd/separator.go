@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"dewcell/eos"
+	"dewcell/internal/phys"
 )
 
 // Conditions are a temperature and a pressure.
@@ -14,22 +15,22 @@ type Conditions struct {
 	P float64 // Pa
 }
 
-// Standard conditions of the trade.
+// Standard conditions of the trade (package phys).
 var (
 	// StandardField is 60 °F and 14.696 psia.
-	StandardField = Conditions{T: (60 + 459.67) / 1.8, P: 14.696 * 6894.757293168361}
+	StandardField = Conditions{T: phys.FieldStandardT, P: phys.FieldStandardP}
 	// StandardMetric is 15 °C and 101.325 kPa.
-	StandardMetric = Conditions{T: 288.15, P: 101325}
+	StandardMetric = Conditions{T: phys.MetricStandardT, P: phys.MetricStandardP}
 )
 
-// Reference values for surface products.
+// Reference values for surface products (package phys).
 const (
 	// MolarMassAir is the molar mass of dry air, kg/mol (28.9647 g/mol; gas
 	// specific gravity is M/M_air).
-	MolarMassAir = 0.0289647
+	MolarMassAir = phys.MolarMassAir
 	// WaterDensity60F is the density of water at 60 °F, kg/m³ (62.366 lb/ft³),
 	// the reference of the 60/60 °F specific gravity of oils.
-	WaterDensity60F = 999.016
+	WaterDensity60F = phys.WaterDensity60F
 )
 
 // A Train is a sequence of separator stages; the stock tank at the standard
@@ -86,7 +87,7 @@ type SeparatorResult struct {
 	OilDensity float64   // kg/m³ at standard conditions, volume-shifted when the fluid is
 	OilRho60F  float64   // kg/m³ at 60 °F and 14.696 psia, whatever the standard conditions
 	OilSG      float64   // 60/60 °F specific gravity: OilRho60F over WaterDensity60F
-	API        float64   // API gravity, 141.5/SG − 131.5
+	API        float64   // API gravity, 141.5/SG − 131.5 (phys.APIGravity)
 	Oil        []float64 // stock-tank oil composition
 
 	// GOR is surface gas over stock-tank oil, standard m³/m³; CGR is its
@@ -243,7 +244,7 @@ func (s *Separator) Separate(z []float64) (SeparatorResult, error) {
 			r.OilRho60F = p60.Rho
 		}
 		r.OilSG = r.OilRho60F / WaterDensity60F
-		r.API = 141.5/r.OilSG - 131.5
+		r.API = phys.APIGravity(r.OilSG)
 		r.GOR = r.GasVolume / r.OilVolume
 		r.CGR = r.OilVolume / r.GasVolume
 		if r.GasVolume == 0 {

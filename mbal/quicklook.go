@@ -7,6 +7,7 @@ import (
 
 	"dewcell/cvd"
 	"dewcell/eos"
+	"dewcell/internal/phys"
 )
 
 // ErrBadSurfaceData reports invalid separator data for the quick-look route.
@@ -38,11 +39,6 @@ func CragoeMolarMass(api float64) (float64, error) {
 	}
 	return 6.084 / (api - 5.9), nil // 6084 g/mol = 6.084 kg/mol
 }
-
-// API gravity and 60/60 °F specific gravity of a liquid, by the definition of
-// the API scale.
-func sgFromAPI(api float64) float64 { return 141.5 / (api + 131.5) }
-func apiFromSG(sg float64) float64  { return 141.5/sg - 131.5 }
 
 // SurfaceGas is the gas of one separator stage, the stock tank included.
 type SurfaceGas struct {
@@ -174,12 +170,12 @@ func Recombine(d SurfaceData) (*WellStream, error) {
 		if !(d.OilSG > 0) || !finite(d.OilSG) {
 			return nil, bad("oil specific gravity", d.OilSG, "> 0")
 		}
-		w.OilSG, w.OilAPI = d.OilSG, apiFromSG(d.OilSG)
+		w.OilSG, w.OilAPI = d.OilSG, phys.APIGravity(d.OilSG)
 	case d.OilAPI != 0:
-		if !(d.OilAPI > -131.5) || !finite(d.OilAPI) {
+		if !(d.OilAPI > -phys.APIOffset) || !finite(d.OilAPI) {
 			return nil, bad("oil API gravity", d.OilAPI, "> −131.5")
 		}
-		w.OilSG, w.OilAPI = sgFromAPI(d.OilAPI), d.OilAPI
+		w.OilSG, w.OilAPI = phys.SpecificGravity(d.OilAPI), d.OilAPI
 	default:
 		return nil, fmt.Errorf("%w: no stock-tank oil gravity given (specific or API)", ErrBadSurfaceData)
 	}
