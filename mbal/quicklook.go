@@ -195,7 +195,7 @@ func Recombine(d SurfaceData) (*WellStream, error) {
 		return nil, fmt.Errorf("%w: well stream: %w", ErrBadSurfaceData, err)
 	}
 
-	vsc := eos.R * std.T / std.P // ideal-gas molar volume at standard conditions, m³/mol
+	vsc := std.IdealGasVolume() // ideal-gas molar volume at standard conditions, m³/mol
 	c1 := cvd.WaterDensity60F * vsc / cvd.MolarMassAir
 	c2 := cvd.WaterDensity60F * vsc
 	w.GasEquivalent = c2 * w.OilSG / w.OilM
@@ -274,4 +274,40 @@ func InPlaceQuickLook(w *WellStream, hcpv, t, p float64) (*QuickLook, error) {
 	q.SalesGas = w.GasFraction * q.WetGas
 	q.Condensate = q.SalesGas / w.GOR
 	return q, nil
+}
+
+// RouteComparison sets the quick look beside the equation-of-state figures
+// of the same reservoir: each difference is the quick look's figure minus
+// the equation of state's (standard volumes in standard m³), each relative
+// difference that over the equation of state's figure, NaN where that is
+// zero (a fluid that makes no condensate, say).
+type RouteComparison struct {
+	Z, WetGas, SalesGas, Condensate float64
+	// DryGasFraction is the difference of the surface gas's mole fraction
+	// of the well stream: WellStream.GasFraction against the separator
+	// train's InPlace.Surface.GasMoles.
+	DryGasFraction                              float64
+	RelZ, RelWetGas, RelSalesGas, RelCondensate float64
+}
+
+// CompareRoutes compares the quick look q from the recombined well stream w
+// with the equation-of-state figures ip.
+func CompareRoutes(ip *InPlace, w *WellStream, q *QuickLook) RouteComparison {
+	rel := func(a, b float64) float64 {
+		if b == 0 {
+			return math.NaN()
+		}
+		return (a - b) / b
+	}
+	return RouteComparison{
+		Z:              q.Z - ip.Z,
+		WetGas:         q.WetGas - ip.WetGas,
+		SalesGas:       q.SalesGas - ip.SalesGas,
+		Condensate:     q.Condensate - ip.Condensate,
+		DryGasFraction: w.GasFraction - ip.Surface.GasMoles,
+		RelZ:           rel(q.Z, ip.Z),
+		RelWetGas:      rel(q.WetGas, ip.WetGas),
+		RelSalesGas:    rel(q.SalesGas, ip.SalesGas),
+		RelCondensate:  rel(q.Condensate, ip.Condensate),
+	}
 }

@@ -191,14 +191,6 @@ func perBulk(u units.Unit, v, bulk float64) any {
 	return u.FromSI(v / bulk)
 }
 
-// relDiffPct is 100 (a − b)/b.
-func relDiffPct(a, b float64) any {
-	if b == 0 {
-		return nil
-	}
-	return 100 * (a - b) / b
-}
-
 // inplaceReport computes the initial gas and condensate in place by the
 // equation of state (the fluid's moles filling the hydrocarbon pore volume
 // at the initial state, through the separator train) and, when the study
@@ -311,9 +303,10 @@ func inPlaceReportOf(st *study.Study, sys units.System, tr cvd.Train, res mbal.R
 		r.Tables = []Table{routes}
 		return r
 	}
+	d := mbal.CompareRoutes(ip, w, q)
 	routes.Rows = append(routes.Rows,
 		row("quick look", q.Z, q.WetGas, q.SalesGas, q.Condensate, w.GasFraction),
-		row("difference", q.Z-ip.Z, q.WetGas-ip.WetGas, q.SalesGas-ip.SalesGas, q.Condensate-ip.Condensate, w.GasFraction-ip.Surface.GasMoles))
+		row("difference", d.Z, d.WetGas, d.SalesGas, d.Condensate, d.DryGasFraction))
 	r.Tables = []Table{routes}
 
 	pU, pcTU := u.press, units.DegR // pseudo-critical temperatures are quoted absolute
@@ -341,10 +334,10 @@ func inPlaceReportOf(st *study.Study, sys units.System, tr cvd.Train, res mbal.R
 		Field{Column{Name: "pseudo_critical_pressure", Unit: pU}, pU.FromSI(w.Critical.Ppc)},
 		Field{Column{Name: "pseudo_reduced_temperature"}, q.Tpr},
 		Field{Column{Name: "pseudo_reduced_pressure"}, q.Ppr},
-		Field{Column{Name: "quick_look_difference_z", Unit: units.Percent}, relDiffPct(q.Z, ip.Z)},
-		Field{Column{Name: "quick_look_difference_wet_gas", Unit: units.Percent}, relDiffPct(q.WetGas, ip.WetGas)},
-		Field{Column{Name: "quick_look_difference_sales_gas", Unit: units.Percent}, relDiffPct(q.SalesGas, ip.SalesGas)},
-		Field{Column{Name: "quick_look_difference_condensate", Unit: units.Percent}, relDiffPct(q.Condensate, ip.Condensate)},
+		Field{Column{Name: "quick_look_difference_z", Unit: units.Percent}, finite(100 * d.RelZ)},
+		Field{Column{Name: "quick_look_difference_wet_gas", Unit: units.Percent}, finite(100 * d.RelWetGas)},
+		Field{Column{Name: "quick_look_difference_sales_gas", Unit: units.Percent}, finite(100 * d.RelSalesGas)},
+		Field{Column{Name: "quick_look_difference_condensate", Unit: units.Percent}, finite(100 * d.RelCondensate)},
 	)
 	return r
 }
