@@ -341,13 +341,3 @@ func inPlaceReportOf(st *study.Study, sys units.System, tr cvd.Train, res mbal.R
 	)
 	return r
 }
-
-// standardVolume is the ideal-gas molar volume at the train's standard
-// conditions, m³/mol.
-func standardVolume(tr cvd.Train) float64 {
-	std := tr.Standard
-	if std == (cvd.Conditions{}) {
-		std = cvd.StandardField
-	}
-	return eos.R * std.T / std.P
-}
