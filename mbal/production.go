@@ -105,6 +105,7 @@ type WetGasHistory struct {
 // (as Recover's) are returned as they are.
 func HistoryPoints(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, records []ProductionRecord, opt *HistoryOptions) (*WetGasHistory, error) {
 	const fn = "HistoryPoints"
+	r.Abandonment = 0 // not used: the depletion runs down to the lowest record
 	if err := r.Check(); err != nil {
 		return nil, err
 	}
