@@ -354,7 +354,7 @@ func (d *Depletion) report(c *cell, hist []stepRecord, sep *Separator, tr *Train
 	n := len(c.zc)
 	var std Conditions
 	if tr != nil {
-		std = tr.standard()
+		std = tr.StandardConditions()
 	}
 	produced := make([]float64, n) // cumulative moles of each component
 	var perr []float64             // their estimated error

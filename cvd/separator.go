@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"dewcell/eos"
+	"dewcell/internal/phys"
 )
 
 // Conditions are a temperature and a pressure.
@@ -14,22 +15,26 @@ type Conditions struct {
 	P float64 // Pa
 }
 
-// Standard conditions of the trade.
+// IdealGasVolume is the molar volume of an ideal gas at c, R T/P, m³/mol:
+// the standard volume of one mole when c are standard conditions.
+func (c Conditions) IdealGasVolume() float64 { return eos.R * c.T / c.P }
+
+// Standard conditions of the trade (package phys).
 var (
 	// StandardField is 60 °F and 14.696 psia.
-	StandardField = Conditions{T: (60 + 459.67) / 1.8, P: 14.696 * 6894.757293168361}
+	StandardField = Conditions{T: phys.FieldStandardT, P: phys.FieldStandardP}
 	// StandardMetric is 15 °C and 101.325 kPa.
-	StandardMetric = Conditions{T: 288.15, P: 101325}
+	StandardMetric = Conditions{T: phys.MetricStandardT, P: phys.MetricStandardP}
 )
 
-// Reference values for surface products.
+// Reference values for surface products (package phys).
 const (
 	// MolarMassAir is the molar mass of dry air, kg/mol (28.9647 g/mol; gas
 	// specific gravity is M/M_air).
-	MolarMassAir = 0.0289647
+	MolarMassAir = phys.MolarMassAir
 	// WaterDensity60F is the density of water at 60 °F, kg/m³ (62.366 lb/ft³),
 	// the reference of the 60/60 °F specific gravity of oils.
-	WaterDensity60F = 999.016
+	WaterDensity60F = phys.WaterDensity60F
 )
 
 // A Train is a sequence of separator stages; the stock tank at the standard
@@ -43,7 +48,9 @@ type Train struct {
 	Tank Conditions
 }
 
-func (tr Train) standard() Conditions {
+// StandardConditions are the conditions of the train's standard volumes:
+// Standard, or StandardField when that is zero.
+func (tr Train) StandardConditions() Conditions {
 	if tr.Standard == (Conditions{}) {
 		return StandardField
 	}
@@ -52,7 +59,7 @@ func (tr Train) standard() Conditions {
 
 func (tr Train) tank() Conditions {
 	if tr.Tank == (Conditions{}) {
-		return tr.standard()
+		return tr.StandardConditions()
 	}
 	return tr.Tank
 }
@@ -66,8 +73,15 @@ type StageResult struct {
 	GasVolume float64   // standard volume of that gas, m³ (ideal gas at standard conditions)
 	Gas       []float64 // gas composition (nil when the stage makes no gas)
 	GasM      float64   // gas molar mass, kg/mol (0 when no gas)
-	Liquid    []float64 // liquid composition passed on (nil when none is left)
-	LiqMoles  float64   // moles of liquid passed on
+	// GasGravity is the specific gravity of the stage's gas, GasM/MolarMassAir
+	// (0 when no gas).
+	GasGravity float64
+	// GOR is the stage's gas over the train's stock-tank oil, standard
+	// m³/m³: the stage GOR of a separator test. With no stock-tank oil it is
+	// +Inf where the stage makes gas; with no gas it is 0.
+	GOR      float64
+	Liquid   []float64 // liquid composition passed on (nil when none is left)
+	LiqMoles float64   // moles of liquid passed on
 }
 
 // SeparatorResult is the surface split of one mole of well stream.
@@ -86,7 +100,7 @@ type SeparatorResult struct {
 	OilDensity float64   // kg/m³ at standard conditions, volume-shifted when the fluid is
 	OilRho60F  float64   // kg/m³ at 60 °F and 14.696 psia, whatever the standard conditions
 	OilSG      float64   // 60/60 °F specific gravity: OilRho60F over WaterDensity60F
-	API        float64   // API gravity, 141.5/SG − 131.5
+	API        float64   // API gravity, 141.5/SG − 131.5 (phys.APIGravity)
 	Oil        []float64 // stock-tank oil composition
 
 	// GOR is surface gas over stock-tank oil, standard m³/m³; CGR is its
@@ -114,7 +128,7 @@ type Separator struct {
 
 // NewSeparator checks the train and returns a Separator for fluid fl.
 func NewSeparator(fl *eos.Fluid, train Train, s *eos.Settings) (*Separator, error) {
-	for k, st := range append(append([]Conditions(nil), train.Stages...), train.tank(), train.standard()) {
+	for k, st := range append(append([]Conditions(nil), train.Stages...), train.tank(), train.StandardConditions()) {
 		if !(st.T > 0 && st.P > 0) || math.IsInf(st.T, 0) || math.IsInf(st.P, 0) {
 			return nil, fmt.Errorf("%w: stage %d at %g K and %g Pa", ErrBadTrain, k+1, st.T, st.P)
 		}
@@ -158,7 +172,7 @@ func (s *Separator) keepK(k int) {
 // oil volume is that of the tank's liquid at standard conditions.
 func (s *Separator) Separate(z []float64) (SeparatorResult, error) {
 	n := s.fl.N()
-	std, tk := s.train.standard(), s.train.tank()
+	std, tk := s.train.StandardConditions(), s.train.tank()
 	stages := append(append([]Conditions(nil), s.train.Stages...), tk)
 	var r SeparatorResult
 	copy(s.feed, z)
@@ -198,6 +212,7 @@ func (s *Separator) Separate(z []float64) (SeparatorResult, error) {
 		if sr.GasMoles > 0 {
 			sr.Gas = append([]float64(nil), s.res.Y...)
 			sr.GasM = s.fl.MolarMass(sr.Gas)
+			sr.GasGravity = sr.GasM / MolarMassAir
 			sr.GasVolume = sr.GasMoles * eos.R * std.T / std.P
 			for i := 0; i < n; i++ {
 				s.gas[i] += sr.GasMoles * sr.Gas[i]
@@ -243,11 +258,22 @@ func (s *Separator) Separate(z []float64) (SeparatorResult, error) {
 			r.OilRho60F = p60.Rho
 		}
 		r.OilSG = r.OilRho60F / WaterDensity60F
-		r.API = 141.5/r.OilSG - 131.5
+		r.API = phys.APIGravity(r.OilSG)
 		r.GOR = r.GasVolume / r.OilVolume
 		r.CGR = r.OilVolume / r.GasVolume
 		if r.GasVolume == 0 {
 			r.CGR = math.Inf(1)
+		}
+	}
+	for k := range r.Stages {
+		st := &r.Stages[k]
+		switch {
+		case !(st.GasMoles > 0):
+			st.GOR = 0
+		case r.OilMoles > 0:
+			st.GOR = st.GasVolume / r.OilVolume
+		default:
+			st.GOR = math.Inf(1)
 		}
 	}
 	return r, nil

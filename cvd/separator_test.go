@@ -50,6 +50,16 @@ func TestStandardConditions(t *testing.T) {
 	// roundings (METHODS 5.1).
 	v := eos.R * cvd.StandardField.T / cvd.StandardField.P // m³/mol
 	within(t, "R T_sc/p_sc (scf/lbmol)", v/m3PerFt3*molPerLbmol, 379.49, 0.01, "METHODS 5.1 and C9")
+	within(t, "StandardField.IdealGasVolume (scf/lbmol)", cvd.StandardField.IdealGasVolume()/m3PerFt3*molPerLbmol, 379.49, 0.01, "METHODS 5.1 and C9")
+	// At 15 °C and 101.325 kPa: 23.645 m³/kmol (ISO 13443:1996, as
+	// cmd/dewcell's separate test cites it), 5 digits.
+	within(t, "StandardMetric.IdealGasVolume (m³/kmol)", cvd.StandardMetric.IdealGasVolume()*1000, 23.645, 5e-4, "ISO 13443:1996")
+	if got := (cvd.Train{}).StandardConditions(); got != cvd.StandardField {
+		t.Errorf("zero train: standard conditions %+v, want StandardField (documented)", got)
+	}
+	if got := (cvd.Train{Standard: cvd.StandardMetric}).StandardConditions(); got != cvd.StandardMetric {
+		t.Errorf("metric train: standard conditions %+v, want StandardMetric", got)
+	}
 
 	// Water at 60 °F: 62.366 lbm/ft³; one STB of liquid of gravity 1 weighs
 	// 350.16 lbm (METHODS 5.1 and C9). WaterDensity60F, 999.016 kg/m³, is
@@ -85,6 +95,7 @@ func checkSeparation(t *testing.T, fl *eos.Fluid, train cvd.Train, z []float64, 
 	}
 	// Each stage's feed leaves as gas or passes its liquid on.
 	feed := 1.0
+	mixGravity := 0.0 // Σ n_k γ_k: the molar mass of a mixture is the mole-weighted mean of its parts
 	gas := make([]float64, n)
 	var gasMoles, gasVol float64
 	for k, st := range r.Stages {
@@ -97,6 +108,8 @@ func checkSeparation(t *testing.T, fl *eos.Fluid, train cvd.Train, z []float64, 
 		if st.GasMoles > 0 {
 			withinRel(t, at+": gas standard volume = n R T_sc/p_sc", st.GasVolume, st.GasMoles*eos.R*std.T/std.P, 1e-14, "ideal gas at standard conditions, METHODS 5.1")
 			withinRel(t, at+": gas molar mass", st.GasM, fl.MolarMass(st.Gas), 1e-14, "definition")
+			withinRel(t, at+": gas gravity = M_g/M_air", st.GasGravity, st.GasM*1000/28.9647, 1e-14, "definition, METHODS 5.6 and §2 (M_air = 28.9647 g/mol)")
+			mixGravity += st.GasMoles * st.GasGravity
 			for i := range n {
 				gas[i] += st.GasMoles * st.Gas[i]
 			}
@@ -128,6 +141,19 @@ func checkSeparation(t *testing.T, fl *eos.Fluid, train cvd.Train, z []float64, 
 	if r.GasMoles > 0 {
 		within(t, "Σ combined gas composition", sum(r.Gas), 1, 1e-13, "mole fractions")
 		withinRel(t, "gas gravity = M_g/M_air", r.GasGravity, r.GasM/cvd.MolarMassAir, 1e-14, "definition, METHODS 5.6")
+		withinRel(t, "gas gravity = Σ n_k γ_k / Σ n_k", r.GasGravity, mixGravity/r.GasMoles, 1e-13, "molar mass of a mixture, mole-weighted")
+	}
+	for k, st := range r.Stages {
+		switch {
+		case st.GasMoles == 0:
+			if st.GOR != 0 || st.GasGravity != 0 {
+				t.Errorf("stage %d makes no gas: GOR %g, gravity %g; want 0 and 0 (documented)", k+1, st.GOR, st.GasGravity)
+			}
+		case r.OilMoles == 0:
+			if !math.IsInf(st.GOR, 1) {
+				t.Errorf("stage %d: GOR %g without stock-tank oil, want +Inf (documented)", k+1, st.GOR)
+			}
+		}
 	}
 	if r.OilMoles == 0 { // everything left as gas
 		if r.Oil != nil || !math.IsInf(r.GOR, 1) || r.CGR != 0 {
@@ -143,6 +169,12 @@ func checkSeparation(t *testing.T, fl *eos.Fluid, train cvd.Train, z []float64, 
 	withinRel(t, "API = 141.5/SG − 131.5", r.API, 141.5/r.OilSG-131.5, 1e-12, "API gravity, METHODS 5.1")
 	withinRel(t, "oil volume = n M/ρ", r.OilVolume, r.OilMoles*r.OilM/r.OilDensity, 1e-12, "definition")
 	withinRel(t, "GOR", r.GOR, r.GasVolume/r.OilVolume, 1e-14, "definition, METHODS 5.6")
+	stageGOR := 0.0
+	for k, st := range r.Stages {
+		withinRel(t, fmt.Sprintf("stage %d GOR = stage gas / stock-tank oil", k+1), st.GOR, st.GasVolume/r.OilVolume, 1e-14, "METHODS 5.6: GOR_k over the STB")
+		stageGOR += st.GOR
+	}
+	withinRel(t, "GOR = Σ stage GOR", r.GOR, stageGOR, 1e-13, "METHODS 5.6: total GOR = Σ GOR_k")
 	withinRel(t, "CGR · GOR", r.CGR*r.GOR, 1, 1e-14, "CGR = 1/GOR")
 }
 

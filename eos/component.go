@@ -4,10 +4,13 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	"dewcell/internal/phys"
 )
 
-// R is the molar gas constant, J/(mol·K) (exact since the 2019 SI redefinition).
-const R = 8.31446261815324
+// R is the molar gas constant, 8.31446261815324 J/(mol·K) (exact since the
+// 2019 SI redefinition; package phys).
+const R = phys.R
 
 // Peng–Robinson constants from the critical-point conditions (triple root of
 // the cubic), unrounded. The rounded 0.45724 and 0.07780 of Peng and Robinson

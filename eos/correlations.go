@@ -44,16 +44,18 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	"dewcell/internal/phys"
 )
 
-// Unit factors for the field-unit correlations.
+// Unit factors for the field-unit correlations, exact (package phys).
 const (
-	rankinePerKelvin = 1.8                // °R per K, exact
-	paPerPsia        = 6894.757293168362  // Pa per lbf/in², exact from the lb, g_n and inch
-	paPerAtm         = 101325.0           // Pa per standard atmosphere, exact
-	m3PerFt3         = 0.028316846592     // m³ per ft³, exact
-	kgPerLb          = 0.45359237         // kg per lb, exact
-	m3kgPerFt3lb     = m3PerFt3 / kgPerLb // ft³/lbm → m³/kg
+	rankinePerKelvin = phys.RankinePerKelvin // °R per K
+	paPerPsia        = phys.PaPerPsi         // Pa per lbf/in²
+	paPerAtm         = phys.PaPerAtm         // Pa per standard atmosphere
+	m3PerFt3         = phys.M3PerFt3         // m³ per ft³
+	kgPerLb          = phys.KgPerPound       // kg per lb
+	m3kgPerFt3lb     = phys.M3KgPerFt3Lb     // ft³/lbm → m³/kg
 )
 
 // ErrCorrelationRange reports a correlation that gave unphysical properties

@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"strings"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -166,6 +165,11 @@ type PZFit struct {
 	Curvature   float64
 	CurvatureSE float64
 	CurvatureP  float64
+	// CurvatureT is the t statistic of that test, |c| over its standard
+	// error (the residual scatter floored at rounding), with CurvatureDOF
+	// degrees of freedom.
+	CurvatureT   float64
+	CurvatureDOF int
 	// CurvatureSignificant says CurvatureP < 1 − Confidence.
 	CurvatureSignificant bool
 }
@@ -282,6 +286,11 @@ type HavlenaOdehPoint struct {
 	// FOverE is F/(E_g + E_fw), standard m³: the gas in place each point
 	// implies if there is no influx. Constant for a volumetric reservoir.
 	FOverE float64
+	// Abscissa is G_p + W_p B_w/B_g, standard m³, and CorrectedPZ is
+	// (p/Z₂)(1 − c_e(p_i − p)), Pa: the point as HavlenaOdehResult.Line
+	// fits it.
+	Abscissa    float64
+	CorrectedPZ float64
 }
 
 // HavlenaOdehResult is the Havlena–Odeh analysis of a production history.
@@ -305,10 +314,124 @@ type HavlenaOdehResult struct {
 	CurvatureChange float64
 	// WaterInfluxSuspected is set when the trend or the curvature of Line
 	// is both significant and material (TrendChange or CurvatureChange of
-	// at least InfluxMateriality); Reason says which, in which direction,
-	// and what it suggests.
+	// at least InfluxMateriality): Influx.Outcome is not NoInflux.
 	WaterInfluxSuspected bool
-	Reason               string
+	// Influx is the verdict of the two tests: their statistics, which of
+	// them found a departure, and what it suggests.
+	Influx InfluxVerdict
+}
+
+// InfluxOutcome is what the two influx tests of HavlenaOdeh suggest.
+type InfluxOutcome int
+
+const (
+	// NoInflux: neither test finds a departure that is both significant
+	// and material; the history is consistent with a volumetric reservoir.
+	NoInflux InfluxOutcome = iota
+	// GrowingInflux: F/(E_g+E_fw) rises with production, or the corrected
+	// p/Z line flattens: water influx growing with time, as from an active
+	// aquifer.
+	GrowingInflux
+	// FadingSupport: F/(E_g+E_fw) falls, or the line steepens: pressure
+	// support that fades as pressure falls, as from a small (pot) aquifer,
+	// or more rock and water expansion than c_w and c_f give.
+	FadingSupport
+	// ConflictingTests: both tests find a departure, in opposite
+	// directions; the history is not volumetric, and the data and Z₂
+	// deserve a check.
+	ConflictingTests
+)
+
+func (o InfluxOutcome) String() string {
+	switch o {
+	case NoInflux:
+		return "no influx"
+	case GrowingInflux:
+		return "growing influx"
+	case FadingSupport:
+		return "fading support"
+	case ConflictingTests:
+		return "conflicting tests"
+	}
+	return fmt.Sprintf("InfluxOutcome(%d)", int(o))
+}
+
+// InfluxTests is a set of the two influx tests, as flags.
+type InfluxTests uint8
+
+const (
+	// TrendTest is the test of the slope of F/(E_g+E_fw) against G_p.
+	TrendTest InfluxTests = 1 << iota
+	// CurvatureTest is the test of the quadratic term of the corrected p/Z line.
+	CurvatureTest
+)
+
+// InfluxTest is one of the two influx tests of HavlenaOdeh: a t test of a
+// fitted coefficient against zero, and the departure from a volumetric
+// balance that the coefficient implies over the history.
+type InfluxTest struct {
+	// Estimate is the coefficient tested: the slope of F/(E_g+E_fw) against
+	// G_p (dimensionless), or the curvature c of Line (Pa/m⁶).
+	Estimate float64
+	// T is the t statistic |Estimate|/SE, the standard error taken with
+	// the residual scatter floored at rounding (0 when that error is zero),
+	// with DOF degrees of freedom; P is its two-sided p-value.
+	T   float64
+	DOF int
+	P   float64
+	// Change is the departure the coefficient implies, signed: the change
+	// of F/(E_g+E_fw) over the history as a fraction of G (TrendChange),
+	// or the departure of Line from straight at mid-history as a fraction
+	// of its intercept (CurvatureChange).
+	Change float64
+	// Significant says P < InfluxVerdict.Alpha; Material says |Change| ≥
+	// InfluxVerdict.Materiality.
+	Significant, Material bool
+}
+
+// Rising says the departure is support growing with production:
+// F/(E_g+E_fw) rising, or the corrected p/Z line flattening (Estimate > 0).
+func (t InfluxTest) Rising() bool { return t.Estimate > 0 }
+
+// Triggered says the test finds a departure that is both significant and
+// material.
+func (t InfluxTest) Triggered() bool { return t.Significant && t.Material }
+
+// InfluxVerdict is the outcome of the two influx tests of HavlenaOdeh.
+type InfluxVerdict struct {
+	Outcome InfluxOutcome
+	// Triggered holds the tests that found a departure both significant
+	// and material.
+	Triggered InfluxTests
+	// Trend is the test of the slope of F/(E_g+E_fw) against G_p;
+	// Curvature that of the quadratic term of the corrected p/Z line.
+	Trend, Curvature InfluxTest
+	// Alpha is the level of each test, (1 − Confidence)/2 (Bonferroni).
+	Alpha float64
+	// Materiality is InfluxMateriality, the smallest departure reported.
+	Materiality float64
+}
+
+// influxVerdict decides between the outcomes from the two tests.
+func influxVerdict(trend, curve InfluxTest, alpha float64) InfluxVerdict {
+	v := InfluxVerdict{Trend: trend, Curvature: curve, Alpha: alpha, Materiality: InfluxMateriality}
+	if trend.Triggered() {
+		v.Triggered |= TrendTest
+	}
+	if curve.Triggered() {
+		v.Triggered |= CurvatureTest
+	}
+	switch {
+	case v.Triggered == 0:
+		v.Outcome = NoInflux
+	case v.Triggered == TrendTest|CurvatureTest && trend.Rising() != curve.Rising():
+		v.Outcome = ConflictingTests
+	case v.Triggered&TrendTest != 0 && trend.Rising(), v.Triggered == CurvatureTest && curve.Rising():
+		v.Outcome = GrowingInflux
+	default:
+		v.Outcome = FadingSupport
+	}
+	return v
 }
 
 // InfluxMateriality is the smallest departure from a volumetric balance,
@@ -348,7 +471,10 @@ const InfluxMateriality = 0.01
 // p_i/Z_i at mid-history. Each test is made at level (1 − Confidence)/2
 // (Bonferroni), so that a volumetric reservoir with independent normal
 // errors is flagged with probability at most 1 − Confidence. A scatter below 1e-9 of the data's magnitude is taken
-// as rounding: exact volumetric data are not flagged.
+// as rounding: exact volumetric data are not flagged. Influx holds the
+// verdict: both tests with their statistics, the ones that found a
+// departure, and the outcome (an InfluxOutcome); when the two find
+// departures in opposite directions it is ConflictingTests.
 //
 // Special cases: as FitPZ, and ErrHistoryValue (in a *HistoryError) for a
 // non-positive temperature or standard condition, Sw outside [0, 1), a
@@ -424,10 +550,11 @@ func HavlenaOdeh(points []HistoryPoint, pi, zi float64, par HavlenaOdehParams, o
 				Why: fmt.Sprintf("no expansion since the initial state (E_g + E_fw = %.4g m³/m³): p/Z is not below p_i/Z_i", e)}
 		}
 		hp.FOverE = hp.F / e
+		hp.Abscissa = pt.CumWetGas + pt.CumWater*bw/bg
+		hp.CorrectedPZ = pt.P / pt.Z2 * (1 - ce*dp)
 		res.Points[i] = hp
 		gp[i], foe[i], w[i] = pt.CumWetGas, hp.FOverE, e*e
-		xl[i] = pt.CumWetGas + pt.CumWater*bw/bg
-		yl[i] = pt.P / pt.Z2 * (1 - ce*dp)
+		xl[i], yl[i] = hp.Abscissa, hp.CorrectedPZ
 	}
 
 	line, err := fitPZLine(fn, xl, yl, pi/zi, conf, fixed)
@@ -442,7 +569,8 @@ func HavlenaOdeh(points []HistoryPoint, pi, zi float64, par HavlenaOdehParams, o
 	}
 	res.TrendSlope = tr.coef[1]
 	res.TrendSE = math.Sqrt(tr.cov[1][1])
-	res.TrendP = tr.pValue(1)
+	trendT, trendP := tr.tTest(1)
+	res.TrendP = trendP
 
 	span := func(v []float64) float64 {
 		lo, hi := math.Inf(1), math.Inf(-1)
@@ -456,60 +584,14 @@ func HavlenaOdeh(points []HistoryPoint, pi, zi float64, par HavlenaOdehParams, o
 	res.CurvatureChange = line.Curvature * half * half / line.Intercept
 
 	alpha := (1 - conf) / 2
-	trendSig := res.TrendP < alpha
-	curveSig := line.CurvatureP < alpha
-	res.WaterInfluxSuspected = trendSig && math.Abs(res.TrendChange) >= InfluxMateriality ||
-		curveSig && math.Abs(res.CurvatureChange) >= InfluxMateriality
-	res.Reason = influxReason(res, trendSig, curveSig, alpha)
+	res.Influx = influxVerdict(
+		InfluxTest{Estimate: res.TrendSlope, T: trendT, DOF: tr.dof, P: res.TrendP, Change: res.TrendChange,
+			Significant: res.TrendP < alpha, Material: math.Abs(res.TrendChange) >= InfluxMateriality},
+		InfluxTest{Estimate: line.Curvature, T: line.CurvatureT, DOF: line.CurvatureDOF, P: line.CurvatureP, Change: res.CurvatureChange,
+			Significant: line.CurvatureP < alpha, Material: math.Abs(res.CurvatureChange) >= InfluxMateriality},
+		alpha)
+	res.WaterInfluxSuspected = res.Influx.Outcome != NoInflux
 	return res, nil
-}
-
-// influxReason puts the two tests into words.
-func influxReason(r *HavlenaOdehResult, trendSig, curveSig bool, alpha float64) string {
-	var b strings.Builder
-	dir := func(pos bool, up, down string) string {
-		if pos {
-			return up
-		}
-		return down
-	}
-	pct := func(f float64) string { return fmt.Sprintf("%.2g %%", 100*math.Abs(f)) }
-	material := fmt.Sprintf("%.2g %%", 100*InfluxMateriality)
-	if trendSig {
-		fmt.Fprintf(&b, "F/(Eg+Efw) %s with production (slope %.3g, p = %.2g < %.2g) by %s of the gas in place over the history",
-			dir(r.TrendSlope > 0, "rises", "falls"), r.TrendSlope, r.TrendP, alpha, pct(r.TrendChange))
-		if math.Abs(r.TrendChange) < InfluxMateriality {
-			fmt.Fprintf(&b, ", below the %s taken as material", material)
-			trendSig = false
-		}
-	} else {
-		fmt.Fprintf(&b, "F/(Eg+Efw) shows no significant trend (p = %.2g)", r.TrendP)
-	}
-	if curveSig {
-		fmt.Fprintf(&b, "; the corrected p/Z line %s (curvature p = %.2g < %.2g) by %s of p/Z at mid-history",
-			dir(r.Line.Curvature > 0, "flattens", "steepens"), r.Line.CurvatureP, alpha, pct(r.CurvatureChange))
-		if math.Abs(r.CurvatureChange) < InfluxMateriality {
-			fmt.Fprintf(&b, ", below the %s taken as material", material)
-			curveSig = false
-		}
-	} else {
-		fmt.Fprintf(&b, "; the corrected p/Z line is straight (curvature p = %.2g)", r.Line.CurvatureP)
-	}
-	switch {
-	case !trendSig && !curveSig:
-		b.WriteString(": consistent with a volumetric reservoir")
-		return b.String()
-	case trendSig && curveSig && (r.TrendSlope > 0) != (r.Line.Curvature > 0):
-		b.WriteString(": the two tests disagree in direction; the history is not volumetric, check the data and Z₂")
-		return b.String()
-	}
-	rising := (trendSig && r.TrendSlope > 0) || (!trendSig && r.Line.Curvature > 0)
-	if rising {
-		b.WriteString(": water influx growing with time, as from an active aquifer")
-	} else {
-		b.WriteString(": pressure support that fades as pressure falls, as from a small (pot) aquifer, or rock and water expansion larger than Cw and Cf give")
-	}
-	return b.String()
 }
 
 // pzOptions reads opt, checking its confidence level.
@@ -619,7 +701,8 @@ func fitPZLine(fn string, x, y []float64, y0, conf float64, fixed bool) (*PZFit,
 	}
 	f.Curvature = quad.coef[2]
 	f.CurvatureSE = math.Sqrt(quad.cov[2][2])
-	f.CurvatureP = quad.pValue(2)
+	f.CurvatureT, f.CurvatureP = quad.tTest(2)
+	f.CurvatureDOF = quad.dof
 	f.CurvatureSignificant = f.CurvatureP < 1-conf
 	return f, nil
 }
@@ -635,15 +718,16 @@ type histLSQ struct {
 	r2    float64
 }
 
-// pValue is the two-sided p-value of the t test of coef[j] = 0, with the
-// residual standard error floored at the rounding level.
-func (l histLSQ) pValue(j int) float64 {
+// tTest is the t statistic |coef[j]|/SE and the two-sided p-value of the t
+// test of coef[j] = 0, with the residual standard error floored at the
+// rounding level; 0 and 1 when that error is zero.
+func (l histLSQ) tTest(j int) (t, p float64) {
 	se := math.Max(l.s, l.floor) * math.Sqrt(l.unit[j][j])
 	if se == 0 {
-		return 1
+		return 0, 1
 	}
-	t := math.Abs(l.coef[j]) / se
-	return 2 * distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(l.dof)}.Survival(t)
+	t = math.Abs(l.coef[j]) / se
+	return t, 2 * distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(l.dof)}.Survival(t)
 }
 
 // histPolyFit fits y = c0 + c1 x + … + c_d x^d by weighted least squares

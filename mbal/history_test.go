@@ -369,8 +369,9 @@ func TestHavlenaOdehMateriality(t *testing.T) {
 	if c := math.Abs(res.TrendChange); !(c > 0 && c < InfluxMateriality) {
 		t.Errorf("trend change %g of G, want a small non-zero fraction below %g", res.TrendChange, InfluxMateriality)
 	}
-	if res.WaterInfluxSuspected || !strings.Contains(res.Reason, "below the 1 % taken as material") {
-		t.Errorf("flagged %v, reason %q: want not flagged, as immaterial", res.WaterInfluxSuspected, res.Reason)
+	if v := res.Influx; res.WaterInfluxSuspected || v.Outcome != NoInflux || v.Triggered != 0 ||
+		!v.Trend.Significant || v.Trend.Material || v.Trend.Change != res.TrendChange {
+		t.Errorf("flagged %v, verdict %+v: want not flagged, the trend significant but immaterial", res.WaterInfluxSuspected, v)
 	}
 	pts, par = hBalance(hPot)
 	res, err = HavlenaOdeh(pts, hRes.pi, zi, par, nil)
@@ -379,6 +380,9 @@ func TestHavlenaOdehMateriality(t *testing.T) {
 	}
 	if !res.WaterInfluxSuspected || !(res.TrendChange < -0.1 && res.TrendChange > -0.35) {
 		t.Errorf("pot aquifer: flagged %v, trend change %g of G; want flagged, about -0.2", res.WaterInfluxSuspected, res.TrendChange)
+	}
+	if v := res.Influx; v.Triggered&TrendTest == 0 || v.Outcome != FadingSupport {
+		t.Errorf("pot aquifer: verdict %+v: want the trend test triggered and fading support", v)
 	}
 }
 
@@ -399,11 +403,8 @@ func TestHavlenaOdehVolumetric(t *testing.T) {
 	if e := hRel(res.Line.G, hRes.g); e > 1e-9 {
 		t.Errorf("corrected p/Z line: G = %.12g, want %.12g", res.Line.G, hRes.g)
 	}
-	if res.WaterInfluxSuspected {
-		t.Errorf("volumetric history flagged: %s", res.Reason)
-	}
-	if !strings.Contains(res.Reason, "volumetric") {
-		t.Errorf("reason %q should say the history looks volumetric", res.Reason)
+	if v := res.Influx; res.WaterInfluxSuspected || v.Outcome != NoInflux || v.Triggered != 0 {
+		t.Errorf("volumetric history flagged: %+v", v)
 	}
 	// The plain p/Z line leaves out rock and water expansion and water
 	// production, so it overstates G, though by little at normal pressure.
@@ -414,7 +415,7 @@ func TestHavlenaOdehVolumetric(t *testing.T) {
 	if !(f.G > hRes.g) || hRel(f.G, hRes.g) > 0.05 {
 		t.Errorf("plain p/Z: G = %.6g, want a little above %.6g", f.G, hRes.g)
 	}
-	t.Logf("plain p/Z G/G_true = %.5f; corrected line G/G_true = %.12f; %s", f.G/hRes.g, res.Line.G/hRes.g, res.Reason)
+	t.Logf("plain p/Z G/G_true = %.5f; corrected line G/G_true = %.12f; %v", f.G/hRes.g, res.Line.G/hRes.g, res.Influx.Outcome)
 }
 
 func TestHavlenaOdehAquifers(t *testing.T) {
@@ -449,13 +450,12 @@ func TestHavlenaOdehAquifers(t *testing.T) {
 			}
 			t.Logf("%s, noise %g: p %.4g–%.4g MPa; F/E first %.4g, last %.4g; line G %.4g; %s", c.name, lev,
 				pts[0].P/1e6, pts[len(pts)-1].P/1e6, res.Points[0].FOverE/hRes.g, res.Points[len(pts)-1].FOverE/hRes.g,
-				res.Line.G/hRes.g, res.Reason)
+				res.Line.G/hRes.g, res.Influx.Outcome)
 			if !res.WaterInfluxSuspected {
-				t.Errorf("%s, noise %g: not flagged: %s", c.name, lev, res.Reason)
+				t.Errorf("%s, noise %g: not flagged: %+v", c.name, lev, res.Influx)
 			}
-			word := map[bool]string{true: "active aquifer", false: "pot"}[c.rising]
-			if !strings.Contains(res.Reason, word) {
-				t.Errorf("%s, noise %g: reason %q does not say %q", c.name, lev, res.Reason, word)
+			if want := map[bool]InfluxOutcome{true: GrowingInflux, false: FadingSupport}[c.rising]; res.Influx.Outcome != want {
+				t.Errorf("%s, noise %g: outcome %v, want %v", c.name, lev, res.Influx.Outcome, want)
 			}
 			if lev > 0 {
 				continue

@@ -171,7 +171,7 @@ func InPlaceEOS(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, s *eos.Se
 	if err != nil {
 		return nil, err
 	}
-	std := standard(tr)
+	std := tr.StandardConditions()
 	ip := &InPlace{HCPV: r.HCPV(), Z: pp.Z, V: pp.V, Surface: sr}
 	if r.PoreVolume == 0 {
 		ip.Bulk = r.BulkVolume
@@ -181,11 +181,4 @@ func InPlaceEOS(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, s *eos.Se
 	ip.SalesGas = ip.Moles * sr.GasVolume
 	ip.Condensate = ip.Moles * sr.OilVolume
 	return ip, nil
-}
-
-func standard(tr cvd.Train) cvd.Conditions {
-	if tr.Standard == (cvd.Conditions{}) {
-		return cvd.StandardField
-	}
-	return tr.Standard
 }

@@ -6,13 +6,15 @@ import (
 
 	"dewcell/cvd"
 	"dewcell/eos"
+	"dewcell/internal/phys"
 )
 
-// The gravity correlations below were published in field units; they convert
-// here, at their own boundary, and nowhere else in the package.
+// The gravity correlations below (and McCain's water formation volume
+// factor) were published in field units; they convert at their own
+// boundary, with the exact factors of package phys.
 const (
-	fieldPsi     = 6894.757293168361 // Pa per psi, from the lb, g_n and inch definitions
-	fieldRankine = 1 / 1.8           // K per °R, exact
+	fieldPsi     = phys.PaPerPsi         // Pa per psi
+	fieldRankine = phys.KelvinPerRankine // K per °R
 )
 
 // PseudoCritical is the pseudo-critical point of a gas mixture: the

@@ -7,6 +7,7 @@ import (
 
 	"dewcell/cvd"
 	"dewcell/eos"
+	"dewcell/internal/phys"
 )
 
 // ErrBadSurfaceData reports invalid separator data for the quick-look route.
@@ -38,11 +39,6 @@ func CragoeMolarMass(api float64) (float64, error) {
 	}
 	return 6.084 / (api - 5.9), nil // 6084 g/mol = 6.084 kg/mol
 }
-
-// API gravity and 60/60 °F specific gravity of a liquid, by the definition of
-// the API scale.
-func sgFromAPI(api float64) float64 { return 141.5 / (api + 131.5) }
-func apiFromSG(sg float64) float64  { return 141.5/sg - 131.5 }
 
 // SurfaceGas is the gas of one separator stage, the stock tank included.
 type SurfaceGas struct {
@@ -174,12 +170,12 @@ func Recombine(d SurfaceData) (*WellStream, error) {
 		if !(d.OilSG > 0) || !finite(d.OilSG) {
 			return nil, bad("oil specific gravity", d.OilSG, "> 0")
 		}
-		w.OilSG, w.OilAPI = d.OilSG, apiFromSG(d.OilSG)
+		w.OilSG, w.OilAPI = d.OilSG, phys.APIGravity(d.OilSG)
 	case d.OilAPI != 0:
-		if !(d.OilAPI > -131.5) || !finite(d.OilAPI) {
+		if !(d.OilAPI > -phys.APIOffset) || !finite(d.OilAPI) {
 			return nil, bad("oil API gravity", d.OilAPI, "> −131.5")
 		}
-		w.OilSG, w.OilAPI = sgFromAPI(d.OilAPI), d.OilAPI
+		w.OilSG, w.OilAPI = phys.SpecificGravity(d.OilAPI), d.OilAPI
 	default:
 		return nil, fmt.Errorf("%w: no stock-tank oil gravity given (specific or API)", ErrBadSurfaceData)
 	}
@@ -199,7 +195,7 @@ func Recombine(d SurfaceData) (*WellStream, error) {
 		return nil, fmt.Errorf("%w: well stream: %w", ErrBadSurfaceData, err)
 	}
 
-	vsc := eos.R * std.T / std.P // ideal-gas molar volume at standard conditions, m³/mol
+	vsc := std.IdealGasVolume() // ideal-gas molar volume at standard conditions, m³/mol
 	c1 := cvd.WaterDensity60F * vsc / cvd.MolarMassAir
 	c2 := cvd.WaterDensity60F * vsc
 	w.GasEquivalent = c2 * w.OilSG / w.OilM
@@ -278,4 +274,40 @@ func InPlaceQuickLook(w *WellStream, hcpv, t, p float64) (*QuickLook, error) {
 	q.SalesGas = w.GasFraction * q.WetGas
 	q.Condensate = q.SalesGas / w.GOR
 	return q, nil
+}
+
+// RouteComparison sets the quick look beside the equation-of-state figures
+// of the same reservoir: each difference is the quick look's figure minus
+// the equation of state's (standard volumes in standard m³), each relative
+// difference that over the equation of state's figure, NaN where that is
+// zero (a fluid that makes no condensate, say).
+type RouteComparison struct {
+	Z, WetGas, SalesGas, Condensate float64
+	// DryGasFraction is the difference of the surface gas's mole fraction
+	// of the well stream: WellStream.GasFraction against the separator
+	// train's InPlace.Surface.GasMoles.
+	DryGasFraction                              float64
+	RelZ, RelWetGas, RelSalesGas, RelCondensate float64
+}
+
+// CompareRoutes compares the quick look q from the recombined well stream w
+// with the equation-of-state figures ip.
+func CompareRoutes(ip *InPlace, w *WellStream, q *QuickLook) RouteComparison {
+	rel := func(a, b float64) float64 {
+		if b == 0 {
+			return math.NaN()
+		}
+		return (a - b) / b
+	}
+	return RouteComparison{
+		Z:              q.Z - ip.Z,
+		WetGas:         q.WetGas - ip.WetGas,
+		SalesGas:       q.SalesGas - ip.SalesGas,
+		Condensate:     q.Condensate - ip.Condensate,
+		DryGasFraction: w.GasFraction - ip.Surface.GasMoles,
+		RelZ:           rel(q.Z, ip.Z),
+		RelWetGas:      rel(q.WetGas, ip.WetGas),
+		RelSalesGas:    rel(q.SalesGas, ip.SalesGas),
+		RelCondensate:  rel(q.Condensate, ip.Condensate),
+	}
 }

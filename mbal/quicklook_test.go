@@ -311,3 +311,29 @@ func ExampleZFactorDAK() {
 	fmt.Printf("%.4g\n", z)
 	// Output: 0.7731
 }
+
+// TestCompareRoutes: differences are quick look minus equation of state,
+// relative ones over the equation of state's figure (hand-worked, our own
+// numbers); NaN where that figure is zero (documented).
+func TestCompareRoutes(t *testing.T) {
+	ip := &InPlace{Z: 0.80, WetGas: 100, SalesGas: 90, Condensate: 0}
+	ip.Surface.GasMoles = 0.9
+	w := &WellStream{GasFraction: 0.92}
+	q := &QuickLook{Z: 0.82, WetGas: 103, SalesGas: 94.5, Condensate: 2}
+	d := CompareRoutes(ip, w, q)
+	for _, c := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"Z", d.Z, 0.02}, {"wet gas", d.WetGas, 3}, {"sales gas", d.SalesGas, 4.5}, {"condensate", d.Condensate, 2},
+		{"dry gas fraction", d.DryGasFraction, 0.02},
+		{"relative Z", d.RelZ, 0.025}, {"relative wet gas", d.RelWetGas, 0.03}, {"relative sales gas", d.RelSalesGas, 0.05},
+	} {
+		if math.Abs(c.got-c.want) > 1e-14 {
+			t.Errorf("%s: %.15g, want %g", c.name, c.got, c.want)
+		}
+	}
+	if !math.IsNaN(d.RelCondensate) {
+		t.Errorf("relative condensate against none in place: %g, want NaN", d.RelCondensate)
+	}
+}

@@ -172,7 +172,7 @@ func Recover(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, o RecoverOpt
 	}
 	rec := &Recovery{InPlace: ip, Depletion: d, MaxSo: d.MaxDropout * (1 - r.Sw), MaxSoP: d.MaxDropoutP}
 	n := ip.Moles
-	vsc := eos.R * standard(tr).T / standard(tr).P
+	vsc := tr.StandardConditions().IdealGasVolume()
 	for _, s := range d.Steps {
 		rs := RecoveryStep{
 			P:         s.P,

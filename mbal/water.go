@@ -1,5 +1,7 @@
 package mbal
 
+import "dewcell/internal/phys"
+
 // WaterFVFMcCain returns the formation volume factor of formation water,
 // reservoir m³ per m³ at standard conditions (rb/STB), at temperature t (K)
 // and pressure p (Pa), by the correlation of McCain (1990, 1991):
@@ -24,7 +26,7 @@ package mbal
 // The coefficients were checked against two independent statements of the
 // correlation and its worked example (3176 psia, 165 °F: B_w = 1.022).
 func WaterFVFMcCain(t, p float64) float64 {
-	tf := t*1.8 - 459.67
+	tf := phys.FahrenheitFromKelvin(t)
 	pp := p / fieldPsi
 	dvt := -1.0001e-2 + 1.33391e-4*tf + 5.50654e-7*tf*tf
 	dvp := -1.95301e-9*pp*tf - 1.72834e-13*pp*pp*tf - 3.58922e-7*pp - 2.25341e-10*pp*pp
@@ -34,5 +36,5 @@ func WaterFVFMcCain(t, p float64) float64 {
 // WaterFVFMcCainRange says whether t (K) and p (Pa) lie within the data of
 // WaterFVFMcCain: up to 260 °F and 5000 psia.
 func WaterFVFMcCainRange(t, p float64) bool {
-	return t*1.8-459.67 <= 260 && p/fieldPsi <= 5000
+	return phys.FahrenheitFromKelvin(t) <= 260 && p/fieldPsi <= 5000
 }

@@ -4,7 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
+	"strings"
 
 	"github.com/urfave/cli/v2"
 
@@ -17,14 +17,6 @@ import (
 
 // Flags of history.
 const flagConfidence = "confidence"
-
-// historyGridSteps is the number of even pressure steps at which the
-// simulated depletion from the initial pressure down to the lowest history
-// pressure is reported, and between which Z₂ and the condensate's gas
-// equivalent are interpolated linearly at each history pressure. The
-// depletion itself is integrated to convergence whatever the grid; on the
-// bundled example, 100 steps (32 psi each) interpolate Z₂ to about 1e-5.
-const historyGridSteps = 100
 
 func historyCommand() *cli.Command {
 	return studyCommand("history",
@@ -58,7 +50,7 @@ type historyResult struct {
 	geAt     []float64 // that of the condensate produced down to each point
 	zi       float64
 	points   []mbal.HistoryPoint
-	ho       *mbal.HavlenaOdehResult
+	ho       *havlenaOdeh
 	plain    *mbal.PZFit // the p/z line without rock and water expansion
 	vol      mbal.VolumetricComparison
 	dewPoint float64 // Pa
@@ -66,25 +58,21 @@ type historyResult struct {
 	started  bool    // the reservoir was started at the model's dew point
 }
 
-// historyRun puts the study's [[history]] on a wet-gas basis and fits it.
-//
-// The cumulative wet gas of each row is the sales gas plus the condensate's
-// gas equivalent, GE = (ρ_o/M_o) R T_sc/p_sc per m³ of stock-tank oil (the
-// ideal-gas volume of its moles; METHODS 5.3). The condensate grows lighter
-// as the reservoir depletes, so ρ_o/M_o is that of all the stock-tank oil
-// produced down to the row's pressure in a simulated depletion of the
-// reservoir (mbal.Recover, immobile condensate: cumulative oil moles over
-// cumulative oil volume); before any production it is that of the initial
-// fluid's stock-tank oil. Z₂ comes from the same depletion. Both are
-// interpolated linearly in pressure between its steps, historyGridSteps even
-// steps from the initial pressure down to the lowest history pressure; Z_i
-// is Z₂ at the initial pressure.
+// havlenaOdeh is the Havlena–Odeh analysis with its influx verdict in words.
+type havlenaOdeh struct {
+	*mbal.HavlenaOdehResult
+	Reason string // influxReason of the verdict
+}
+
+// historyRun puts the study's [[history]] on a wet-gas basis
+// (mbal.HistoryPoints: the sales gas plus the condensate's gas equivalent,
+// Z₂ from a simulated depletion of the reservoir) and fits it.
 //
 // The water produced counts at its formation volume factor B_w:
 // reservoir.water_formation_volume_factor when given, otherwise McCain's
 // (1990) correlation at the reservoir temperature and each point's
-// pressure (mbal.WaterFVFMcCain), with a warning beyond the correlation's
-// data when water is produced there.
+// pressure, with a warning beyond the correlation's data when water is
+// produced there.
 func historyRun(o *options, st *study.Study, conf float64) (*historyResult, error) {
 	return historyRunAt(o, st, conf, false)
 }
@@ -117,67 +105,37 @@ func historyRunAt(o *options, st *study.Study, conf float64, atDew bool) (*histo
 		return nil, cli.Exit(fmt.Sprintf("%s: [[history]] has %d rows with production; the straight-line fit needs at least %d",
 			st.File, len(fitted), mbal.MinHistoryPoints), exitUsage)
 	}
-	pLow := math.Inf(1)
-	for _, row := range fitted {
-		pLow = math.Min(pLow, row.Pressure)
+	records := make([]mbal.ProductionRecord, len(fitted))
+	for i, row := range fitted {
+		records[i] = mbal.ProductionRecord{P: row.Pressure, SalesGas: row.SalesGas, Condensate: row.Condensate, Water: row.Water}
 	}
-	grid := make([]float64, historyGridSteps)
-	for k := range grid {
-		grid[k] = res.Pi - (res.Pi-pLow)*float64(k+1)/historyGridSteps
-	}
-	grid[len(grid)-1] = pLow
-	res.Abandonment = pLow
-	h.res = res
-	h.rec, err = mbal.Recover(st.Fluid, st.Z, res, h.tr, mbal.RecoverOptions{Pressures: grid})
-	if err != nil {
+	wg, err := mbal.HistoryPoints(st.Fluid, st.Z, res, h.tr, records, &mbal.HistoryOptions{Bw: st.Reservoir.WaterFVF})
+	var he *mbal.HistoryError
+	switch {
+	case errors.As(err, &he):
+		return nil, historyError(st, h.first, err)
+	case errors.Is(err, mbal.ErrNoStockTankOil):
+		return nil, cli.Exit(fmt.Sprintf("%s: the separator train makes no stock-tank oil from the fluid, so the condensate of [[history]] has no gas equivalent", st.File), exitUsage)
+	case err != nil:
 		return nil, reservoirError(st, o.sys, "the simulated depletion that gives the two-phase Z", err)
 	}
-	h.dewPoint = h.rec.Depletion.Dew.P
+	h.rec, h.dewPoint, h.ge, h.geAt, h.zi, h.points = wg.Recovery, wg.DewPoint, wg.InitialGasEquivalent, wg.GasEquivalent, wg.Zi, wg.Points
 	ip := h.rec.InPlace
-	if !(ip.Surface.OilMoles > 0) || !(ip.Surface.OilVolume > 0) {
-		return nil, cli.Exit(fmt.Sprintf("%s: the separator train makes no stock-tank oil from the fluid, so the condensate of [[history]] has no gas equivalent", st.File), exitUsage)
-	}
-	// ρ_o/M_o is the oil's moles per m³: OilMoles/OilVolume per mole of feed.
-	vsc := standardVolume(h.tr)
-	h.ge = ip.Surface.OilMoles / ip.Surface.OilVolume * vsc
-	geOf := func(s mbal.RecoveryStep) float64 {
-		if !(s.Condensate > 0) {
-			return h.ge
-		}
-		return s.OilMoles / s.Condensate * vsc
-	}
-	h.zi = h.rec.Steps[0].Z2
-
 	h.bwFrom = "reservoir.water_formation_volume_factor"
-	if st.Reservoir.WaterFVF == 0 {
+	if wg.BwCorrelated {
 		h.bwFrom = "McCain (1990) correlation at each pressure"
 	}
-	outside := false
-	for _, row := range fitted {
-		ge := interpolate(h.rec.Steps, row.Pressure, geOf)
-		h.geAt = append(h.geAt, ge)
-		bw := st.Reservoir.WaterFVF
-		if bw == 0 {
-			bw = mbal.WaterFVFMcCain(res.T, row.Pressure)
-			outside = outside || row.Water > 0 && !mbal.WaterFVFMcCainRange(res.T, row.Pressure)
-		}
-		h.points = append(h.points, mbal.HistoryPoint{
-			P:         row.Pressure,
-			Z2:        interpolate(h.rec.Steps, row.Pressure, func(s mbal.RecoveryStep) float64 { return s.Z2 }),
-			CumWetGas: row.SalesGas + row.Condensate*ge,
-			CumWater:  row.Water,
-			Bw:        bw,
-		})
-	}
-	if outside {
+	if wg.BwExtrapolated {
 		o.warn(fmt.Sprintf("%s: the water formation volume factor comes from McCain's (1990) correlation beyond its data (up to 260 degF and 5000 psia); give reservoir.water_formation_volume_factor if it is known", st.File))
 	}
 	std := h.tr.Standard
 	par := mbal.HavlenaOdehParams{T: res.T, Sw: res.Sw, Cw: res.Cw, Cf: res.Cf, Std: std}
 	popt := &mbal.PZOptions{Confidence: conf}
-	if h.ho, err = mbal.HavlenaOdeh(h.points, res.Pi, h.zi, par, popt); err != nil {
+	ho, err := mbal.HavlenaOdeh(h.points, res.Pi, h.zi, par, popt)
+	if err != nil {
 		return nil, historyError(st, h.first, err)
 	}
+	h.ho = &havlenaOdeh{ho, influxReason(ho.Influx)}
 	if h.plain, err = mbal.FitPZ(h.points, res.Pi, h.zi, popt); err != nil {
 		return nil, historyError(st, h.first, err)
 	}
@@ -187,24 +145,47 @@ func historyRunAt(o *options, st *study.Study, conf float64, atDew bool) (*histo
 	return h, nil
 }
 
-// interpolate gives f of the depletion steps (falling in pressure) at p,
-// linearly in pressure; beyond the ends it takes the end value, which cannot
-// happen on the grid historyRun builds.
-func interpolate(steps []mbal.RecoveryStep, p float64, f func(mbal.RecoveryStep) float64) float64 {
-	n := len(steps)
-	// steps[k].P falls with k: find the first step at or below p.
-	k := sort.Search(n, func(i int) bool { return steps[i].P <= p })
-	switch {
-	case k == 0:
-		return f(steps[0])
-	case k == n:
-		return f(steps[n-1])
+// influxReason puts the verdict of the two influx tests into words.
+func influxReason(v mbal.InfluxVerdict) string {
+	var b strings.Builder
+	dir := func(pos bool, up, down string) string {
+		if pos {
+			return up
+		}
+		return down
 	}
-	a, b := steps[k-1], steps[k]
-	if a.P == b.P {
-		return f(b)
+	pct := func(f float64) string { return fmt.Sprintf("%.2g %%", 100*math.Abs(f)) }
+	material := fmt.Sprintf("%.2g %%", 100*v.Materiality)
+	tr, cu := v.Trend, v.Curvature
+	if tr.Significant {
+		fmt.Fprintf(&b, "F/(Eg+Efw) %s with production (slope %.3g, p = %.2g < %.2g) by %s of the gas in place over the history",
+			dir(tr.Rising(), "rises", "falls"), tr.Estimate, tr.P, v.Alpha, pct(tr.Change))
+		if !tr.Material {
+			fmt.Fprintf(&b, ", below the %s taken as material", material)
+		}
+	} else {
+		fmt.Fprintf(&b, "F/(Eg+Efw) shows no significant trend (p = %.2g)", tr.P)
 	}
-	return f(b) + (f(a)-f(b))*(p-b.P)/(a.P-b.P)
+	if cu.Significant {
+		fmt.Fprintf(&b, "; the corrected p/Z line %s (curvature p = %.2g < %.2g) by %s of p/Z at mid-history",
+			dir(cu.Rising(), "flattens", "steepens"), cu.P, v.Alpha, pct(cu.Change))
+		if !cu.Material {
+			fmt.Fprintf(&b, ", below the %s taken as material", material)
+		}
+	} else {
+		fmt.Fprintf(&b, "; the corrected p/Z line is straight (curvature p = %.2g)", cu.P)
+	}
+	switch v.Outcome {
+	case mbal.NoInflux:
+		b.WriteString(": consistent with a volumetric reservoir")
+	case mbal.ConflictingTests:
+		b.WriteString(": the two tests disagree in direction; the history is not volumetric, check the data and Z₂")
+	case mbal.GrowingInflux:
+		b.WriteString(": water influx growing with time, as from an active aquifer")
+	default:
+		b.WriteString(": pressure support that fades as pressure falls, as from a small (pot) aquifer, or rock and water expansion larger than Cw and Cf give")
+	}
+	return b.String()
 }
 
 // historyError names the [[history]] row of a *mbal.HistoryError; a fit
@@ -219,7 +200,8 @@ func historyError(st *study.Study, first int, err error) error {
 	}
 	where := "[[history]]"
 	if he.Index >= 0 {
-		key := map[string]string{"P": "pressure", "Z2": "pressure", "CumWetGas": "sales_gas", "CumWater": "water"}[he.Field]
+		key := map[string]string{"P": "pressure", "Z2": "pressure", "CumWetGas": "sales_gas", "CumWater": "water",
+			"SalesGas": "sales_gas", "Condensate": "condensate", "Water": "water"}[he.Field]
 		if key == "" {
 			key = "pressure"
 		}
@@ -308,8 +290,6 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult) *Repor
 	for i, pt := range h.points {
 		row := h.rows[i+h.first]
 		hp := h.ho.Points[i]
-		corrected := pt.P / pt.Z2 * (1 - h.ho.Ce*(h.res.Pi-pt.P))
-		x := pt.CumWetGas + pt.CumWater*hp.Bw/hp.Bg // G_p + W_p B_w/B_g
 		pts.Rows = append(pts.Rows, []any{
 			row.Label,
 			pU.FromSI(pt.P),
@@ -318,8 +298,8 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult) *Repor
 			u.gas.FromSI(pt.CumWetGas),
 			pt.Z2,
 			pU.FromSI(pt.P / pt.Z2),
-			pU.FromSI(corrected),
-			pU.FromSI(line.PZAt(x)),
+			pU.FromSI(hp.CorrectedPZ),
+			pU.FromSI(line.PZAt(hp.Abscissa)),
 			u.gas.FromSI(hp.FOverE),
 		})
 	}

@@ -257,3 +257,37 @@ func TestHistoryWaterFVF(t *testing.T) {
 		t.Errorf("G with B_w = 1.2: %g, with McCain's B_w: %g; want more withdrawal to imply more gas", num(t, given, "wet_gas_in_place_mmscf"), num(t, mccain, "wet_gas_in_place_mmscf"))
 	}
 }
+
+// TestInfluxReason pins the words of the influx verdict: each expected line
+// is what the history command printed for the same test results before the
+// verdict became typed (the bundled example, and variants of it with water
+// produced, with pressure support added and with support fading); the
+// conflicting case follows the same pattern.
+func TestInfluxReason(t *testing.T) {
+	const alpha = 0.025
+	test := func(est, p, change float64) mbal.InfluxTest {
+		return mbal.InfluxTest{Estimate: est, P: p, Change: change, Significant: p < alpha, Material: math.Abs(change) >= mbal.InfluxMateriality}
+	}
+	for _, c := range []struct {
+		name             string
+		outcome          mbal.InfluxOutcome
+		trend, curvature mbal.InfluxTest
+		want             string
+	}{
+		{"example", mbal.NoInflux, test(-0.003, 0.65, -0.002), test(1e-30, 0.92, 0.0001),
+			"F/(Eg+Efw) shows no significant trend (p = 0.65); the corrected p/Z line is straight (curvature p = 0.92): consistent with a volumetric reservoir"},
+		{"water, immaterial", mbal.NoInflux, test(-0.0122, 1.1e-10, -0.0068), test(-1e-30, 2.8e-9, -0.00096),
+			"F/(Eg+Efw) falls with production (slope -0.0122, p = 1.1e-10 < 0.025) by 0.68 % of the gas in place over the history, below the 1 % taken as material; the corrected p/Z line steepens (curvature p = 2.8e-09 < 0.025) by 0.096 % of p/Z at mid-history, below the 1 % taken as material: consistent with a volumetric reservoir"},
+		{"support added", mbal.GrowingInflux, test(0.2, 0.076, 0.1), test(1e-30, 1.8e-8, 0.19),
+			"F/(Eg+Efw) shows no significant trend (p = 0.076); the corrected p/Z line flattens (curvature p = 1.8e-08 < 0.025) by 19 % of p/Z at mid-history: water influx growing with time, as from an active aquifer"},
+		{"support fading", mbal.FadingSupport, test(-0.46, 1.8e-8, -0.32), test(-1e-30, 7.2e-9, -0.052),
+			"F/(Eg+Efw) falls with production (slope -0.46, p = 1.8e-08 < 0.025) by 32 % of the gas in place over the history; the corrected p/Z line steepens (curvature p = 7.2e-09 < 0.025) by 5.2 % of p/Z at mid-history: pressure support that fades as pressure falls, as from a small (pot) aquifer, or rock and water expansion larger than Cw and Cf give"},
+		{"conflicting", mbal.ConflictingTests, test(0.31, 2e-5, 0.12), test(-1e-30, 3e-6, -0.04),
+			"F/(Eg+Efw) rises with production (slope 0.31, p = 2e-05 < 0.025) by 12 % of the gas in place over the history; the corrected p/Z line steepens (curvature p = 3e-06 < 0.025) by 4 % of p/Z at mid-history: the two tests disagree in direction; the history is not volumetric, check the data and Z₂"},
+	} {
+		v := mbal.InfluxVerdict{Outcome: c.outcome, Trend: c.trend, Curvature: c.curvature, Alpha: (1 - mbal.DefaultConfidence) / 2, Materiality: mbal.InfluxMateriality}
+		if got := influxReason(v); got != c.want {
+			t.Errorf("%s:\n got %s\nwant %s", c.name, got, c.want)
+		}
+	}
+}

@@ -192,14 +192,6 @@ func perBulk(u units.Unit, v, bulk float64) any {
 	return u.FromSI(v / bulk)
 }
 
-// relDiffPct is 100 (a − b)/b.
-func relDiffPct(a, b float64) any {
-	if b == 0 {
-		return nil
-	}
-	return 100 * (a - b) / b
-}
-
 // inplaceReport computes the initial gas and condensate in place by the
 // equation of state (the fluid's moles filling the hydrocarbon pore volume
 // at the initial state, through the separator train) and, when the study
@@ -315,9 +307,10 @@ func inPlaceReportOf(st *study.Study, sys units.System, tr cvd.Train, res mbal.R
 		r.Tables = []Table{routes}
 		return r
 	}
+	d := mbal.CompareRoutes(ip, w, q)
 	routes.Rows = append(routes.Rows,
 		row("quick look", q.Z, q.WetGas, q.SalesGas, q.Condensate, w.GasFraction),
-		row("difference", q.Z-ip.Z, q.WetGas-ip.WetGas, q.SalesGas-ip.SalesGas, q.Condensate-ip.Condensate, w.GasFraction-ip.Surface.GasMoles))
+		row("difference", d.Z, d.WetGas, d.SalesGas, d.Condensate, d.DryGasFraction))
 	r.Tables = []Table{routes}
 
 	pU, pcTU := u.press, units.DegR // pseudo-critical temperatures are quoted absolute
@@ -345,20 +338,10 @@ func inPlaceReportOf(st *study.Study, sys units.System, tr cvd.Train, res mbal.R
 		Field{Column: Column{Name: "pseudo_critical_pressure", Unit: pU}, Value: pU.FromSI(w.Critical.Ppc)},
 		Field{Column: Column{Name: "pseudo_reduced_temperature", Format: report.Fixed(3)}, Value: q.Tpr},
 		Field{Column: Column{Name: "pseudo_reduced_pressure", Format: report.Fixed(3)}, Value: q.Ppr},
-		Field{Column: Column{Name: "quick_look_difference_z", Unit: units.Percent}, Value: relDiffPct(q.Z, ip.Z)},
-		Field{Column: Column{Name: "quick_look_difference_wet_gas", Unit: units.Percent}, Value: relDiffPct(q.WetGas, ip.WetGas)},
-		Field{Column: Column{Name: "quick_look_difference_sales_gas", Unit: units.Percent}, Value: relDiffPct(q.SalesGas, ip.SalesGas)},
-		Field{Column: Column{Name: "quick_look_difference_condensate", Unit: units.Percent}, Value: relDiffPct(q.Condensate, ip.Condensate)},
+		Field{Column: Column{Name: "quick_look_difference_z", Unit: units.Percent}, Value: finite(100 * d.RelZ)},
+		Field{Column: Column{Name: "quick_look_difference_wet_gas", Unit: units.Percent}, Value: finite(100 * d.RelWetGas)},
+		Field{Column: Column{Name: "quick_look_difference_sales_gas", Unit: units.Percent}, Value: finite(100 * d.RelSalesGas)},
+		Field{Column: Column{Name: "quick_look_difference_condensate", Unit: units.Percent}, Value: finite(100 * d.RelCondensate)},
 	)
 	return r
-}
-
-// standardVolume is the ideal-gas molar volume at the train's standard
-// conditions, m³/mol.
-func standardVolume(tr cvd.Train) float64 {
-	std := tr.Standard
-	if std == (cvd.Conditions{}) {
-		std = cvd.StandardField
-	}
-	return eos.R * std.T / std.P
 }

@@ -62,7 +62,8 @@ func TestUsageErrors(t *testing.T) {
 		{[]string{"satpoint", "--temperature", "1e9 degF", o9Study}, "2240.33 degF"},
 		{[]string{"deplete", "--pressures", "3000 psia, 1e30 psia", o9Study}, "1e30 psia\": out of range; want a pressure from 0.145038 psia"},
 		{[]string{"deplete", "--pressures", "3000 psia, 1e30 psia", o9Study}, "--pressures: item 2"},
-		{[]string{"demo", "extra"}, "takes no arguments"},
+		{[]string{"demo", "extra.toml"}, "extra.toml: cannot read the study file"},
+		{[]string{"demo", "a.toml", "b.toml"}, "takes one study file"},
 		{[]string{"demo", "--format", "csv"}, "CSV"},
 	}
 	for _, c := range cases {

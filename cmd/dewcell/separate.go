@@ -176,9 +176,9 @@ func separateReport(st *study.Study, sys units.System) (*Report, error) {
 		}
 		var gor, gravity any
 		if s.GasMoles > 0 {
-			gravity = s.GasM / cvd.MolarMassAir
+			gravity = s.GasGravity
 			if hasOil {
-				gor = su.gor.of(s.GasVolume / res.OilVolume)
+				gor = su.gor.of(s.GOR)
 			}
 		}
 		stages.Rows = append(stages.Rows, []any{

@@ -4,7 +4,10 @@
 // describe no real fluid.
 package testfluid
 
-import "dewcell/eos"
+import (
+	"dewcell/eos"
+	"dewcell/internal/phys"
+)
 
 // Condensate returns a 12-component gas condensate: N2, CO2 and C1–nC6 from
 // the eos library and a C7+ of 7 mol %, 150 g/mol and specific gravity 0.80
@@ -33,9 +36,9 @@ type Case struct {
 	Abandonment float64 // Pa
 }
 
-const psi = 6894.757293168361 // Pa per psi, from the lb, g_n and inch definitions
+const psi = phys.PaPerPsi // Pa per psi
 
-func degF(f float64) float64 { return (f + 459.67) / 1.8 }
+func degF(f float64) float64 { return phys.KelvinFromFahrenheit(f) }
 
 // build makes a fluid from library components (mol %) and a C7+ of pct
 // mol %, molar mass m (kg/mol) and specific gravity sg, split by ch, with the

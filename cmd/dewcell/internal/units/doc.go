@@ -4,8 +4,9 @@
 // field and metric.
 //
 // Every conversion factor is an exact consequence of a unit's definition and
-// is written as a Go constant expression, so that it is rounded to float64
-// only once:
+// is written as a Go constant expression on the definitions of package phys,
+// which the library packages share, so that it is rounded to float64 only
+// once:
 //
 //   - the international foot and inch, 1 ft = 0.3048 m and 1 in = 0.0254 m, and
 //     the avoirdupois pound, 1 lb = 0.45359237 kg (international yard and pound

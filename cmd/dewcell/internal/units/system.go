@@ -1,6 +1,10 @@
 package units
 
-import "fmt"
+import (
+	"fmt"
+
+	"dewcell/internal/phys"
+)
 
 // A System is a set of output units, one per kind of quantity.
 type System int
@@ -94,10 +98,10 @@ type Conditions struct {
 }
 
 // Standard returns the standard conditions of s: 60 °F and 14.696 psia for
-// field units, 15 °C and 101.325 kPa for metric units.
+// field units, 15 °C and 101.325 kPa for metric units (package phys).
 func (s System) Standard() Conditions {
 	if s == Metric {
-		return Conditions{T: 15 + KAt0C, P: 101.325e3}
+		return Conditions{T: phys.MetricStandardT, P: phys.MetricStandardP}
 	}
-	return Conditions{T: (60 + DegRAt0F) * KPerDegR, P: 14.696 * PaPerPsi}
+	return Conditions{T: phys.FieldStandardT, P: phys.FieldStandardP}
 }

@@ -8,30 +8,32 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+
+	"dewcell/internal/phys"
 )
 
-// Exact conversion factors to SI, from the definitions listed in the package
-// comment. Go evaluates constant expressions exactly, so each is rounded to
-// float64 once, where it is used.
+// Exact conversion factors to SI, from the definitions of package phys
+// (listed in the package comment). Go evaluates constant expressions exactly,
+// so each is rounded to float64 once, where it is used.
 const (
-	MetrePerFoot  = 0.3048                                                // international foot (1959)
-	MetrePerInch  = 0.0254                                                // international inch (1959)
-	KgPerLb       = 0.45359237                                            // avoirdupois pound (1959)
-	StandardG     = 9.80665                                               // m/s², standard acceleration of gravity (3rd CGPM, 1901)
-	PaPerPsi      = KgPerLb * StandardG / (MetrePerInch * MetrePerInch)   // 1 lbf/in² = 6894.757293168361336… Pa
-	PaPerBar      = 1e5                                                   // bar
-	PaPerAtm      = 101325                                                // standard atmosphere (10th CGPM, 1954)
-	KPerDegR      = 5.0 / 9                                               // one degree Rankine or Fahrenheit, in kelvin
-	DegRAt0F      = 459.67                                                // °R at 0 °F
-	KAt0C         = 273.15                                                // K at 0 °C
-	M2PerAcre     = 43560 * MetrePerFoot * MetrePerFoot                   // international acre, 4046.8564224 m²
-	M2PerHectare  = 1e4                                                   // hectare
-	M3PerFt3      = MetrePerFoot * MetrePerFoot * MetrePerFoot            // 0.028316846592 m³
-	M3PerBbl      = 42 * 231 * MetrePerInch * MetrePerInch * MetrePerInch // US oil barrel, 42 US gal of 231 in³: 0.158987294928 m³
-	M3PerAcreFt   = M2PerAcre * MetrePerFoot                              // acre-foot, 1233.48183754752 m³
-	MolPerLbmol   = KgPerLb * 1000                                        // 453.59237 mol
-	KgM3PerLbFt3  = KgPerLb / M3PerFt3                                    // 16.018463373960139… kg/m³
-	M3MolPerFt3Lb = M3PerFt3 / MolPerLbmol                                // 1 ft³/lbmol = 6.2427960576144…e-5 m³/mol
+	MetrePerFoot  = phys.MetrePerFoot                   // international foot (1959)
+	MetrePerInch  = phys.MetrePerInch                   // international inch (1959)
+	KgPerLb       = phys.KgPerPound                     // avoirdupois pound (1959)
+	StandardG     = phys.StandardGravity                // m/s², standard acceleration of gravity (3rd CGPM, 1901)
+	PaPerPsi      = phys.PaPerPsi                       // 1 lbf/in² = 6894.757293168361336… Pa
+	PaPerBar      = phys.PaPerBar                       // bar
+	PaPerAtm      = phys.PaPerAtm                       // standard atmosphere (10th CGPM, 1954)
+	KPerDegR      = phys.KelvinPerRankine               // one degree Rankine or Fahrenheit, in kelvin
+	DegRAt0F      = phys.RankineAt0F                    // °R at 0 °F
+	KAt0C         = phys.KelvinAt0C                     // K at 0 °C
+	M2PerAcre     = 43560 * MetrePerFoot * MetrePerFoot // international acre, 4046.8564224 m²
+	M2PerHectare  = 1e4                                 // hectare
+	M3PerFt3      = phys.M3PerFt3                       // 0.028316846592 m³
+	M3PerBbl      = phys.M3PerBbl                       // US oil barrel, 42 US gal of 231 in³: 0.158987294928 m³
+	M3PerAcreFt   = M2PerAcre * MetrePerFoot            // acre-foot, 1233.48183754752 m³
+	MolPerLbmol   = phys.MolPerLbmol                    // 453.59237 mol
+	KgM3PerLbFt3  = phys.KgM3PerLbFt3                   // 16.018463373960139… kg/m³
+	M3MolPerFt3Lb = phys.M3MolPerFt3Lb                  // 1 ft³/lbmol = 6.2427960576144…e-5 m³/mol
 )
 
 // A Kind is the physical dimension of a quantity.
