@@ -70,9 +70,9 @@ func TestReportInBrowser(t *testing.T) {
 	rec := runJSON(t, "recover", exampleStudy)
 	ip := runJSON(t, "inplace", exampleStudy)
 	keys := []string{
-		fmt.Sprintf("%.0f", num(t, sat, "upper_dew_pressure_psia")),                  // psia to 1 psi
+		fmt.Sprintf("%.0f", num(t, sat, "upper_dew_pressure_psia")),                // psia to 1 psi
 		fmt.Sprintf("%.2f", num(t, rec, "condensate_recovery_at_abandonment_pct")), // % to 0.01
-		fmt.Sprintf("%.1f", num(t, ip, "wet_gas_in_place_mmscf")/1000),            // Bscf, four digits
+		fmt.Sprintf("%.1f", num(t, ip, "wet_gas_in_place_mmscf")/1000),             // Bscf, four digits
 		"Caution", "qualified, licensed professionals",
 	}
 

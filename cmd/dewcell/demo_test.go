@@ -15,7 +15,11 @@ import (
 
 // demoTables are the results demo writes, each as JSON and its first
 // table as CSV.
-var demoTables = []string{"fluid", "saturation", "envelope", "depletion", "separator", "in_place", "recovery", "history"}
+var demoTables = []string{"fluid", "saturation", "envelope", "depletion", "expansion", "separator", "in_place", "recovery", "history"}
+
+// demoFigures are the figures demo draws, each as SVG and PNG.
+var demoFigures = []string{"phase-envelope", "cvd-liquid-dropout", "cvd-gas-composition", "cce-relative-volume", "cce-liquid-volume",
+	"recovery", "condensate-saturation", "history-p-over-z"}
 
 // demoParts are the further tables demo writes as CSV, by result.
 var demoParts = map[string][]string{
@@ -26,6 +30,7 @@ var demoParts = map[string][]string{
 	"in_place":   {"summary"},
 	"recovery":   {"summary"},
 	"history":    {"summary"},
+	"expansion":  {"summary"},
 	"saturation": nil, // the summary is its only table
 }
 
@@ -38,7 +43,10 @@ func demoFileNames() []string {
 			want = append(want, name+"-"+p+".csv")
 		}
 	}
-	return want
+	for _, f := range demoFigures {
+		want = append(want, f+".svg", f+".png")
+	}
+	return append(want, demoWorkbook, demoReport)
 }
 
 func TestDemoFolder(t *testing.T) {
@@ -67,8 +75,14 @@ func TestDemoFolder(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if strings.HasSuffix(name, ".json") {
+		switch filepath.Ext(name) {
+		case ".json":
 			decodeJSON(t, string(data))
+			continue
+		case ".svg", ".png", ".xlsx", ".html":
+			if len(data) < 1000 {
+				t.Errorf("%s: %d bytes", name, len(data))
+			}
 			continue
 		}
 		recs, err := csv.NewReader(strings.NewReader(string(data))).ReadAll()

@@ -321,7 +321,7 @@ func depletionReport(st *study.Study, sys units.System, tr cvd.Train, d *cvd.Dep
 		Series:  []report.Series{dropout},
 	}
 	if d.MaxDropout > 0 {
-		drop.Marks = []report.Mark{{Label: "Maximum dropout", X: pU.FromSI(d.MaxDropoutP), Y: units.Percent.FromSI(d.MaxDropout)}}
+		drop.Marks = []report.Mark{{Label: "Maximum of the continuous depletion", X: pU.FromSI(d.MaxDropoutP), Y: units.Percent.FromSI(d.MaxDropout)}}
 	}
 	r.Figures = []*report.Figure{drop, compositionFigure(st, pU, gas)}
 	return r

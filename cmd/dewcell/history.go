@@ -321,8 +321,11 @@ func pzFigure(h *historyResult, gasU, pU units.Unit) *report.Figure {
 		X: report.Axis{Label: "Cumulative wet gas", Unit: gasU},
 		Y: report.Axis{Label: "p/Z", Unit: pU},
 	}
-	measured := report.Series{Label: "p/Z, history", Style: report.Points}
-	corrected := report.Series{Label: "p/Z corrected for rock and water expansion", Style: report.Points}
+	// The axis in the multiple the tables use (Bscf rather than MMscf).
+	gasU, _ = report.FigureUnit(gasU, gasU.FromSI(h.ho.Line.G))
+	f.X.Unit = gasU
+	measured := report.Series{Label: "p/Z", Style: report.Points}
+	corrected := report.Series{Label: "p/Z, corrected", Style: report.Points}
 	for i, pt := range h.points {
 		hp := h.ho.Points[i]
 		x := pt.CumWetGas + pt.CumWater*hp.Bw/hp.Bg // G_p + W_p B_w/B_g

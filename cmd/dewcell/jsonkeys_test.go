@@ -95,6 +95,17 @@ func added(p string) bool {
 	return false
 }
 
+// demoAdds reports whether the key path p of case name is a result that
+// demo gained with the workflow's constant-composition expansion: the keys
+// of the expand command, under "expansion".
+func demoAdds(name, p string, want map[string][]string) bool {
+	rest, ok := strings.CutPrefix(p, "expansion.")
+	if name != "demo" || !ok && p != "expansion" {
+		return false
+	}
+	return p == "expansion" || slices.Contains(want["expand"], rest)
+}
+
 func TestJSONKeysUnchanged(t *testing.T) {
 	got := map[string][]string{}
 	for _, c := range jsonKeyCases {
@@ -159,7 +170,7 @@ func TestJSONKeysUnchanged(t *testing.T) {
 			}
 		}
 		for _, k := range got[c.name] {
-			if !slices.Contains(w, k) && !added(k) {
+			if !slices.Contains(w, k) && !added(k) && !demoAdds(c.name, k, want) {
 				t.Errorf("%s: new key %s", c.name, k)
 			}
 		}

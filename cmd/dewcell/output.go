@@ -231,7 +231,15 @@ func (o *options) emitPlots(c *cli.Context, reports ...*Report) error {
 				return fmt.Errorf("--%s: cannot write %s: %v", flagPlot, filepath.Join(dir, f.name), cause(err))
 			}
 		}
-		o.note(fmt.Sprintf("%d figures drawn into %s, each as SVG and PNG", len(files)/2, dir))
+		o.note(fmt.Sprintf("%s drawn into %s, as SVG and PNG", count(len(files)/2, "figure", "figures"), dir))
 	}
 	return o.emit(reports...)
+}
+
+// count writes n with its noun: "1 figure", "3 figures".
+func count(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
 }

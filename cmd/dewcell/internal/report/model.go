@@ -197,12 +197,38 @@ type Axis struct {
 	Reverse bool
 }
 
-// Text is the axis label with its unit: "Pressure [psia]".
+// Text is the axis label with its unit as printed matter writes it:
+// "Temperature [°F]", "Cumulative wet gas [10^6 sm3]".
 func (a Axis) Text() string {
 	if a.Unit.Symbol == "" {
 		return a.Label
 	}
-	return a.Label + " [" + a.Unit.Symbol + "]"
+	return a.Label + " [" + PrintedSymbol(a.Unit.Symbol) + "]"
+}
+
+// PrintedSymbol writes a unit as printed matter does, beyond the plain
+// text of a terminal: degrees with their sign (°F), powers of ten as 10^6,
+// cubic and square metres and feet with superscripts (m³).
+func PrintedSymbol(sym string) string {
+	s := displaySymbol(sym)
+	for _, r := range printedUnits {
+		s = strings.ReplaceAll(s, r[0], r[1])
+	}
+	return s
+}
+
+var printedUnits = [][2]string{
+	{"degF", "°F"}, {"degC", "°C"}, {"degR", "°R"},
+	{"m3", "m³"}, {"ft3", "ft³"}, {"m2", "m²"}, {"ft2", "ft²"},
+}
+
+// FigureUnit is the multiple of u in which a figure draws values (in u) up
+// to hi, as the tables show them (1000 MMscf as 1 Bscf), and the factor
+// that converts a value in u to it; the multiple converts from SI as any
+// unit does.
+func FigureUnit(u units.Unit, hi float64) (units.Unit, float64) {
+	s := ShowColumn(Column{Unit: u}, []any{hi})
+	return s.Unit, s.Factor
 }
 
 // A Style is how a series is drawn.
