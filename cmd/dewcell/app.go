@@ -220,8 +220,10 @@ type options struct {
 	title   string // the study's title, or its file name, for the files that carry it
 	command string // the command line, as the user could type it again
 
-	// Warnings and notes of the result being built (warn, note).
+	// Warnings and notes of the result being built (warn, note), and the
+	// kinds of warning given once in the run (warnOnce).
 	warnings, notes []string
+	warned          map[string]bool
 }
 
 // commonOptions reads the shared flags and, when wantStudy, the one study

@@ -8,6 +8,7 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
+	"math"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -124,8 +125,8 @@ func demoCommand() *cli.Command {
 			if err != nil {
 				abs = dir
 			}
-			fmt.Fprintf(o.stderr, "demo: %d results written to %s: each as JSON and its tables as CSV, %d figures as SVG and PNG, the workbook %s and the study report %s\n",
-				len(out), abs, len(figures)/2, demoWorkbook, demoReport)
+			fmt.Fprintf(o.stderr, "demo: %d results written to %s: each as JSON and its tables as CSV, %s as SVG and PNG, the workbook %s and the study report %s\n",
+				len(out), abs, count(len(figures)/2, "figure", "figures"), demoWorkbook, demoReport)
 			o.brief = true
 			return o.emit(out...)
 		},
@@ -413,8 +414,9 @@ func writeDemoDir(dir string, files []demoFile) (note string, err error) {
 	return "", nil
 }
 
-// noteMargin says on standard error how far the initial pressure lies above
-// the computed saturation pressure.
+// noteMargin says how far the initial pressure lies above the computed
+// saturation pressure: a note, or a warning when it lies below, by more
+// than a study copying the saturation pressure to its printed digits can.
 func noteMargin(o *options, st *study.Study, up eos.Saturation) {
 	pi := st.Reservoir.InitialPressure
 	if pi == 0 {
@@ -422,10 +424,14 @@ func noteMargin(o *options, st *study.Study, up eos.Saturation) {
 	}
 	pU := o.sys.Unit(units.Pressure)
 	d := pU.FromSI(pi) - pU.FromSI(up.P)
-	if d >= 0 {
-		o.note(fmt.Sprintf("the initial pressure is %.4g %s above the computed %s point", d, pU.Symbol, up.Type))
-		return
+	gap := report.Quantity(math.Abs(d), pU)
+	switch {
+	case math.Abs(pi-up.P) <= atDewTolerance*up.P:
+		o.note(fmt.Sprintf("the initial pressure is the computed %s point (%s) within %s", up.Type, pressureText(o.sys, up.P), atDewToleranceText))
+	case d > 0:
+		o.note(fmt.Sprintf("the initial pressure is %s above the computed %s point", gap, up.Type))
+	default:
+		o.warn(fmt.Sprintf("the initial pressure of %s is %s below the computed %s point: the reservoir would be two-phase at discovery",
+			st.File, gap, up.Type))
 	}
-	o.warn(fmt.Sprintf("the initial pressure of %s is %.4g %s below the computed %s point: the reservoir would be two-phase at discovery",
-		st.File, -d, pU.Symbol, up.Type))
 }

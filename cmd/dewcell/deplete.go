@@ -213,7 +213,7 @@ func depleteReport(c *cli.Context, o *options, st *study.Study) (*Report, error)
 		return nil, err
 	}
 	if len(st.Separator) == 0 {
-		o.warn(fmt.Sprintf("%s gives no [[separator.stage]]: the produced gas goes straight to the stock tank", st.File))
+		o.warnOnce(noSeparator, fmt.Sprintf("%s gives no [[separator.stage]]: the produced gas goes straight to the stock tank", st.File))
 	}
 	tr := trainOf(st, o.sys)
 	opt.Train = &tr

@@ -213,7 +213,7 @@ func inplaceReportAt(o *options, st *study.Study, atDew bool) (*Report, error) {
 		return nil, err
 	}
 	if len(st.Separator) == 0 {
-		o.warn(fmt.Sprintf("%s gives no [[separator.stage]]: the reservoir fluid goes straight to the stock tank", st.File))
+		o.warnOnce(noSeparator, fmt.Sprintf("%s gives no [[separator.stage]]: the reservoir fluid goes straight to the stock tank", st.File))
 	}
 	tr := trainOf(st, sys)
 	ip, err := mbal.InPlaceEOS(st.Fluid, st.Z, res, tr, nil)

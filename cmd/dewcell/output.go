@@ -73,6 +73,18 @@ func (o *options) encode(w io.Writer, reports ...*Report) error {
 // standard error alone when the run fails (flush).
 func (o *options) warn(msgs ...string) { o.warnings = append(o.warnings, msgs...) }
 
+// warnOnce queues a warning unless one of the same kind was queued in this
+// run: the steps of a workflow that all miss the same input say so once.
+func (o *options) warnOnce(kind, msg string) {
+	if o.warned == nil {
+		o.warned = map[string]bool{}
+	}
+	if !o.warned[kind] {
+		o.warned[kind] = true
+		o.warn(msg)
+	}
+}
+
 // note queues notes, as warn queues warnings.
 func (o *options) note(msgs ...string) { o.notes = append(o.notes, msgs...) }
 
@@ -243,3 +255,7 @@ func count(n int, one, many string) string {
 	}
 	return fmt.Sprintf("%d %s", n, many)
 }
+
+// noSeparator is the kind of the warning that the study gives no separator
+// stages.
+const noSeparator = "no separator"

@@ -121,7 +121,7 @@ func recoverReportAt(o *options, st *study.Study, ro mbal.RecoverOptions, atDew 
 		return nil, err
 	}
 	if len(st.Separator) == 0 {
-		o.warn(fmt.Sprintf("%s gives no [[separator.stage]]: the produced stream goes straight to the stock tank", st.File))
+		o.warnOnce(noSeparator, fmt.Sprintf("%s gives no [[separator.stage]]: the produced stream goes straight to the stock tank", st.File))
 	}
 	if ro.Pressures != nil && ro.Pressures[0] >= res.Pi {
 		return nil, cli.Exit(fmt.Sprintf("--%s: item 1 (%s) is not below the model's dew point (%s), where the reservoir starts with --%s",

@@ -19,7 +19,7 @@ func separateCommand() *cli.Command {
 		nil,
 		func(_ *cli.Context, o *options, st *study.Study) error {
 			if len(st.Separator) == 0 {
-				o.warn(fmt.Sprintf("%s gives no [[separator.stage]]: the fluid goes straight to the stock tank", st.File))
+				o.warnOnce(noSeparator, fmt.Sprintf("%s gives no [[separator.stage]]: the fluid goes straight to the stock tank", st.File))
 			}
 			r, err := separateReport(st, o.sys)
 			if err != nil {

@@ -34,9 +34,8 @@ var cautions = []string{
 // history. A step whose inputs the study does not give is left out, with a
 // note saying which key it needs. Each result takes the warnings and notes
 // of its step. atDew is --start-at-dew-point.
-func workflow(o *options, st *study.Study, atDew bool) ([]*Report, error) {
+func workflow(o *options, st *study.Study, atDew bool) (out []*Report, err error) {
 	sys := o.sys
-	var out []*Report
 	add := func(r *Report) {
 		o.attach(r)
 		out = append(out, r)
@@ -62,7 +61,7 @@ func workflow(o *options, st *study.Study, atDew bool) ([]*Report, error) {
 	rs := st.Reservoir
 	tr := trainOf(st, sys)
 	if len(st.Separator) == 0 {
-		o.warn(fmt.Sprintf("%s gives no [[separator.stage]]: the fluid goes straight to the stock tank", st.File))
+		o.warnOnce(noSeparator, fmt.Sprintf("%s gives no [[separator.stage]]: the fluid goes straight to the stock tank", st.File))
 	}
 	switch {
 	case up.Type == eos.Bubble:
@@ -99,6 +98,15 @@ func workflow(o *options, st *study.Study, atDew bool) ([]*Report, error) {
 	}
 	add(sep)
 
+	// What is queued when the workflow ends (the steps it left out) joins
+	// the last result.
+	defer func() {
+		if n := len(out); n > 0 && err == nil {
+			r := out[n-1]
+			r.Warnings, r.Notes = append(r.Warnings, o.warnings...), append(r.Notes, o.notes...)
+			o.warnings, o.notes = nil, nil
+		}
+	}()
 	if why := missingRock(st); why != "" {
 		skipped("volumes in place, recovery and history", why)
 		return out, nil

@@ -257,3 +257,13 @@ func displaySymbol(sym string) string { return powerOfTen.ReplaceAllString(sym, 
 // powerOfTen is a power of ten written 1eN at the start of a unit or after
 // a slash.
 var powerOfTen = regexp.MustCompile(`(^|/)1e(-?[0-9]+)`)
+
+// Quantity writes one value in u as people read it in a sentence: the
+// column's format, then the unit ("371 psia", "85.04 Bscf").
+func Quantity(v float64, u units.Unit) string {
+	s := ShowColumn(Column{Unit: u}, []any{v})
+	if s.Symbol == "" {
+		return s.Text(v)
+	}
+	return s.Text(v) + " " + s.Symbol
+}
