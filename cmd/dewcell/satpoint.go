@@ -77,7 +77,7 @@ func satpointReport(st *study.Study, sys units.System, t float64) (*Report, eos.
 		{Name: "incipient_composition", Title: "Incipient phase", Label: "component", Labels: names, Values: up.Incipient},
 	}
 	if hasLow {
-		r.Vectors = append(r.Vectors, Vector{Name: "lower_incipient_composition", Title: "Incipient phase at the lower dew point", Label: "component", Labels: names, Values: low.Incipient})
+		r.Vectors = append(r.Vectors, Vector{Name: "lower_incipient_composition", Title: "Incipient phase, lower dew point", Label: "component", Labels: names, Values: low.Incipient})
 	}
 	return r, up, nil
 }

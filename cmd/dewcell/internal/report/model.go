@@ -127,6 +127,66 @@ type Report struct {
 	Warnings []string
 }
 
+// CompositionTable lays out vectors over the same labels as one table:
+// the labels down the first column (headed by the first vector's Label),
+// then a column per vector; a vector shorter than the first leaves its
+// cells missing.
+func CompositionTable(vs []Vector) *Table {
+	if len(vs) == 0 {
+		return nil
+	}
+	v0 := vs[0]
+	label := v0.Label
+	if label == "" {
+		label = "item"
+	}
+	t := &Table{Name: "compositions", Title: "compositions, mole fraction", Columns: []Column{{Name: label}}}
+	for _, v := range vs {
+		f := v.Format
+		if f == (Format{}) {
+			f = MoleFraction
+		}
+		title := v.Title
+		if title == "" {
+			title = LabelOf(v.Name)
+		}
+		t.Columns = append(t.Columns, Column{Name: v.Name, Label: title, Format: f})
+	}
+	for i, l := range v0.Labels {
+		row := []any{l}
+		for _, v := range vs {
+			var x any
+			if i < len(v.Values) {
+				x = v.Values[i]
+			}
+			row = append(row, x)
+		}
+		t.Rows = append(t.Rows, row)
+	}
+	return t
+}
+
+// AsTable lays out m as a table: its labels down the first column and a
+// column per label.
+func (m *Matrix) AsTable() *Table {
+	f := m.Format
+	if f == (Format{}) {
+		f = Coefficient
+	}
+	t := &Table{Name: m.Name, Title: m.Title, Columns: []Column{{Name: "component", Label: " "}}}
+	for _, l := range m.Labels {
+		t.Columns = append(t.Columns, Column{Name: l, Label: l, Format: f})
+	}
+	for i, l := range m.Labels {
+		row := []any{l}
+		for _, x := range m.Values[i] {
+			row = append(row, x)
+		}
+		t.Rows = append(t.Rows, row)
+	}
+	return t
+}
+
 // Brief is r without its Detail tables: a copy sharing everything else.
 func (r *Report) Brief() *Report {
 	b := *r

@@ -61,8 +61,10 @@ func (r *Report) text(b *strings.Builder, opt TextOptions) {
 			b.WriteString(wrap(l, opt.Width, "  "))
 		}
 	}
-	if len(r.Vectors) > 0 {
-		vectorGrid(r.Vectors).write(b, opt.Width)
+	if t := CompositionTable(r.Vectors); t != nil {
+		b.WriteString("\n" + wrap(Capitalize(t.Title), opt.Width, ""))
+		g, _ := tableGrid(t, opt.Verbose)
+		g.write(b, opt.Width)
 	}
 	for i := range r.Tables {
 		t := &r.Tables[i]
@@ -93,7 +95,8 @@ func (r *Report) text(b *strings.Builder, opt TextOptions) {
 			title = LabelOf(m.Name)
 		}
 		b.WriteString("\n" + wrap(Capitalize(title), opt.Width, ""))
-		matrixGrid(m).write(b, opt.Width)
+		g, _ := tableGrid(m.AsTable(), opt.Verbose)
+		g.write(b, opt.Width)
 	}
 }
 
@@ -261,7 +264,9 @@ func summaryGrid(fields []Field) *grid {
 // header is the heading cell of a column: its name over as many lines as
 // keep it about as wide as its values, then its unit.
 func header(title, unit string, valueW int, right bool) cell {
-	target := max(valueW, width(unit), 8)
+	// At most about three lines of name: a column as wide as a third of
+	// the name, or as its values.
+	target := max(valueW, width(unit), 8, (width(title)+2)/3+2)
 	lines := wrapLines(title, target)
 	if unit != "" {
 		lines = append(lines, unit)
@@ -369,75 +374,6 @@ func transposedGrid(t *Table, verbose bool) *grid {
 		g.rows = append(g.rows, append(line, textCell(s.Symbol)))
 	}
 	return g
-}
-
-// vectorGrid lays out vectors over the same labels side by side.
-func vectorGrid(vs []Vector) *grid {
-	v0 := vs[0]
-	label := v0.Label
-	if label == "" {
-		label = "item"
-	}
-	head := []cell{header(LabelOf(label), "", 1, false)}
-	rows := make([][]cell, len(v0.Labels))
-	for i, l := range v0.Labels {
-		rows[i] = []cell{textCell(l)}
-	}
-	for _, v := range vs {
-		f := v.Format
-		if f == (Format{}) {
-			f = MoleFraction
-		}
-		vals := make([]any, len(v.Values))
-		for i, x := range v.Values {
-			vals[i] = x
-		}
-		s := ShowColumn(Column{Format: f}, vals)
-		w := 1
-		for i := range v0.Labels {
-			txt := "-"
-			if i < len(v.Values) {
-				txt = s.Text(v.Values[i])
-			}
-			rows[i] = append(rows[i], cell{lines: []string{txt}, right: true})
-			w = max(w, width(txt))
-		}
-		title := v.Title
-		if title == "" {
-			title = LabelOf(v.Name)
-		}
-		head = append(head, header(title, "", w, true))
-	}
-	padHead(head)
-	return &grid{head: [][]cell{head}, rows: rows, fixed: 1}
-}
-
-// matrixGrid lays out a matrix with its labels down the first column and
-// along the top.
-func matrixGrid(m *Matrix) *grid {
-	f := m.Format
-	if f == (Format{}) {
-		f = Coefficient
-	}
-	var vals []any
-	for _, r := range m.Values {
-		for _, x := range r {
-			vals = append(vals, x)
-		}
-	}
-	s := ShowColumn(Column{Format: f}, vals)
-	head := []cell{textCell("")}
-	for _, l := range m.Labels {
-		head = append(head, cell{lines: []string{l}, right: true})
-	}
-	rows := make([][]cell, len(m.Labels))
-	for i, l := range m.Labels {
-		rows[i] = []cell{textCell(l)}
-		for _, x := range m.Values[i] {
-			rows[i] = append(rows[i], cell{lines: []string{s.Text(x)}, right: true})
-		}
-	}
-	return &grid{head: [][]cell{head}, rows: rows, fixed: 1}
 }
 
 // wrapLines breaks s at spaces into lines of at most n characters; a word

@@ -59,7 +59,9 @@ func Write(w io.Writer, opt Options, reports ...*report.Report) error {
 			p.Title = report.LabelOf(r.Name)
 		}
 		p.Summary = summaryOf(r)
-		p.Vectors = vectorsOf(r.Vectors)
+		if t := report.CompositionTable(r.Vectors); t != nil {
+			p.Vectors = tableOf(t)
+		}
 		for ti := range r.Tables {
 			t := &r.Tables[ti]
 			tv := tableOf(t)
@@ -72,7 +74,7 @@ func Write(w io.Writer, opt Options, reports ...*report.Report) error {
 			p.Tables = append(p.Tables, tv)
 		}
 		if r.Matrix != nil {
-			p.Tables = append(p.Tables, matrixOf(r.Matrix))
+			p.Tables = append(p.Tables, tableOf(r.Matrix.AsTable()))
 		}
 		for _, f := range r.Figures {
 			svg, err := figure.InlineSVG(f)
@@ -225,77 +227,6 @@ func tableOf(t *report.Table) *table {
 		var cells []cellView
 		for _, j := range cols {
 			cells = append(cells, cellView{Text: shown[j].Text(r[j]), Number: numeric(r[j]) || report.Missing(r[j])})
-		}
-		tv.Rows = append(tv.Rows, cells)
-	}
-	return tv
-}
-
-func vectorsOf(vs []report.Vector) *table {
-	if len(vs) == 0 {
-		return nil
-	}
-	v0 := vs[0]
-	label := v0.Label
-	if label == "" {
-		label = "item"
-	}
-	tv := &table{Title: "Compositions, mole fraction", Head: []headCell{{Label: report.LabelOf(label)}}}
-	shown := make([]report.Shown, len(vs))
-	for k, v := range vs {
-		f := v.Format
-		if f == (report.Format{}) {
-			f = report.MoleFraction
-		}
-		vals := make([]any, len(v.Values))
-		for i, x := range v.Values {
-			vals[i] = x
-		}
-		shown[k] = report.ShowColumn(report.Column{Format: f}, vals)
-		title := v.Title
-		if title == "" {
-			title = report.LabelOf(v.Name)
-		}
-		tv.Head = append(tv.Head, headCell{Label: title, Number: true})
-	}
-	for i, l := range v0.Labels {
-		cells := []cellView{{Text: l}}
-		for k, v := range vs {
-			txt := "-"
-			if i < len(v.Values) {
-				txt = shown[k].Text(v.Values[i])
-			}
-			cells = append(cells, cellView{Text: txt, Number: true})
-		}
-		tv.Rows = append(tv.Rows, cells)
-	}
-	return tv
-}
-
-func matrixOf(m *report.Matrix) *table {
-	f := m.Format
-	if f == (report.Format{}) {
-		f = report.Coefficient
-	}
-	var vals []any
-	for _, r := range m.Values {
-		for _, x := range r {
-			vals = append(vals, x)
-		}
-	}
-	s := report.ShowColumn(report.Column{Format: f}, vals)
-	title := m.Title
-	if title == "" {
-		title = report.LabelOf(m.Name)
-	}
-	tv := &table{Title: report.Capitalize(title), Head: []headCell{{Label: ""}}}
-	for _, l := range m.Labels {
-		tv.Head = append(tv.Head, headCell{Label: l, Number: true})
-	}
-	for i, l := range m.Labels {
-		cells := []cellView{{Text: l}}
-		for _, x := range m.Values[i] {
-			cells = append(cells, cellView{Text: s.Text(x), Number: true})
 		}
 		tv.Rows = append(tv.Rows, cells)
 	}
