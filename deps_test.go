@@ -54,7 +54,7 @@ var layers = map[string][]string{
 	"dewcell/cmd/dewcell/internal/report":          {std, "dewcell/cmd/dewcell/internal/units"},
 	"dewcell/cmd/dewcell/internal/report/figure":   {std, "gonum.org/v1/plot", "golang.org/x/image", "dewcell/cmd/dewcell/internal/report", "dewcell/cmd/dewcell/internal/units"},
 	"dewcell/cmd/dewcell/internal/report/workbook": {std, "github.com/xuri/excelize/v2", "dewcell/cmd/dewcell/internal/report", "dewcell/cmd/dewcell/internal/units"},
-	"dewcell/cmd/dewcell/internal/report/html":     {std, "dewcell/cmd/dewcell/internal/report", "dewcell/cmd/dewcell/internal/report/figure"},
+	"dewcell/cmd/dewcell/internal/report/html":     {std, "dewcell/cmd/dewcell/internal/report", "dewcell/cmd/dewcell/internal/report/figure", "dewcell/cmd/dewcell/internal/units"},
 }
 
 // testHelpers are the packages the tests of a library package may import

@@ -217,6 +217,7 @@ type options struct {
 	stdout  io.Writer
 	stderr  io.Writer
 
+	plot    string // --plot: the folder of the figures, "" for none
 	title   string // the study's title, or its file name, for the files that carry it
 	command string // the command line, as the user could type it again
 

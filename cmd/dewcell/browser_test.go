@@ -11,6 +11,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/cdproto/network"
 	"github.com/chromedp/chromedp"
 )
@@ -65,15 +66,17 @@ func TestReportInBrowser(t *testing.T) {
 	if nFigures < 8 {
 		t.Errorf("the report holds %d figures; the workflow draws at least 8", nFigures)
 	}
-	// The numbers people look for, as the commands give them.
+	// The numbers people look for, as the commands give them, each in its
+	// part of the report (by the part's heading).
 	sat := runJSON(t, "satpoint", exampleStudy)
 	rec := runJSON(t, "recover", exampleStudy)
 	ip := runJSON(t, "inplace", exampleStudy)
-	keys := []string{
-		fmt.Sprintf("%.0f", num(t, sat, "upper_dew_pressure_psia")),                // psia to 1 psi
-		fmt.Sprintf("%.2f", num(t, rec, "condensate_recovery_at_abandonment_pct")), // % to 0.01
-		fmt.Sprintf("%.1f", num(t, ip, "wet_gas_in_place_mmscf")/1000),             // Bscf, four digits
-		"Caution", "qualified, licensed professionals",
+	keys := []struct{ part, text string }{
+		{"Saturation pressures", fmt.Sprintf("%.0f", num(t, sat, "upper_dew_pressure_psia"))},              // psia to 1 psi
+		{"Depletion recovery", fmt.Sprintf("%.2f", num(t, rec, "condensate_recovery_at_abandonment_pct"))}, // % to 0.01
+		{"Volumes in place", fmt.Sprintf("%.1f", num(t, ip, "wet_gas_in_place_mmscf")/1000)},               // Bscf, four digits
+		{"Volumes in place", fmt.Sprintf("%.2f", num(t, ip, "condensate_in_place_stb")/1e6)},               // MMSTB, four digits
+		{"", "qualified, licensed professionals"}, {"", "local codes"},                                     // the cautions
 	}
 
 	alloc, cancel := chromedp.NewExecAllocator(context.Background(),
@@ -135,12 +138,42 @@ func TestReportInBrowser(t *testing.T) {
 	if err := chromedp.Do(ctx, chromedp.Navigate(url), chromedp.WaitReady("body")); err != nil {
 		t.Fatalf("headless Chromium: %v", err)
 	}
-	sizes, err := chromedp.Run(ctx, chromedp.Evaluate[[][]float64](`Array.from(document.querySelectorAll("figure svg")).map(e => { const r = e.getBoundingClientRect(); return [r.width, r.height]; })`))
+	// Each figure's box and the number of things drawn in it (paths of the
+	// curves, axes and ticks, and texts): an empty picture has none.
+	sizes, err := chromedp.Run(ctx, chromedp.Evaluate[[][]float64](`Array.from(document.querySelectorAll("figure svg")).map(e => {
+		const r = e.getBoundingClientRect();
+		return [r.width, r.height, e.querySelectorAll("path, polyline, line").length, e.querySelectorAll("text").length];
+	})`))
 	if err != nil {
 		t.Fatalf("headless Chromium: %v", err)
 	}
 	text, err := chromedp.Run(ctx, chromedp.Evaluate[string](`document.body.innerText`))
 	if err != nil {
+		t.Fatalf("headless Chromium: %v", err)
+	}
+	parts, err := chromedp.Run(ctx, chromedp.Evaluate[map[string]string](`Object.fromEntries(Array.from(document.querySelectorAll("section.part")).map(s => [s.querySelector("h2").innerText, s.innerText]))`))
+	if err != nil {
+		t.Fatalf("headless Chromium: %v", err)
+	}
+	// Printed on A4 (the print styles, a page 190 mm wide at 96 pixels to
+	// the inch: 718 px), no table runs past the page.
+	if err := chromedp.Do(ctx, chromedp.EmulateViewport(718, 1000)); err != nil {
+		t.Fatalf("headless Chromium: %v", err)
+	}
+	if _, err := chromedp.Call(ctx, emulation.SetEmulatedMedia, emulation.SetEmulatedMediaParams{Media: "print"}); err != nil {
+		t.Fatalf("headless Chromium, print media: %v", err)
+	}
+	wide, err := chromedp.Run(ctx, chromedp.Evaluate[[]string](`Array.from(document.querySelectorAll("table")).filter(e => e.getBoundingClientRect().right > document.documentElement.clientWidth + 1).map(e => (e.previousElementSibling ? e.previousElementSibling.innerText : "a table") + ": " + Math.round(e.getBoundingClientRect().width) + " px")`))
+	if err != nil {
+		t.Fatalf("headless Chromium: %v", err)
+	}
+	for _, w := range wide {
+		t.Errorf("printed, a table runs past the page of 718 px: %s", w)
+	}
+	if _, err := chromedp.Call(ctx, emulation.SetEmulatedMedia, emulation.SetEmulatedMediaParams{Media: ""}); err != nil {
+		t.Fatalf("headless Chromium: %v", err)
+	}
+	if err := chromedp.Do(ctx, chromedp.EmulateViewport(1280, 1000)); err != nil {
 		t.Fatalf("headless Chromium: %v", err)
 	}
 	shot, err := chromedp.Run(ctx, chromedp.FullScreenshot(100))
@@ -162,13 +195,27 @@ func TestReportInBrowser(t *testing.T) {
 		t.Errorf("%d figures drawn, want %d", len(sizes), nFigures)
 	}
 	for i, s := range sizes {
-		if len(s) != 2 || !(s[0] > 100 && s[1] > 100) {
+		if len(s) != 4 || !(s[0] > 100 && s[1] > 100) {
 			t.Errorf("figure %d drawn at %v px: want a visible size", i+1, s)
+			continue
+		}
+		// Axes, ticks and a curve are tens of paths; the title, the axis
+		// labels and the tick labels about ten texts.
+		if s[2] < 20 || s[3] < 8 {
+			t.Errorf("figure %d holds %g paths and %g texts: not drawn", i+1, s[2], s[3])
 		}
 	}
 	for _, k := range keys {
-		if !strings.Contains(text, k) {
-			t.Errorf("the page does not show %q", k)
+		in := text
+		if k.part != "" {
+			var ok bool
+			if in, ok = parts[k.part]; !ok {
+				t.Errorf("the report has no part %q", k.part)
+				continue
+			}
+		}
+		if !strings.Contains(in, k.text) {
+			t.Errorf("the part %q of the page does not show %q", k.part, k.text)
 		}
 	}
 	if !strings.HasPrefix(string(pdf), "%PDF") {

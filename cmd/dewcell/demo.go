@@ -101,8 +101,9 @@ func demoCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
+			withInputs := append([]*Report{inputsReport(st, o.sys)}, out...)
 			var book bytes.Buffer
-			if err := writeWorkbook(&book, o, append([]*Report{inputsReport(st, o.sys)}, out...)...); err != nil {
+			if err := writeWorkbook(&book, o, withInputs...); err != nil {
 				return fmt.Errorf("demo: the workbook: %w", err)
 			}
 			page, err := studyReport(o, st, source, o.command, out)
@@ -128,6 +129,9 @@ func demoCommand() *cli.Command {
 			fmt.Fprintf(o.stderr, "demo: %d results written to %s: each as JSON and its tables as CSV, %s as SVG and PNG, the workbook %s and the study report %s\n",
 				len(out), abs, count(len(figures)/2, "figure", "figures"), demoWorkbook, demoReport)
 			o.brief = true
+			if o.format == formatXLSX { // the workbook of the folder
+				return o.emit(withInputs...)
+			}
 			return o.emit(out...)
 		},
 	}
@@ -427,7 +431,7 @@ func noteMargin(o *options, st *study.Study, up eos.Saturation) {
 	gap := report.Quantity(math.Abs(d), pU)
 	switch {
 	case math.Abs(pi-up.P) <= atDewTolerance*up.P:
-		o.note(fmt.Sprintf("the initial pressure is the computed %s point (%s) within %s", up.Type, pressureText(o.sys, up.P), atDewToleranceText))
+		o.note(fmt.Sprintf("the initial pressure is the computed %s point (%s) within %s", up.Type, pressureNote(o.sys, up.P), atDewToleranceText))
 	case d > 0:
 		o.note(fmt.Sprintf("the initial pressure is %s above the computed %s point", gap, up.Type))
 	default:

@@ -24,7 +24,7 @@ var demoFigures = []string{"phase-envelope", "cvd-liquid-dropout", "cvd-gas-comp
 // demoParts are the further tables demo writes as CSV, by result.
 var demoParts = map[string][]string{
 	"fluid":      {"summary", "kij"},
-	"envelope":   {"summary", "summary-fields"},
+	"envelope":   {"extremes", "summary"},
 	"depletion":  {"gas-composition", "liquid-composition", "summary"},
 	"separator":  {"compositions", "summary"},
 	"in_place":   {"summary"},

@@ -93,6 +93,18 @@ func upperSaturation(st *study.Study, sys units.System, t float64) (eos.Saturati
 	return sat, nil
 }
 
+// pressureNote writes a pressure for the notes and warnings of a result,
+// as the tables write it; pressureText, with six significant digits, is
+// for the messages that compare a given pressure with a computed one.
+func pressureNote(sys units.System, p float64) string {
+	return report.Quantity(sys.Unit(units.Pressure).FromSI(p), sys.Unit(units.Pressure))
+}
+
+// temperatureNote writes a temperature as pressureNote writes a pressure.
+func temperatureNote(sys units.System, t float64) string {
+	return report.Quantity(sys.Unit(units.Temperature).FromSI(t), sys.Unit(units.Temperature))
+}
+
 // pressureText writes a pressure for people in the output system.
 func pressureText(sys units.System, p float64) string {
 	pU := sys.Unit(units.Pressure)
@@ -123,7 +135,7 @@ func depletionOptions(c *cli.Context, o *options, st *study.Study, sat eos.Satur
 				flagFromInitial, st.File, pressureText(o.sys, pi), point, pressureText(o.sys, pd), flagFromInitial, point)
 		case pi <= pd*(1+atDewTolerance):
 			o.note(fmt.Sprintf("reservoir.initial_pressure of %s is the computed %s (%s) within %s: the depletion starts at the %s",
-				st.File, point, pressureText(o.sys, pd), atDewToleranceText, point))
+				st.File, point, pressureNote(o.sys, pd), atDewToleranceText, point))
 		default:
 			opt.Start = pi
 		}

@@ -37,11 +37,11 @@ func envelopeReport(st *study.Study, sys units.System) (*Report, error) {
 	r := &Report{Name: "envelope", Section: "Phase envelope", Title: "phase envelope of " + fluidName(st),
 		Fields: []Field{{Column: Column{Name: "trace_end", Label: "End of the trace"}, Value: env.End.String()}}}
 	if msg := envelopeEndText(env, tU, pU); msg != "" {
-		r.Warn("phase envelope: " + msg)
+		r.Warn(msg)
 	}
 	cols := []Column{{Name: "type", Label: "Point"}, {Name: "temperature", Unit: tU}, {Name: "pressure", Unit: pU}}
 	row := func(kind string, t, p float64) []any { return []any{kind, tU.FromSI(t), pU.FromSI(p)} }
-	summary := Table{Name: "summary", Title: "critical point and extremes", Columns: cols}
+	summary := Table{Name: "summary", Part: "extremes", Title: "critical point and extremes", Columns: cols}
 	if env.HasCritical {
 		summary.Rows = append(summary.Rows, row("critical", env.Critical[0], env.Critical[1]))
 	}
@@ -117,7 +117,7 @@ func envelopeEndText(env *eos.Envelope, tU, pU units.Unit) string {
 		return ""
 	}
 	last := env.Points[len(env.Points)-1]
-	at := fmt.Sprintf("%.6g %s and %.6g %s", tU.FromSI(last.T), tU.Symbol, pU.FromSI(last.P), pU.Symbol)
+	at := report.Quantity(tU.FromSI(last.T), tU) + " and " + report.Quantity(pU.FromSI(last.P), pU)
 	branch := "the dew branch"
 	if env.HasCritical {
 		branch = "the bubble branch"

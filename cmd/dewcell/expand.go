@@ -125,8 +125,11 @@ func expansionReport(st *study.Study, sys units.System, e *cvd.Expansion) *Repor
 	liqVol := report.Series{Label: "Liquid volume", Style: report.LinePoints}
 	for _, s := range e.Steps {
 		relVol.X, relVol.Y = append(relVol.X, pU.FromSI(s.P)), append(relVol.Y, s.RelativeVolume)
-		if s.TwoPhase {
+		switch {
+		case s.TwoPhase:
 			liqVol.X, liqVol.Y = append(liqVol.X, pU.FromSI(s.P)), append(liqVol.Y, units.Percent.FromSI(s.LiquidVolume))
+		case e.Saturation.Type == eos.Dew: // no liquid at and above the dew point
+			liqVol.X, liqVol.Y = append(liqVol.X, pU.FromSI(s.P)), append(liqVol.Y, 0)
 		}
 		var liq, z, z2, comp any
 		if s.TwoPhase {

@@ -97,7 +97,7 @@ func historyRunAt(o *options, st *study.Study, conf float64, atDew bool) (*histo
 		p0 := st.History[0].Pressure
 		if math.Abs(p0-res.Pi) > 0.005*res.Pi {
 			o.warn(fmt.Sprintf("%s: history[1] records no production at %s, but reservoir.initial_pressure is %s; the material balance starts from reservoir.initial_pressure",
-				st.File, pressureText(o.sys, p0), pressureText(o.sys, res.Pi)))
+				st.File, pressureNote(o.sys, p0), pressureNote(o.sys, res.Pi)))
 		}
 	}
 	fitted := st.History[h.first:]
@@ -154,26 +154,26 @@ func influxReason(v mbal.InfluxVerdict) string {
 		}
 		return down
 	}
-	pct := func(f float64) string { return fmt.Sprintf("%.2g %%", 100*math.Abs(f)) }
-	material := fmt.Sprintf("%.2g %%", 100*v.Materiality)
+	pct := func(f float64) string { return report.Sig(100*math.Abs(f), 2) + " %" }
+	material := report.Sig(100*v.Materiality, 2) + " %"
 	tr, cu := v.Trend, v.Curvature
 	if tr.Significant {
-		fmt.Fprintf(&b, "F/(Eg+Efw) %s with production (slope %.3g, p = %.2g < %.2g) by %s of the gas in place over the history",
-			dir(tr.Rising(), "rises", "falls"), tr.Estimate, tr.P, v.Alpha, pct(tr.Change))
+		fmt.Fprintf(&b, "F/(Eg+Efw) %s with production (slope %s, %s, significant at %s) by %s of the gas in place over the history",
+			dir(tr.Rising(), "rises", "falls"), report.Sig(tr.Estimate, 3), report.PValue(tr.P), report.Sig(v.Alpha, 2), pct(tr.Change))
 		if !tr.Material {
 			fmt.Fprintf(&b, ", below the %s taken as material", material)
 		}
 	} else {
-		fmt.Fprintf(&b, "F/(Eg+Efw) shows no significant trend (p = %.2g)", tr.P)
+		fmt.Fprintf(&b, "F/(Eg+Efw) shows no significant trend (%s)", report.PValue(tr.P))
 	}
 	if cu.Significant {
-		fmt.Fprintf(&b, "; the corrected p/Z line %s (curvature p = %.2g < %.2g) by %s of p/Z at mid-history",
-			dir(cu.Rising(), "flattens", "steepens"), cu.P, v.Alpha, pct(cu.Change))
+		fmt.Fprintf(&b, "; the corrected p/Z line %s (curvature %s, significant at %s) by %s of p/Z at mid-history",
+			dir(cu.Rising(), "flattens", "steepens"), report.PValue(cu.P), report.Sig(v.Alpha, 2), pct(cu.Change))
 		if !cu.Material {
 			fmt.Fprintf(&b, ", below the %s taken as material", material)
 		}
 	} else {
-		fmt.Fprintf(&b, "; the corrected p/Z line is straight (curvature p = %.2g)", cu.P)
+		fmt.Fprintf(&b, "; the corrected p/Z line is straight (curvature %s)", report.PValue(cu.P))
 	}
 	switch v.Outcome {
 	case mbal.NoInflux:
@@ -219,6 +219,11 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult) *Repor
 	pU, cU := u.press, sys.Unit(units.Compressibility)
 	line := h.ho.Line
 	ip := h.rec.InPlace
+	// The gas in place, its interval and the volumetric figure to as many
+	// digits as tell the interval's ends apart, and small departures with
+	// their own digits.
+	interval := report.Format{Scaled: true, Digits: max(4, 2+int(math.Ceil(math.Log10(math.Abs(line.G)/math.Max(line.GSE, 1e-300)))))}
+	small := report.Format{Decimals: 3, MinDigits: 2, MaxDecimals: 6}
 	r := &Report{
 		Name:    "history",
 		Section: "Production history: material balance",
@@ -232,32 +237,30 @@ func historyReportOf(st *study.Study, sys units.System, h *historyResult) *Repor
 			{Column: Column{Name: "initial_condensate_gas_equivalent", Unit: su.gor.Unit}, Value: su.gor.of(h.ge)},
 			{Column: Column{Name: "effective_compressibility", Unit: cU}, Value: cU.FromSI(h.ho.Ce)},
 			{Column: Column{Name: "confidence", Label: "Confidence level", Format: report.Fixed(2)}, Value: line.Confidence},
-			{Column: Column{Name: "wet_gas_in_place", Unit: u.gas}, Value: u.gas.FromSI(line.G)},
-			{Column: Column{Name: "wet_gas_in_place_low", Label: "Wet gas in place, low end of the interval", Unit: u.gas}, Value: u.gas.FromSI(line.GLow)},
-			{Column: Column{Name: "wet_gas_in_place_high", Label: "Wet gas in place, high end of the interval", Unit: u.gas}, Value: u.gas.FromSI(line.GHigh)},
+			{Column: Column{Name: "wet_gas_in_place", Unit: u.gas, Format: interval}, Value: u.gas.FromSI(line.G)},
+			{Column: Column{Name: "wet_gas_in_place_low", Label: "Wet gas in place, low end of the interval", Unit: u.gas, Format: interval}, Value: u.gas.FromSI(line.GLow)},
+			{Column: Column{Name: "wet_gas_in_place_high", Label: "Wet gas in place, high end of the interval", Unit: u.gas, Format: interval}, Value: u.gas.FromSI(line.GHigh)},
 			{Column: Column{Name: "wet_gas_in_place_standard_error", Unit: u.gas}, Value: u.gas.FromSI(line.GSE)},
 			{Column: Column{Name: "r_squared", Format: report.Fixed(5)}, Value: line.R2},
 			{Column: Column{Name: "p_over_z_residual_standard_error", Unit: pU}, Value: pU.FromSI(line.ResidualSE)},
 			{Column: Column{Name: "uncorrected_p_over_z_wet_gas_in_place", Unit: u.gas}, Value: u.gas.FromSI(h.plain.G)},
-			{Column: Column{Name: "volumetric_wet_gas_in_place", Unit: u.gas}, Value: u.gas.FromSI(ip.WetGas)},
+			{Column: Column{Name: "volumetric_wet_gas_in_place", Unit: u.gas, Format: interval}, Value: u.gas.FromSI(ip.WetGas)},
 			{Column: Column{Name: "difference_from_volumetric", Unit: u.gas}, Value: u.gas.FromSI(h.vol.Difference)},
 			{Column: Column{Name: "difference_from_volumetric", Label: "Difference from volumetric, share", Unit: units.Percent}, Value: 100 * (h.vol.Ratio - 1)},
 			{Column: Column{Name: "volumetric_inside_interval", Label: "Volumetric figure inside the interval"}, Value: h.vol.Inside},
 			{Column: Column{Name: "f_over_expansion_trend", Label: "F/(Eg+Efw) slope against cumulative wet gas", Format: report.Format{Decimals: 4, MinDigits: 2, MaxDecimals: 8}}, Value: h.ho.TrendSlope},
 			{Column: Column{Name: "f_over_expansion_trend_p_value", Label: "F/(Eg+Efw) trend, p-value", Format: report.Statistic}, Value: h.ho.TrendP},
-			{Column: Column{Name: "f_over_expansion_change", Label: "F/(Eg+Efw) change over the history", Unit: units.Percent, Format: report.Fixed(3)}, Value: 100 * h.ho.TrendChange},
+			{Column: Column{Name: "f_over_expansion_change", Label: "F/(Eg+Efw) change over the history", Unit: units.Percent, Format: small}, Value: 100 * h.ho.TrendChange},
 			{Column: Column{Name: "curvature_p_value", Label: "Curvature of the p/Z line, p-value", Format: report.Statistic}, Value: line.CurvatureP},
-			{Column: Column{Name: "curvature_departure", Label: "Curvature departure from the line", Unit: units.Percent, Format: report.Fixed(3)}, Value: 100 * h.ho.CurvatureChange},
+			{Column: Column{Name: "curvature_departure", Label: "Curvature departure from the line", Unit: units.Percent, Format: small}, Value: 100 * h.ho.CurvatureChange},
 			{Column: Column{Name: "water_influx_suspected"}, Value: h.ho.WaterInfluxSuspected},
 			{Column: Column{Name: "water_formation_volume_factor_source"}, Value: h.bwFrom},
 			{Column: Column{Name: "started_at_model_dew_point"}, Value: h.started},
 		},
 	}
 	r.Fields = append(r.Fields, Field{Column: Column{Name: "influx_test"}, Value: h.ho.Reason})
-	if h.ho.WaterInfluxSuspected {
+	if h.ho.WaterInfluxSuspected { // the summary's influx_test says it otherwise
 		r.Warn("water influx suspected: " + h.ho.Reason)
-	} else {
-		r.Note("influx test: " + h.ho.Reason)
 	}
 	labelName := "row"
 	if len(h.rows) > 0 {

@@ -132,7 +132,7 @@ func TestHistoryExample(t *testing.T) {
 		"examples/sablewick.toml: the history is the model's, rounded to 4 digits")
 	checkAbs(t, "difference_from_volumetric_pct", num(t, doc, "difference_from_volumetric_pct"),
 		100*(num(t, doc, "wet_gas_in_place_mmscf")/num(t, doc, "volumetric_wet_gas_in_place_mmscf")-1), 1e-9, "definition")
-	if doc["water_influx_suspected"] != false || !strings.Contains(stderr, "note: influx test:") || !strings.Contains(doc["influx_test"].(string), "volumetric") {
+	if doc["water_influx_suspected"] != false || strings.Contains(stderr, "water influx suspected") || !strings.Contains(doc["influx_test"].(string), "volumetric") {
 		t.Errorf("water_influx_suspected %v, stderr %q: want no influx for the model's own history", doc["water_influx_suspected"], stderr)
 	}
 	// The first row is the initial state: eight rows with production remain.
@@ -162,9 +162,23 @@ func TestHistoryInflux(t *testing.T) {
 		p := s.P + 0.3*(pi-s.P)*s.WetGas/gMax // support growing with production
 		fmt.Fprintf(&b, "\n[[history]]\nstep = %d\npressure = \"%.10g Pa\"\nsales_gas = \"%.10g sm3\"\ncondensate = \"%.10g sm3\"\n", i+1, p, s.SalesGas, s.Condensate)
 	}
-	code, out, stderr := dewcell("history", "--format", "json", writeStudy(t, base+b.String()))
+	influx := writeStudy(t, base+b.String())
+	code, out, stderr := dewcell("history", "--format", "json", influx)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	// What people read of it has no p-value in e-notation (the tests are
+	// significant far beyond 0.001 here).
+	code, text, textErr := dewcell("history", influx)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, textErr)
+	}
+	checkForPeople(t, "history with influx", text)
+	if m := scientific.FindString(textErr); m != "" {
+		t.Errorf("history with influx: standard error writes %q in e-notation:\n%s", m, textErr)
+	}
+	if !strings.Contains(text, "p < 0.001") {
+		t.Errorf("the influx test does not say p < 0.001:\n%s", text)
 	}
 	doc := decodeJSON(t, out)
 	if doc["water_influx_suspected"] != true || !strings.Contains(stderr, "warning: water influx suspected") || !strings.Contains(stderr, "rises") {
@@ -262,7 +276,8 @@ func TestHistoryWaterFVF(t *testing.T) {
 // is what the history command printed for the same test results before the
 // verdict became typed (the bundled example, and variants of it with water
 // produced, with pressure support added and with support fading); the
-// conflicting case follows the same pattern.
+// conflicting case follows the same pattern. p-values are written to three
+// decimals, and below 0.001 as p < 0.001, never in e-notation.
 func TestInfluxReason(t *testing.T) {
 	const alpha = 0.025
 	test := func(est, p, change float64) mbal.InfluxTest {
@@ -277,13 +292,13 @@ func TestInfluxReason(t *testing.T) {
 		{"example", mbal.NoInflux, test(-0.003, 0.65, -0.002), test(1e-30, 0.92, 0.0001),
 			"F/(Eg+Efw) shows no significant trend (p = 0.65); the corrected p/Z line is straight (curvature p = 0.92): consistent with a volumetric reservoir"},
 		{"water, immaterial", mbal.NoInflux, test(-0.0122, 1.1e-10, -0.0068), test(-1e-30, 2.8e-9, -0.00096),
-			"F/(Eg+Efw) falls with production (slope -0.0122, p = 1.1e-10 < 0.025) by 0.68 % of the gas in place over the history, below the 1 % taken as material; the corrected p/Z line steepens (curvature p = 2.8e-09 < 0.025) by 0.096 % of p/Z at mid-history, below the 1 % taken as material: consistent with a volumetric reservoir"},
+			"F/(Eg+Efw) falls with production (slope -0.0122, p < 0.001, significant at 0.025) by 0.68 % of the gas in place over the history, below the 1 % taken as material; the corrected p/Z line steepens (curvature p < 0.001, significant at 0.025) by 0.096 % of p/Z at mid-history, below the 1 % taken as material: consistent with a volumetric reservoir"},
 		{"support added", mbal.GrowingInflux, test(0.2, 0.076, 0.1), test(1e-30, 1.8e-8, 0.19),
-			"F/(Eg+Efw) shows no significant trend (p = 0.076); the corrected p/Z line flattens (curvature p = 1.8e-08 < 0.025) by 19 % of p/Z at mid-history: water influx growing with time, as from an active aquifer"},
+			"F/(Eg+Efw) shows no significant trend (p = 0.076); the corrected p/Z line flattens (curvature p < 0.001, significant at 0.025) by 19 % of p/Z at mid-history: water influx growing with time, as from an active aquifer"},
 		{"support fading", mbal.FadingSupport, test(-0.46, 1.8e-8, -0.32), test(-1e-30, 7.2e-9, -0.052),
-			"F/(Eg+Efw) falls with production (slope -0.46, p = 1.8e-08 < 0.025) by 32 % of the gas in place over the history; the corrected p/Z line steepens (curvature p = 7.2e-09 < 0.025) by 5.2 % of p/Z at mid-history: pressure support that fades as pressure falls, as from a small (pot) aquifer, or rock and water expansion larger than Cw and Cf give"},
+			"F/(Eg+Efw) falls with production (slope -0.46, p < 0.001, significant at 0.025) by 32 % of the gas in place over the history; the corrected p/Z line steepens (curvature p < 0.001, significant at 0.025) by 5.2 % of p/Z at mid-history: pressure support that fades as pressure falls, as from a small (pot) aquifer, or rock and water expansion larger than Cw and Cf give"},
 		{"conflicting", mbal.ConflictingTests, test(0.31, 2e-5, 0.12), test(-1e-30, 3e-6, -0.04),
-			"F/(Eg+Efw) rises with production (slope 0.31, p = 2e-05 < 0.025) by 12 % of the gas in place over the history; the corrected p/Z line steepens (curvature p = 3e-06 < 0.025) by 4 % of p/Z at mid-history: the two tests disagree in direction; the history is not volumetric, check the data and Z₂"},
+			"F/(Eg+Efw) rises with production (slope 0.31, p < 0.001, significant at 0.025) by 12 % of the gas in place over the history; the corrected p/Z line steepens (curvature p < 0.001, significant at 0.025) by 4 % of p/Z at mid-history: the two tests disagree in direction; the history is not volumetric, check the data and Z₂"},
 	} {
 		v := mbal.InfluxVerdict{Outcome: c.outcome, Trend: c.trend, Curvature: c.curvature, Alpha: (1 - mbal.DefaultConfidence) / 2, Materiality: mbal.InfluxMateriality}
 		if got := influxReason(v); got != c.want {

@@ -47,19 +47,19 @@ func startAtDewPoint(o *options, st *study.Study, res *mbal.Reservoir, what stri
 	if err != nil {
 		return false, fmt.Errorf("--%s: %w", flagStartAtDew, err)
 	}
-	at := temperatureText(o.sys, res.T)
+	at := temperatureNote(o.sys, res.T)
 	if sat.Type == eos.Bubble {
 		return false, cli.Exit(fmt.Sprintf("--%s: the fluid of %s has a bubble point at %s (%s), not a dew point: it is an oil, for which %s does not apply",
 			flagStartAtDew, st.File, at, pressureText(o.sys, sat.P), what), exitUsage)
 	}
 	if sat.P <= res.Pi {
 		o.note(fmt.Sprintf("%s: --%s: the model's dew point at %s (%s) lies below reservoir.initial_pressure (%s); the reservoir starts at the initial pressure",
-			what, flagStartAtDew, at, pressureText(o.sys, sat.P), pressureText(o.sys, res.Pi)))
+			what, flagStartAtDew, at, pressureNote(o.sys, sat.P), pressureNote(o.sys, res.Pi)))
 		return false, nil
 	}
 	pi := sat.P * (1 + 1e-9)
 	o.warn(fmt.Sprintf("the fluid model's dew point at %s (%s) lies above reservoir.initial_pressure of %s (%s): the model disagrees with the sample, which was one phase at the initial pressure, and needs tuning; %s starts the reservoir at the model's dew point instead (--%s)",
-		at, pressureText(o.sys, sat.P), st.File, pressureText(o.sys, res.Pi), what, flagStartAtDew))
+		at, pressureNote(o.sys, sat.P), st.File, pressureNote(o.sys, res.Pi), what, flagStartAtDew))
 	res.Pi = pi
 	return true, nil
 }

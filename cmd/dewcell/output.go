@@ -39,10 +39,11 @@ const (
 
 var formats = []string{formatTable, formatCSV, formatJSON, formatXLSX}
 
-// encode renders the reports in o's format; o.brief leaves out their
-// detail tables.
+// encode renders the reports in o's format; o.brief leaves their detail
+// tables out of the text and the JSON (demo's standard output), never out
+// of a workbook.
 func (o *options) encode(w io.Writer, reports ...*Report) error {
-	if o.brief {
+	if o.brief && o.format != formatXLSX {
 		short := make([]*Report, len(reports))
 		for i, r := range reports {
 			short[i] = r.Brief()
@@ -124,15 +125,26 @@ func (o *options) tell(reports ...*Report) {
 // into place once complete, so that the file is written in full or not at
 // all. The queued warnings and notes join the first report; all of them go
 // to standard error too, then the caution.
-func (o *options) emit(reports ...*Report) error {
+func (o *options) emit(reports ...*Report) error { return o.emitWith(nil, reports...) }
+
+// emitWith is emit, writing the files of before (figures) once the result
+// has been rendered without error and before it is written: a run that
+// fails writes nothing.
+func (o *options) emitWith(before []demoFile, reports ...*Report) error {
 	if len(reports) > 0 {
 		o.attach(reports[0])
 	}
-	o.tell(reports...)
 	var buf bytes.Buffer
 	if err := o.encode(&buf, reports...); err != nil {
 		return err
 	}
+	if len(before) > 0 {
+		if err := o.writeFigures(before); err != nil {
+			return err
+		}
+		reports[0].Note(fmt.Sprintf("%s drawn into %s, as SVG and PNG", count(len(before)/2, "figure", "figures"), o.plot))
+	}
+	o.tell(reports...)
 	if err := o.write(buf.Bytes()); err != nil {
 		return err
 	}
@@ -226,26 +238,34 @@ func figureFiles(reports ...*Report) ([]demoFile, error) {
 // figureDPI is the resolution of the PNG figures.
 const figureDPI = 150
 
-// emitPlots is emit, drawing the figures into the --plot folder first: all
-// of them are rendered before any file is written, and each file is
-// written in full or not at all.
+// emitPlots is emit, drawing the figures of the reports into the --plot
+// folder when it is given: every figure is rendered, and the result, before
+// any file is written, and each file is written in full or not at all.
 func (o *options) emitPlots(c *cli.Context, reports ...*Report) error {
-	if dir := c.String(flagPlot); dir != "" {
-		files, err := figureFiles(reports...)
-		if err != nil {
-			return err
-		}
-		if err := os.MkdirAll(dir, 0o755); err != nil {
-			return fmt.Errorf("--%s: cannot make %s: %v", flagPlot, dir, cause(err))
-		}
-		for _, f := range files {
-			if err := writeAtomic(filepath.Join(dir, f.name), f.data); err != nil {
-				return fmt.Errorf("--%s: cannot write %s: %v", flagPlot, filepath.Join(dir, f.name), cause(err))
-			}
-		}
-		o.note(fmt.Sprintf("%s drawn into %s, as SVG and PNG", count(len(files)/2, "figure", "figures"), dir))
+	o.plot = c.String(flagPlot)
+	if o.plot == "" {
+		return o.emit(reports...)
 	}
-	return o.emit(reports...)
+	files, err := figureFiles(reports...)
+	if err != nil {
+		return err
+	}
+	return o.emitWith(files, reports...)
+}
+
+// writeFigures writes the figure files into the --plot folder, making it
+// when it does not exist.
+func (o *options) writeFigures(files []demoFile) error {
+	if err := os.MkdirAll(o.plot, 0o755); err != nil {
+		return fmt.Errorf("--%s: cannot make %s: %v", flagPlot, o.plot, cause(err))
+	}
+	for _, f := range files {
+		path := filepath.Join(o.plot, f.name)
+		if err := writeAtomic(path, f.data); err != nil {
+			return fmt.Errorf("--%s: cannot write %s: %v", flagPlot, path, cause(err))
+		}
+	}
+	return nil
 }
 
 // count writes n with its noun: "1 figure", "3 figures".

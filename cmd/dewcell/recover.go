@@ -92,7 +92,7 @@ func recoverOptions(c *cli.Context, o *options, st *study.Study) (mbal.RecoverOp
 		}
 	}
 	if pa > 0 && ps[len(ps)-1] > pa {
-		o.note(fmt.Sprintf("the --%s list stops above reservoir.abandonment_pressure; %s is added as the last step", flagPressures, pressureText(o.sys, pa)))
+		o.note(fmt.Sprintf("the --%s list stops above reservoir.abandonment_pressure; %s is added as the last step", flagPressures, pressureNote(o.sys, pa)))
 		ps = append(ps, pa)
 	}
 	ro.Pressures = ps
@@ -152,12 +152,12 @@ func recoverReportAt(o *options, st *study.Study, ro mbal.RecoverOptions, atDew 
 		mobile, immobile = alt, rec
 	}
 	if rec.CriticalP > 0 {
-		msg := fmt.Sprintf("the condensate saturation passes the critical condensate saturation (%.3g, reservoir.critical_condensate_saturation) at %s",
-			sc, pressureText(o.sys, rec.CriticalP))
+		msg := fmt.Sprintf("the condensate saturation passes the critical condensate saturation (%s, reservoir.critical_condensate_saturation) at %s",
+			report.Sig(sc, 3), pressureNote(o.sys, rec.CriticalP))
 		if ro.MobileLiquid {
 			o.note(fmt.Sprintf("%s: below it the condensate flows with the gas in proportion to its mobility (--%s)", msg, flagMobileLiquid))
 		} else {
-			o.warn(msg + fmt.Sprintf(": the condensate could flow below it, which this run leaves in the rock; --%s gives that upper bound", flagMobileLiquid))
+			o.warn(msg + fmt.Sprintf(": the condensate could flow below it, which this run leaves in the rock; recover --%s gives that upper bound", flagMobileLiquid))
 		}
 	}
 	return recoveryReportOf(st, o.sys, res, rec, mobile, immobile, ro, sc, started), nil
@@ -207,7 +207,7 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 		Fields: []Field{
 			{Column: Column{Name: "condensate_model"}, Value: model},
 			{Column: Column{Name: "mobile_liquid"}, Value: ro.MobileLiquid},
-			{Column: Column{Name: "integration"}, Value: integration},
+			{Column: Column{Name: "integration", Verbose: true}, Value: integration},
 			{Column: Column{Name: "started_at_model_dew_point"}, Value: started},
 			{Column: Column{Name: "initial_pressure", Unit: pU}, Value: pU.FromSI(res.Pi)},
 			{Column: Column{Name: "dew_pressure", Unit: pU}, Value: pU.FromSI(d.Dew.P)},
@@ -233,8 +233,8 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 			{Column: Column{Name: "wet_gas_recovery_at_abandonment", Unit: units.Percent}, Value: units.Percent.FromSI(last.WetGasRF)},
 			{Column: Column{Name: "sales_gas_recovery_at_abandonment", Unit: units.Percent}, Value: units.Percent.FromSI(last.SalesGasRF)},
 			{Column: Column{Name: "condensate_recovery_at_abandonment", Unit: units.Percent}, Value: units.Percent.FromSI(last.CondensateRF)},
-			{Column: Column{Name: "condensate_recovery_error", Label: "Condensate recovery, estimated integration error", Unit: units.Percent, Format: report.Fixed(4)}, Value: condErr},
-			{Column: Column{Name: "sales_gas_recovery_error", Label: "Sales gas recovery, estimated integration error", Unit: units.Percent, Format: report.Fixed(4)}, Value: gasErr},
+			{Column: Column{Name: "condensate_recovery_error", Label: "Condensate recovery, estimated integration error", Unit: units.Percent, Symbol: "% points", Format: report.Fixed(4)}, Value: condErr},
+			{Column: Column{Name: "sales_gas_recovery_error", Label: "Sales gas recovery, estimated integration error", Unit: units.Percent, Symbol: "% points", Format: report.Fixed(4)}, Value: gasErr},
 			{Column: Column{Name: "condensate_recovery_at_abandonment_immobile_liquid", Label: "Condensate recovery at abandonment, condensate immobile", Unit: units.Percent}, Value: units.Percent.FromSI(lastI.CondensateRF)},
 			{Column: Column{Name: "condensate_recovery_at_abandonment_mobile_liquid", Label: "Condensate recovery at abandonment, condensate mobile", Unit: units.Percent}, Value: units.Percent.FromSI(lastM.CondensateRF)},
 			{Column: Column{Name: "condensate_left_in_reservoir", Unit: u.liquid}, Value: u.liquid.FromSI(rec.CondensateLeft)},
@@ -258,7 +258,7 @@ func recoveryReportOf(st *study.Study, sys units.System, res mbal.Reservoir, rec
 			{Name: "z_two_phase", Format: report.ZFactor},
 			{Name: "p_over_z", Unit: pU},
 			{Name: "condensate_saturation", Format: report.Saturation},
-			{Name: "condensate_mobile"},
+			{Name: "condensate_mobile", Label: "Above the critical saturation"},
 			{Name: "condensate_flow_share", Label: "Condensate share of the flow", Format: report.Fixed(4)},
 		},
 	}

@@ -326,8 +326,9 @@ func TestEnvelopeTruncatedWarningNamesTheEnd(t *testing.T) {
 		t.Fatal("no points")
 	}
 	last := points[len(points)-1].(map[string]any)
-	want := fmt.Sprintf("the bubble branch ends at %.6g degF and %.6g psia, where it meets a second critical point", last["temperature_degF"], last["pressure_psia"])
-	if !strings.Contains(stderr, want) || strings.Count(stderr, "phase envelope:") != 1 {
+	// The point as the tables write it: 0.1 degF, 1 psia.
+	want := fmt.Sprintf("the bubble branch ends at %.1f degF and %.0f psia, where it meets a second critical point", last["temperature_degF"], last["pressure_psia"])
+	if !strings.Contains(stderr, want) || strings.Count(stderr, "the bubble branch ends") != 1 {
 		t.Errorf("stderr lacks %q in one line:\n%s", want, stderr)
 	}
 	if doc["trace_end"] != "second-critical" {

@@ -1,7 +1,9 @@
 package main
 
 import (
+	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -28,15 +30,32 @@ func TestTablesForPeople(t *testing.T) {
 		cases = append(cases, []string{cmd, exampleStudy})
 	}
 	cases = append(cases, []string{"expand", o9Study}, []string{"deplete", o9Study}, []string{"recover", "testdata/rich-near-critical.toml", "--start-at-dew-point"})
+	dir := t.TempDir()
+	for i, st := range append(studies, "") { // demo on each study, and on its own example
+		args := []string{"demo", "--dir", filepath.Join(dir, strconv.Itoa(i))}
+		if st != "" {
+			args = append(args, st)
+		}
+		cases = append(cases, args)
+	}
 	for _, c := range cases {
 		for _, sys := range []string{"field", "metric"} {
 			args := append(append([]string(nil), c...), "--units", sys)
+			if c[0] == "demo" && sys == "metric" {
+				args[2] += "-metric"
+			}
 			code, out, stderr := dewcell(args...)
 			if code != 0 {
 				t.Errorf("%q: exit %d: %s", args, code, stderr)
 				continue
 			}
 			checkForPeople(t, strings.Join(args, " "), out)
+			// The notes and warnings people read: no e-notation either.
+			for i, l := range strings.Split(stderr, "\n") {
+				if m := scientific.FindString(l); m != "" {
+					t.Errorf("%s: standard error line %d writes %q in e-notation:\n%s", strings.Join(args, " "), i+1, m, l)
+				}
+			}
 		}
 	}
 }

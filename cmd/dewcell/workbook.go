@@ -2,6 +2,7 @@ package main
 
 import (
 	"io"
+	"strings"
 
 	"dewcell/cmd/dewcell/internal/report/workbook"
 )
@@ -11,7 +12,7 @@ import (
 func writeWorkbook(w io.Writer, o *options, reports ...*Report) error {
 	return workbook.Write(w, workbook.Options{
 		Title:      o.title,
-		Caution:    "Caution: " + cautionText + ".",
+		Caution:    strings.Join(cautions, " "),
 		Command:    o.command,
 		UnitSystem: o.sys.String(),
 		Verbose:    o.verbose,

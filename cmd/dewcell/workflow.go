@@ -212,9 +212,10 @@ func inputsReport(st *study.Study, sys units.System) *Report {
 	}
 	if len(st.History) > 0 {
 		gU, lqU := sys.Unit(units.GasVolume), sys.Unit(units.LiquidVolume)
+		asGiven := report.Format{Scaled: true, Digits: 6} // the digits a production report gives
 		h := Table{Name: "history", Title: "production history ([[history]])",
-			Columns: []Column{{Name: "row"}, {Name: "pressure", Unit: pU}, {Name: "cum_sales_gas", Unit: gU},
-				{Name: "cum_condensate", Unit: lqU}, {Name: "cum_water", Unit: lqU}}}
+			Columns: []Column{{Name: "row"}, {Name: "pressure", Unit: pU}, {Name: "cum_sales_gas", Unit: gU, Format: asGiven},
+				{Name: "cum_condensate", Unit: lqU, Format: asGiven}, {Name: "cum_water", Unit: lqU, Format: asGiven}}}
 		for _, row := range st.History {
 			h.Rows = append(h.Rows, []any{row.Label, pU.FromSI(row.Pressure), gU.FromSI(row.SalesGas), lqU.FromSI(row.Condensate), lqU.FromSI(row.Water)})
 		}

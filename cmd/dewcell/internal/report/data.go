@@ -19,25 +19,30 @@ import (
 // any input or model supports.
 const MachineDigits = 14
 
-// SummaryPart is the name of the CSV part that holds the summary, unless a
-// table has that name; then it is SummaryPart + "_fields".
+// Rounded is x to MachineDigits significant digits, as CSV and JSON write
+// it: what a workbook stores.
+func Rounded(x float64) float64 {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return x
+	}
+	r, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'g', MachineDigits, 64), 64)
+	return r
+}
+
+// SummaryPart is the name of the CSV part that holds the summary; no
+// table's part name may be the same (Table.Part).
 const SummaryPart = "summary"
 
 // summaryPart is the name of r's summary part.
-func (r *Report) summaryPart() string {
-	if r.Table(SummaryPart) != nil {
-		return SummaryPart + "_fields"
-	}
-	return SummaryPart
-}
+func (r *Report) summaryPart() string { return SummaryPart }
 
 // Parts lists the names of the CSV parts of r: each table, the summary
 // when r has fields or compositions (first when r has no table), then the
 // matrix. The first is the one CSV writes by default.
 func (r *Report) Parts() []string {
 	var p []string
-	for _, t := range r.Tables {
-		p = append(p, t.Name)
+	for i := range r.Tables {
+		p = append(p, r.Tables[i].PartName())
 	}
 	if len(r.Fields) > 0 || len(r.Vectors) > 0 {
 		if len(r.Tables) == 0 {

@@ -17,13 +17,16 @@ type Format struct {
 	// Decimals is the number of decimals of ordinary values.
 	Decimals int
 	// MinDigits, when above zero, adds decimals, up to MaxDecimals, until
-	// the column's smallest non-zero magnitude shows that many significant
-	// digits (14.696 psia is "14.7", not "15").
+	// the column's largest magnitude shows that many significant digits
+	// (a stock tank's 14.696 psia is "14.7", not "15"; in a column that
+	// also holds 1050 psia it is "15", the column's decimals being one).
 	MinDigits   int
 	MaxDecimals int
 	// Scaled shows the column in the multiple of its unit (Multiples) that
-	// suits its largest magnitude, with four significant digits there.
+	// suits its largest magnitude, with Digits significant digits there
+	// (four when Digits is 0).
 	Scaled bool
+	Digits int
 	// Scientific is for solver diagnostics (residuals), which are not
 	// ordinary magnitudes: three significant digits in e-notation.
 	Scientific bool
@@ -110,37 +113,43 @@ type Shown struct {
 	Factor   float64
 	Decimals int
 	sci      bool
+	group    bool // thousands separators: the column reaches five digits
 }
 
 // ShowColumn decides how the column c with the cells values is written.
 func ShowColumn(c Column, values []any) Shown {
 	f := c.NumberFormat()
 	s := Shown{Unit: c.Unit, Factor: 1, Decimals: f.Decimals, sci: f.Scientific}
-	lo, hi := math.Inf(1), 0.0
+	hi := 0.0
 	for _, v := range values {
 		x, ok := v.(float64)
 		if !ok || math.IsNaN(x) || math.IsInf(x, 0) {
 			continue
 		}
-		if a := math.Abs(x); a > 0 {
-			lo, hi = math.Min(lo, a), math.Max(hi, a)
-		}
+		hi = math.Max(hi, math.Abs(x))
 	}
 	if f.Scaled {
 		m, factor := multiple(c.Unit, hi)
 		s.Unit, s.Factor = m, factor
 		hi *= factor
-		lo *= factor
+		digits := f.Digits
+		if digits == 0 {
+			digits = 4
+		}
 		s.Decimals = 0 // nothing but zeros
 		if hi > 0 {
-			s.Decimals = clamp(3-int(math.Floor(math.Log10(hi))), 0, 3)
+			s.Decimals = clamp(digits-1-int(math.Floor(math.Log10(hi))), 0, digits-1)
 		}
 	}
-	if f.MinDigits > 0 && !math.IsInf(lo, 0) {
-		need := f.MinDigits - 1 - int(math.Floor(math.Log10(lo)))
+	if f.MinDigits > 0 && hi > 0 {
+		need := f.MinDigits - 1 - int(math.Floor(math.Log10(hi)))
 		s.Decimals = clamp(need, f.Decimals, f.MaxDecimals)
 	}
+	s.group = hi >= 9999.5 // hi is in the multiple shown
 	s.Symbol = displaySymbol(s.Unit.Symbol)
+	if c.Symbol != "" {
+		s.Symbol = c.Symbol
+	}
 	return s
 }
 
@@ -161,7 +170,10 @@ func (s Shown) Text(v any) string {
 	case string:
 		return x
 	case int:
-		return group(strconv.Itoa(x))
+		if x <= -10000 || x >= 10000 {
+			return group(strconv.Itoa(x))
+		}
+		return strconv.Itoa(x)
 	case float64:
 		if math.IsNaN(x) {
 			return "-"
@@ -183,7 +195,10 @@ func (s Shown) Text(v any) string {
 		if strings.Trim(t, "-0.") == "" {
 			t = strings.TrimPrefix(t, "-") // no "-0.00"
 		}
-		return group(t)
+		if s.group {
+			return group(t)
+		}
+		return t
 	}
 	return "?"
 }
@@ -196,15 +211,16 @@ func (s Shown) Value(x float64) float64 {
 	return x * s.Factor
 }
 
-// group puts thousands separators into a decimal number of five or more
-// integer digits: 12,345.6, but 4579.
+// group puts thousands separators into a decimal number of four or more
+// integer digits (12,345.6 and 4,579), for the columns that reach five
+// digits; a column that does not writes 4579.
 func group(t string) string {
 	sign := ""
 	if strings.HasPrefix(t, "-") {
 		sign, t = "-", t[1:]
 	}
 	intPart, frac, hasFrac := strings.Cut(t, ".")
-	if len(intPart) < 5 || strings.ContainsAny(intPart, "eE") {
+	if len(intPart) < 4 || strings.ContainsAny(intPart, "eE") {
 		return sign + t
 	}
 	var b strings.Builder
@@ -266,4 +282,33 @@ func Quantity(v float64, u units.Unit) string {
 		return s.Text(v)
 	}
 	return s.Text(v) + " " + s.Symbol
+}
+
+// Sig writes x with n significant digits in plain decimals, never in
+// e-notation, for the numbers of a sentence (a slope, a share); zero is
+// "0".
+func Sig(x float64, n int) string {
+	if x == 0 || math.IsNaN(x) || math.IsInf(x, 0) {
+		return strconv.FormatFloat(x, 'f', 0, 64)
+	}
+	d := n - 1 - int(math.Floor(math.Log10(math.Abs(x))))
+	return trimZeros(strconv.FormatFloat(x, 'f', max(0, d), 64))
+}
+
+// trimZeros drops the trailing zeros of a decimal fraction: "0.650" is
+// "0.65", "4.0" is "4".
+func trimZeros(t string) string {
+	if !strings.Contains(t, ".") {
+		return t
+	}
+	return strings.TrimSuffix(strings.TrimRight(t, "0"), ".")
+}
+
+// PValue writes a p-value for a sentence to three decimals: "p = 0.65", or
+// "p < 0.001" below the smallest that they tell apart.
+func PValue(p float64) string {
+	if p < 0.001 {
+		return "p < 0.001"
+	}
+	return "p = " + trimZeros(strconv.FormatFloat(p, 'f', 3, 64))
 }

@@ -32,6 +32,9 @@ type Column struct {
 	// Format says how people read the numbers; the zero Format takes the
 	// unit's (FormatOf).
 	Format Format
+	// Symbol, when set, is the unit as people read it instead of the
+	// unit's own ("% points" for a difference of percentages held in %).
+	Symbol string
 	// Verbose marks a solver diagnostic (iterations, residuals): kept in
 	// JSON and CSV, shown to people only when they ask (--verbose).
 	Verbose bool
@@ -84,8 +87,13 @@ type Vector struct {
 // float64; nil or NaN for a missing value). JSON gives it as an array of
 // row objects.
 type Table struct {
-	Name    string // JSON key and CSV name, e.g. "steps"
-	Title   string // heading for people
+	Name  string // JSON key, e.g. "steps"
+	Title string // heading for people
+	// Part is the table's name as a CSV part (--table) and a file or sheet
+	// name, when its JSON key would not serve: the envelope's "summary"
+	// table is the part "extremes", so that "summary" stays the summary.
+	// Empty, it is Name.
+	Part    string
 	Columns []Column
 	Rows    [][]any
 	// Detail marks a table that a summary view (demo's standard output)
@@ -205,10 +213,18 @@ func (r *Report) Warn(msgs ...string) { r.Warnings = append(r.Warnings, msgs...)
 // Note adds notes to r.
 func (r *Report) Note(msgs ...string) { r.Notes = append(r.Notes, msgs...) }
 
-// Table returns the table named name, or nil.
+// PartName is the table's name as a CSV part: Part, or else Name.
+func (t *Table) PartName() string {
+	if t.Part != "" {
+		return t.Part
+	}
+	return t.Name
+}
+
+// Table returns the table whose part name is name, or nil.
 func (r *Report) Table(name string) *Table {
 	for i := range r.Tables {
-		if r.Tables[i].Name == name {
+		if r.Tables[i].PartName() == name {
 			return &r.Tables[i]
 		}
 	}

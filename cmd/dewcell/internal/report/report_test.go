@@ -43,6 +43,7 @@ func TestShown(t *testing.T) {
 		{"z", Column{Format: ZFactor}, []any{0.94461}, 0.94461, "0.9446", "", "Z to 4 decimals"},  // common practice, no published source
 		{"thousands", Column{Unit: units.AcreFoot}, []any{195300.0}, 195300.0, "195,300", "acre-ft", "thousands separators"},
 		{"below 10000 no separator", Column{Unit: units.ScfPerSTB}, []any{7125.38}, 7125.38, "7125", "scf/STB", "four digits read without one"},
+		{"a column that reaches five digits", Column{Unit: units.ScfPerSTB}, []any{305342.0, -4178.0}, -4178.0, "-4,178", "scf/STB", "every cell of the column alike"},
 		{"negative zero", Column{Format: Fixed(2)}, []any{-0.001}, -0.001, "0.00", "", "no -0.00"},
 		{"missing", Column{Unit: units.Psia}, []any{nil}, nil, "-", "psia", "a dash"},
 		{"nan", Column{Unit: units.Psia}, []any{math.NaN()}, math.NaN(), "-", "psia", "a dash"},
@@ -53,6 +54,22 @@ func TestShown(t *testing.T) {
 		s := ShowColumn(c.col, c.values)
 		if got := s.Text(c.cell); got != c.text || s.Symbol != c.unit {
 			t.Errorf("%s: %q [%s], want %q [%s] (%s)", c.name, got, s.Symbol, c.text, c.unit, c.source)
+		}
+	}
+}
+
+// TestSentenceNumbers: numbers in the sentences of notes and warnings are
+// never in e-notation (the rule for what people read).
+func TestSentenceNumbers(t *testing.T) {
+	for _, c := range []struct {
+		got, want string
+	}{
+		{Sig(-0.0122, 3), "-0.0122"}, {Sig(0.31, 3), "0.31"}, {Sig(5e-5, 2), "0.00005"}, {Sig(1234.6, 3), "1235"}, {Sig(0, 3), "0"},
+		{PValue(0.648), "p = 0.648"}, {PValue(0.65), "p = 0.65"}, {PValue(2.2e-9), "p < 0.001"},
+		{Quantity(3823.3, units.Psia), "3823 psia"}, {Quantity(-87.3959, units.DegF), "-87.4 degF"}, {Quantity(85042.3, units.MMscf), "85.04 Bscf"},
+	} {
+		if c.got != c.want {
+			t.Errorf("%q, want %q", c.got, c.want)
 		}
 	}
 }
@@ -187,10 +204,16 @@ func TestCSVParts(t *testing.T) {
 	if err := WriteCSV(&bytes.Buffer{}, r, "nonesuch"); err == nil || !strings.Contains(err.Error(), "steps, summary, kij") {
 		t.Errorf("a wrong part: %v, want the list of parts", err)
 	}
-	// A table called summary moves the fields to summary_fields.
-	r.Tables = append(r.Tables, Table{Name: SummaryPart, Columns: []Column{{Name: "x"}}, Rows: [][]any{{1.0}}})
-	if got := strings.Join(r.Parts(), ","); got != "steps,summary,summary_fields,kij" {
+	// A table whose JSON key is summary takes another part name.
+	r.Tables = append(r.Tables, Table{Name: SummaryPart, Part: "extremes", Columns: []Column{{Name: "x"}}, Rows: [][]any{{1.0}}})
+	if got := strings.Join(r.Parts(), ","); got != "steps,extremes,summary,kij" {
 		t.Errorf("parts %s", got)
+	}
+	if recs := read("extremes"); len(recs) != 2 || recs[0][0] != "x" {
+		t.Errorf("the part extremes: %q", recs)
+	}
+	if recs := read(SummaryPart); recs[0][0] != "dew_pressure_psia" {
+		t.Errorf("the summary part, beside a table named summary: %q", recs)
 	}
 }
 

@@ -60,21 +60,21 @@ func Write(w io.Writer, opt Options, reports ...*report.Report) error {
 		}
 		p.Summary = summaryOf(r)
 		if t := report.CompositionTable(r.Vectors); t != nil {
-			p.Vectors = tableOf(t)
+			p.Tables = append(p.Tables, split(tableOf(t))...)
 		}
 		for ti := range r.Tables {
 			t := &r.Tables[ti]
 			tv := tableOf(t)
 			if t.Detail {
 				tv.ID = fmt.Sprintf("%s-detail-%d", p.ID, ti+1)
-				doc.Details = append(doc.Details, detail{Part: p.Title, PartID: p.ID, Table: tv})
+				doc.Details = append(doc.Details, detail{Part: p.Title, PartID: p.ID, Tables: split(tv)})
 				p.DetailRefs = append(p.DetailRefs, tv)
 				continue
 			}
-			p.Tables = append(p.Tables, tv)
+			p.Tables = append(p.Tables, split(tv)...)
 		}
 		if r.Matrix != nil {
-			p.Tables = append(p.Tables, tableOf(r.Matrix.AsTable()))
+			p.Tables = append(p.Tables, split(tableOf(r.Matrix.AsTable()))...)
 		}
 		for _, f := range r.Figures {
 			svg, err := figure.InlineSVG(f)
@@ -109,7 +109,6 @@ type part struct {
 	ID, Title  string
 	Subtitle   string
 	Summary    []row
-	Vectors    *table
 	Tables     []*table
 	DetailRefs []*table
 	Figures    []fig
@@ -158,7 +157,7 @@ type fig struct {
 
 type detail struct {
 	Part, PartID string
-	Table        *table
+	Tables       []*table // one table, split to fit the page
 }
 
 type warning struct {
@@ -197,6 +196,74 @@ func numeric(v any) bool {
 		return true
 	}
 	return false
+}
+
+// pageChars is the width a table may take, in characters of its text: an
+// A4 page between margins at the print size of the tables (7.5 pt), and a
+// screen of about 1100 pixels.
+const pageChars = 110
+
+// cellPad is what a cell's padding and rule take, in characters.
+const cellPad = 2
+
+// split cuts tv into tables no wider than pageChars, each repeating its
+// first column; the later ones are titled as continued.
+func split(tv *table) []*table {
+	n := len(tv.Head)
+	if n == 0 {
+		return []*table{tv}
+	}
+	w := make([]int, n)
+	for j, h := range tv.Head {
+		for _, word := range strings.Fields(h.Label) { // headers wrap at spaces
+			w[j] = max(w[j], len([]rune(word)))
+		}
+		w[j] = max(w[j], len([]rune(string(h.Unit)))-9) // "10<sup>6</sup>" reads as 4
+	}
+	for _, r := range tv.Rows {
+		for j, c := range r {
+			if j < n {
+				w[j] = max(w[j], len([]rune(c.Text)))
+			}
+		}
+	}
+	var sections [][]int
+	var cur []int
+	used := w[0] + cellPad
+	for j := 1; j < n; j++ {
+		if len(cur) > 0 && used+w[j]+cellPad > pageChars {
+			sections = append(sections, cur)
+			cur, used = nil, w[0]+cellPad
+		}
+		cur = append(cur, j)
+		used += w[j] + cellPad
+	}
+	if len(sections) == 0 {
+		return []*table{tv}
+	}
+	sections = append(sections, cur)
+	out := make([]*table, len(sections))
+	for k, sec := range sections {
+		cols := append([]int{0}, sec...)
+		part := &table{Title: tv.Title}
+		if k == 0 {
+			part.ID = tv.ID
+		} else {
+			part.Title = tv.Title + " (continued)"
+		}
+		for _, j := range cols {
+			part.Head = append(part.Head, tv.Head[j])
+		}
+		for _, r := range tv.Rows {
+			var cells []cellView
+			for _, j := range cols {
+				cells = append(cells, r[j])
+			}
+			part.Rows = append(part.Rows, cells)
+		}
+		out[k] = part
+	}
+	return out
 }
 
 func tableOf(t *report.Table) *table {

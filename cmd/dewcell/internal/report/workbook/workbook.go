@@ -214,7 +214,7 @@ func (b *book) report(r *report.Report, prefix string) error {
 			rows = count(len(t.Rows), "row", "rows")
 		}
 		holds := fmt.Sprintf("%s: %s, %s", rt, title, rows)
-		if err := b.sheet(b.name(prefix, t.Name), title, holds, cols); err != nil {
+		if err := b.sheet(b.name(prefix, t.PartName()), title, holds, cols); err != nil {
 			return err
 		}
 	}
@@ -587,6 +587,9 @@ func (b *book) set(sheet string, col, row int, c cell, st style) error {
 		if x == 0 {
 			x = 0 // no negative zero
 		}
+		// Stored to MachineDigits, as CSV and JSON write it, without the
+		// round-off of unit conversions (248.00000000000006 °F is 248).
+		x = report.Rounded(x)
 		if err := b.f.SetCellFloat(sheet, ref, x, fixedDigits(x), 64); err != nil {
 			return err
 		}
