@@ -99,8 +99,10 @@ type fileDepletion struct {
 }
 
 type fileLab struct {
-	CCE value `toml:"cce"`
-	CVD value `toml:"cvd"`
+	Temperature        value `toml:"temperature"`
+	SaturationPressure value `toml:"saturation_pressure"`
+	CCE                value `toml:"cce"`
+	CVD                value `toml:"cvd"`
 }
 
 type fileStandard struct {

@@ -12,6 +12,7 @@ import (
 	"github.com/BurntSushi/toml"
 
 	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/cvd"
 	"dewcell/eos"
 )
 
@@ -92,6 +93,9 @@ type Stage struct {
 // directory of the study file; empty when not given.
 type Lab struct {
 	CCE, CVD string
+	// Report is the laboratory report the section describes, read from its
+	// keys and tables, in SI; nil when the study has no [lab].
+	Report *cvd.LabReport
 }
 
 // Error is a problem with a study file: the file, the key and what is wrong.
