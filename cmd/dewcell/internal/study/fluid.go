@@ -75,7 +75,10 @@ func (r *reader) fluid(s *Study, f *fileFluid, md toml.MetaData) {
 		return
 	}
 	plus := r.plus(f, specs)
-	r.properties(f, specs, tableOrder(md, "fluid", "properties"))
+	if r.adj != nil && r.adj.plusM > 0 {
+		plus.p.M = r.adj.plusM
+	}
+	pseudoNames := r.properties(f, specs, tableOrder(md, "fluid", "properties"))
 	if r.err != nil {
 		return
 	}
@@ -107,6 +110,16 @@ func (r *reader) fluid(s *Study, f *fileFluid, md toml.MetaData) {
 		sp.count = 1
 	}
 	normalise(z)
+	r.pseudoProperties(f, specs, comps, pseudoNames)
+	if r.err != nil {
+		return
+	}
+	groups := componentGroups(specs, comps)
+	if r.adj != nil {
+		if r.err = r.adj.properties(r.file, groups, comps); r.err != nil {
+			return
+		}
+	}
 
 	// Default coefficients from the canonical names, then the names of the file.
 	n := len(comps)
@@ -120,9 +133,14 @@ func (r *reader) fluid(s *Study, f *fileFluid, md toml.MetaData) {
 			comps[sp.first].Name = sp.name
 		}
 	}
-	r.interaction(f, specs, comps, kij, tableOrder(md, "fluid", "interaction"))
+	r.interaction(f, groups, comps, kij, tableOrder(md, "fluid", "interaction"))
 	if r.err != nil {
 		return
+	}
+	if r.adj != nil {
+		if r.err = r.adj.interactions(r.file, groups, comps, kij); r.err != nil {
+			return
+		}
 	}
 	fl, err := eos.NewFluid(comps, kij, opt)
 	if err != nil {
@@ -131,6 +149,27 @@ func (r *reader) fluid(s *Study, f *fileFluid, md toml.MetaData) {
 	}
 	s.Fluid, s.Z = fl, z
 	s.Estimates = r.estimates(specs, plus, n, opt)
+	s.groups = groups
+	s.plusName = plus.p.Name
+	s.plusM = plus.p.M
+}
+
+// componentGroups maps each name of the file or of the fluid to the
+// components it stands for: a component's own name to itself, the plus
+// fraction's name to all its pseudo-components.
+func componentGroups(specs []spec, comps []eos.Component) map[string][]int {
+	groups := map[string][]int{}
+	for i, c := range comps {
+		groups[c.Name] = []int{i}
+	}
+	for _, sp := range specs {
+		g := make([]int, sp.count)
+		for j := range g {
+			g[j] = sp.first + j
+		}
+		groups[sp.name] = g
+	}
+	return groups
 }
 
 // estimates says, per component, how the properties the file does not give
@@ -391,22 +430,23 @@ func (r *reader) plus(f *fileFluid, specs []spec) plusSpec {
 }
 
 // properties reads [fluid.properties.NAME] into the specs: library
-// components with overrides, user components in full.
-func (r *reader) properties(f *fileFluid, specs []spec, order []string) {
+// components with overrides, user components in full. It returns the names
+// that are not in the composition, which pseudoProperties looks for among
+// the pseudo-components of the plus fraction.
+func (r *reader) properties(f *fileFluid, specs []spec, order []string) (pseudo []string) {
 	for _, name := range order {
 		inComp := false
 		for _, sp := range specs {
 			if sp.name == name {
 				inComp = true
 				if sp.plus {
-					r.failf(key("fluid", "properties", name), "%s is the plus fraction; describe it in [fluid.plus]", name)
+					r.failf(key("fluid", "properties", name), "%s is the plus fraction; describe it in [fluid.plus], or name one of its pseudo-components", name)
 					return
 				}
 			}
 		}
 		if !inComp {
-			r.failf(key("fluid", "properties", name), "%s is not in fluid.composition", name)
-			return
+			pseudo = append(pseudo, name)
 		}
 	}
 	for i := range specs {
@@ -429,67 +469,99 @@ func (r *reader) properties(f *fileFluid, specs []spec, order []string) {
 		if !isLib {
 			c = eos.Component{Name: sp.name}
 		}
-		k := func(field string) string { return key("fluid", "properties", sp.name, field) }
-		need := !isLib // a user component needs the four properties of the equation of state
-		if v, ok := r.between(k("molar_mass"), fp.MolarMass, "a molar mass in g/mol", need, 0, maxMolarMass, true, false); ok {
-			c.M = v / 1000
-		}
-		if v, ok := r.quantity(k("critical_temperature"), fp.CriticalTemperature, units.Temperature, need); ok {
-			if v > maxTc {
-				r.failf(k("critical_temperature"), "%.6g K is out of range; want at most %g K", v, maxTc)
-			}
-			c.Tc = v
-		}
-		if v, ok := r.quantity(k("critical_pressure"), fp.CriticalPressure, units.Pressure, need); ok {
-			if v <= 0 || v > maxPc {
-				r.failf(k("critical_pressure"), "%.6g Pa is out of range; want above 0 and at most %g MPa", v, maxPc/1e6)
-			}
-			c.Pc = v
-		}
-		if v, ok := r.between(k("acentric_factor"), fp.AcentricFactor, "an acentric factor", need, -1, 3, true, true); ok {
-			c.Omega = v
-		}
-		if v, ok := r.between(k("volume_shift"), fp.VolumeShift, "a dimensionless Peneloux shift s = c/b", false, -1, 1, true, true); ok {
-			c.Shift = v
-		} else if !isLib {
-			sp.noShift = true
-		}
-		if v, ok := r.quantity(k("critical_volume"), fp.CriticalVolume, units.MolarVolume, false); ok {
-			if v <= 0 {
-				r.failf(k("critical_volume"), "must be above zero")
-			}
-			c.Vc = v
-		} else if !isLib {
-			sp.noVc = true
-		}
-		if v, ok := r.quantity(k("boiling_point"), fp.BoilingPoint, units.Temperature, false); ok {
-			c.Tb = v
-		}
-		if v, ok := r.between(k("specific_gravity"), fp.SpecificGravity, "a specific gravity (60/60 degF)", false, 0, 3, true, false); ok {
-			c.SG = v
+		noShift, noVc := r.componentProperties(sp.name, fp, &c, !isLib) // a user component needs the four properties of the equation of state
+		if !isLib {
+			sp.noShift, sp.noVc = noShift, noVc
 		}
 		if r.err != nil {
 			return
 		}
 		sp.comp = c
 	}
+	return pseudo
+}
+
+// componentProperties reads the properties fp gives of component name into
+// c; need says the four properties of the equation of state are required.
+// It says whether the volume shift and the critical volume were left out.
+func (r *reader) componentProperties(name string, fp *fileProps, c *eos.Component, need bool) (noShift, noVc bool) {
+	k := func(field string) string { return key("fluid", "properties", name, field) }
+	if v, ok := r.between(k("molar_mass"), fp.MolarMass, "a molar mass in g/mol", need, 0, maxMolarMass, true, false); ok {
+		c.M = v / 1000
+	}
+	if v, ok := r.quantity(k("critical_temperature"), fp.CriticalTemperature, units.Temperature, need); ok {
+		if v > maxTc {
+			r.failf(k("critical_temperature"), "%.6g K is out of range; want at most %g K", v, maxTc)
+		}
+		c.Tc = v
+	}
+	if v, ok := r.quantity(k("critical_pressure"), fp.CriticalPressure, units.Pressure, need); ok {
+		if v <= 0 || v > maxPc {
+			r.failf(k("critical_pressure"), "%.6g Pa is out of range; want above 0 and at most %g MPa", v, maxPc/1e6)
+		}
+		c.Pc = v
+	}
+	if v, ok := r.between(k("acentric_factor"), fp.AcentricFactor, "an acentric factor", need, -1, 3, true, true); ok {
+		c.Omega = v
+	}
+	if v, ok := r.between(k("volume_shift"), fp.VolumeShift, "a dimensionless Peneloux shift s = c/b", false, -1, 1, true, true); ok {
+		c.Shift = v
+	} else {
+		noShift = true
+	}
+	if v, ok := r.quantity(k("critical_volume"), fp.CriticalVolume, units.MolarVolume, false); ok {
+		if v <= 0 {
+			r.failf(k("critical_volume"), "must be above zero")
+		}
+		c.Vc = v
+	} else {
+		noVc = true
+	}
+	if v, ok := r.quantity(k("boiling_point"), fp.BoilingPoint, units.Temperature, false); ok {
+		c.Tb = v
+	}
+	if v, ok := r.between(k("specific_gravity"), fp.SpecificGravity, "a specific gravity (60/60 degF)", false, 0, 3, true, false); ok {
+		c.SG = v
+	}
+	return noShift, noVc
+}
+
+// pseudoProperties applies [fluid.properties.NAME] of the names that are
+// not in the composition to the pseudo-components of the plus fraction
+// that fluid prints under those names: overrides of the split's properties.
+func (r *reader) pseudoProperties(f *fileFluid, specs []spec, comps []eos.Component, names []string) {
+	for _, name := range names {
+		found := -1
+		var pseudo []string
+		for _, sp := range specs {
+			if !sp.plus {
+				continue
+			}
+			for j := sp.first; j < sp.first+sp.count; j++ {
+				pseudo = append(pseudo, comps[j].Name)
+				if comps[j].Name == name {
+					found = j
+				}
+			}
+		}
+		if found < 0 {
+			if len(pseudo) == 0 {
+				r.failf(key("fluid", "properties", name), "%s is not in fluid.composition", name)
+			} else {
+				r.failf(key("fluid", "properties", name), "%s is not in fluid.composition, nor a pseudo-component of the plus fraction (%s)", name, strings.Join(pseudo, ", "))
+			}
+			return
+		}
+		r.componentProperties(name, f.Properties[name], &comps[found], false)
+		if r.err != nil {
+			return
+		}
+	}
 }
 
 // interaction applies [fluid.interaction] to kij, n×n for comps.
-func (r *reader) interaction(f *fileFluid, specs []spec, comps []eos.Component, kij []float64, order []string) {
+func (r *reader) interaction(f *fileFluid, groups map[string][]int, comps []eos.Component, kij []float64, order []string) {
 	n := len(comps)
-	// Each name of the file or of the fluid stands for some components.
-	groups := map[string][]int{}
-	for i, c := range comps {
-		groups[c.Name] = []int{i}
-	}
-	for _, sp := range specs {
-		g := make([]int, sp.count)
-		for j := range g {
-			g[j] = sp.first + j
-		}
-		groups[sp.name] = g
-	}
 	setBy := make(map[[2]int]string)
 	for _, pair := range order {
 		k := key("fluid", "interaction", pair)

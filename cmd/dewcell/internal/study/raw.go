@@ -26,6 +26,20 @@ type fileStudy struct {
 	Surface   *fileSurface   `toml:"surface"`
 	History   []fileHistory  `toml:"history"`
 	RelPerm   *fileRelPerm   `toml:"relative_permeability"`
+	Tune      *fileTune      `toml:"tune"`
+}
+
+type fileTune struct {
+	Parameter []fileTuneParameter `toml:"parameter"`
+	Weights   map[string]value    `toml:"weights"`
+}
+
+type fileTuneParameter struct {
+	Property  value `toml:"property"`
+	Component value `toml:"component"`
+	Pair      value `toml:"pair"`
+	Min       value `toml:"min"`
+	Max       value `toml:"max"`
 }
 
 type fileRelPerm struct {
@@ -153,6 +167,7 @@ type reader struct {
 	err      error
 	atm      float64 // Pa, for gauge pressures
 	warnings []string
+	adj      *adjustment // tuned values applied while the fluid is built; nil when reading the file
 }
 
 func (r *reader) failf(k, format string, args ...any) {

@@ -48,8 +48,20 @@ type Study struct {
 	// pressures (1 atm unless the study sets one).
 	Atmospheric float64
 
+	// Tune holds [[tune.parameter]] and [tune.weights]; nil when not given.
+	Tune *Tune
+
 	standard    units.Conditions
 	standardSet [2]bool // temperature, pressure given
+
+	// What rebuilding the fluid with tuned values needs (Tuned): the
+	// [fluid] section as decoded, the file's key order, the names that
+	// stand for components and the plus fraction's name and molar mass.
+	raw      *fileFluid
+	md       toml.MetaData
+	groups   map[string][]int
+	plusName string
+	plusM    float64 // kg/mol
 
 	// Warnings are remarks on accepted input (a composition normalised, ...).
 	Warnings []string
@@ -233,6 +245,8 @@ func Parse(name string, data []byte) (*Study, error) {
 	r.surface(s, f.Surface)
 	r.history(s, f.History)
 	r.relPerm(s, f.RelPerm)
+	s.raw, s.md = f.Fluid, md
+	r.tune(s, f.Tune)
 	if r.err != nil {
 		return nil, r.err
 	}
