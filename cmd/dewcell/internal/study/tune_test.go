@@ -155,7 +155,7 @@ func TestTuneErrors(t *testing.T) {
 		{param(`property = "interaction"` + "\npair = \"C1/C1\"\nmin = 0\nmax = 0.1"), "does not interact with itself"},
 		{param(`property = "interaction"` + "\npair = \"C1/C7+\"\nmin = 0.07\nmax = 0.1"), "lies outside"},
 		{param(`property = "interaction"` + "\ncomponent = \"C1\"\nmin = 0\nmax = 0.1"), "names a pair"},
-		{param(`property = "critical_temperature"` + "\ncomponent = \"C7+\"\nmin = 0.9\nmax = 1.1") +
+		{param(`property = "critical_temperature"`+"\ncomponent = \"C7+\"\nmin = 0.9\nmax = 1.1") +
 			"\n[[tune.parameter]]\nproperty = \"critical_temperature\"\ncomponent = \"" + pseudo + "\"\nmin = 0.9\nmax = 1.1\n", "overlaps"},
 		{param(`property = "molar_mass"`+"\ncomponent = \"C7+\"\nmin = 0.9\nmax = 1.1") +
 			"\n[[tune.parameter]]\nproperty = \"acentric_factor\"\ncomponent = \"" + pseudo + "\"\nmin = 0.9\nmax = 1.1\n", "re-splits"},
