@@ -141,6 +141,7 @@ func newApp(stdout, stderr io.Writer) *cli.App {
 			inplaceCommand(),
 			recoverCommand(),
 			historyCommand(),
+			compareCommand(),
 			reportCommand(),
 			demoCommand(),
 		},

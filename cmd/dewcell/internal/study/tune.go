@@ -433,3 +433,12 @@ func (s *Study) tuneCount() int {
 	}
 	return len(s.Tune.Parameters)
 }
+
+// PlusMolarMass is the molar mass of the plus fraction as the study gives
+// it, kg/mol; 0 without one.
+func (s *Study) PlusMolarMass() float64 { return s.plusM }
+
+// Components lists the indices, in the fluid, of the components name stands
+// for: a component or pseudo-component itself, or every pseudo-component
+// of the plus fraction; nil for an unknown name.
+func (s *Study) Components(name string) []int { return append([]int(nil), s.groups[name]...) }
