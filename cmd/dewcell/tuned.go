@@ -33,8 +33,8 @@ type tomlSetting struct {
 
 // tunedStudyText returns the text of the tuned study, saved at path, for
 // the study st read from src with the tuned values x; fl and z are the tuned
-// fluid (st.Tuned(x)), header the comment lines that head the file.
-func tunedStudyText(st *study.Study, src []byte, path string, x []float64, fl *eos.Fluid, header []string) ([]byte, error) {
+// fluid and feed (st.Tuned(x)), header the comment lines that head the file.
+func tunedStudyText(st *study.Study, src []byte, path string, x []float64, fl *eos.Fluid, z []float64, header []string) ([]byte, error) {
 	var sets []tomlSetting
 	comps := fl.Components()
 	for i, p := range st.Tune.Parameters {
@@ -82,7 +82,7 @@ func tunedStudyText(st *study.Study, src []byte, path string, x []float64, fl *e
 	if err != nil {
 		return nil, fmt.Errorf("the tuned study does not read back (%v); the file's layout (keys set as dotted keys or inline tables) may hide the tuned values", err)
 	}
-	if err := sameModel(back.Fluid, back.Z, fl, st.Z); err != nil {
+	if err := sameModel(back.Fluid, back.Z, fl, z); err != nil {
 		return nil, fmt.Errorf("the tuned study read back describes another fluid (%v); the file's layout (keys set as dotted keys or inline tables) may hide the tuned values", err)
 	}
 	return []byte(text), nil
