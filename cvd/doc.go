@@ -4,7 +4,9 @@
 // well stream into surface gas and stock-tank condensate. Its depletion
 // cell also serves the reservoir layer: with Adaptive, Deplete integrates
 // the continuous depletion a reservoir goes through, to a tolerance, with an
-// estimate of its discretisation error.
+// estimate of its discretisation error. Regress, the bounded nonlinear
+// least-squares engine that tuning the equation of state runs on, knows
+// nothing of fluids.
 //
 // All quantities are SI: K, Pa, m³, mol, kg. Standard volumes are ideal-gas
 // volumes at the standard conditions of the Train.
@@ -22,4 +24,7 @@
 //     §II.4 (step-size control). (From memory.)
 //   - Brent, R.P. (1973). Algorithms for Minimization without Derivatives.
 //     Prentice-Hall, ch. 5.
+//   - Marquardt, D.W. (1963). An algorithm for least-squares estimation of
+//     nonlinear parameters. J. Soc. Indust. Appl. Math. 11(2), 431–441; with
+//     the damping of Nielsen (1999) and the other sources cited at Regress.
 package cvd
