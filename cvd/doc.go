@@ -4,7 +4,9 @@
 // well stream into surface gas and stock-tank condensate. Its depletion
 // cell also serves the reservoir layer: with Adaptive, Deplete integrates
 // the continuous depletion a reservoir goes through, to a tolerance, with an
-// estimate of its discretisation error.
+// estimate of its discretisation error. It also evaluates laboratory
+// reports: the Whitson–Torp material balance of a depletion
+// (BackCalculate) and the quality check built on it (Check).
 //
 // All quantities are SI: K, Pa, m³, mol, kg. Standard volumes are ideal-gas
 // volumes at the standard conditions of the Train.
@@ -13,6 +15,9 @@
 //
 //   - Whitson, C.H. and Torp, S.B. (1983). Evaluating constant-volume depletion
 //     data. JPT 35(3), 610–620. SPE-10067-PA.
+//   - Hoffman, A.E., Crump, J.S. and Hocott, C.R. (1953). Equilibrium
+//     constants for a gas-condensate system. JPT 5(1), 1–10; Trans. AIME
+//     198 (the characterization factor of Check's K-value plot).
 //   - Whitson, C.H. and Brulé, M.R. (2000). Phase Behavior. SPE Monograph 20,
 //     Richardson, TX (CVD and CCE procedures, separator calculations).
 //   - Lohrenz, J., Bray, B.G. and Clark, C.R. (1964). Calculating viscosities of
