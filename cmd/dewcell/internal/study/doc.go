@@ -65,6 +65,54 @@
 // first row may record no production (the initial state); a row with
 // production lies below reservoir.initial_pressure.
 //
+// The laboratory report, all of it optional but not all of it absent:
+//
+//	[lab]
+//	temperature = "240.8 degF"          # of the experiments; default: reservoir.temperature
+//	saturation_pressure = "4141 psia"   # the measured dew (or bubble) point
+//	cce = "lab/cce.csv"                 # constant-composition expansion; paths relative to the study file
+//	cvd = "lab/cvd.csv"                 # constant-volume depletion
+//
+// The tables are CSV files with one header row: column names,
+// case-insensitive, each with its unit in brackets, then a row per pressure
+// in the order of the report. A blank cell is a value not measured
+// (cvd.Missing); a column whose name starts with "note" is ignored; any other
+// column the table does not know is an error, and so is a quantity given
+// twice. Shares are in [%] or [fraction]; pressures in any unit a study file
+// accepts (gauge units with the study's atmospheric pressure), within the
+// range of a state. The CVD's columns:
+//
+//	pressure [psia]              required; falling, at or below saturation_pressure
+//	liquid_dropout [%]           liquid volume over the cell volume at the saturation pressure, 0 to 100 %
+//	produced [%]                 cumulative moles produced over the moles charged, rising, 0 to 100 %
+//	z_gas, z_two_phase           Z-factors of the equilibrium gas and of the cell contents, above 0
+//	gas_viscosity [cP]           any viscosity unit: cP, mPa.s, uPa.s, Pa.s
+//	cgr [STB/MMscf]              condensate-gas ratio: STB/MMscf, STB/Mscf, sm3/1e6 sm3
+//	gas_NAME [mol%]              produced-gas composition: [mol%], [%] or [fraction]
+//	liquid_NAME [mol%]           the liquid left in the cell, on the last row only
+//
+// NAME is a component of [fluid.composition] (matched without regard to case
+// when only one name matches), or the plus fraction, which stands for all its
+// pseudo-components. A composition whose columns cover every component sums
+// to 100 within 0.5 mol %; one that covers only some may not exceed 100.5.
+// The first row may be the saturation point (liquid_dropout 0, produced 0);
+// without saturation_pressure it must be, and gives it. The CCE's columns:
+//
+//	pressure [psia]                            required, in any order
+//	relative_volume                            V/Vsat, above 0
+//	liquid_volume [% of saturation volume]     or [% of total volume], [fraction of saturation volume],
+//	                                           [fraction of total volume]: 0 to 100 %
+//	z                                          single-phase Z-factor, above 0
+//	density [g/cm3]                            single-phase density: g/cm3, kg/m3, lb/ft3
+//
+// A bad table is reported with the study file and the key, then the table's
+// path, row (from 1 after the header), line and column:
+//
+//	case.toml: lab.cvd: lab/cvd.csv, row 3 (line 4), column 2 "liquid_dropout [%]": 104 % is out of range; ...
+//
+// Read and Parse read the tables from the operating system's files; ParseFS
+// reads the study and its tables from an fs.FS (the demo's embedded example).
+//
 // The [[separator.stage]], [[surface.stage]] and [[history]] tables are
 // numbered from 1 in messages: separator.stage[2].pressure is the second
 // stage's pressure, history[3].date the third row's date.

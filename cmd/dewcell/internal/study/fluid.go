@@ -147,6 +147,7 @@ func (r *reader) fluid(s *Study, f *fileFluid, md toml.MetaData) {
 		r.err = &Error{File: r.file, Key: "fluid", Msg: err.Error(), Err: err}
 		return
 	}
+	s.specs = specs
 	s.Fluid, s.Z = fl, z
 	s.Estimates = r.estimates(specs, plus, n, opt)
 	s.groups = groups

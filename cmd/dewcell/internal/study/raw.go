@@ -2,6 +2,7 @@ package study
 
 import (
 	"fmt"
+	"io/fs"
 	"math"
 	"reflect"
 	"sort"
@@ -163,6 +164,10 @@ func key(pieces ...string) string { return toml.Key(pieces).String() }
 
 // A reader checks values and keeps the first error.
 type reader struct {
+	// fsys holds the laboratory tables the study names, at paths relative
+	// to its root; nil: they are files of the operating system.
+	fsys fs.FS
+
 	file     string
 	err      error
 	atm      float64 // Pa, for gauge pressures

@@ -6,7 +6,6 @@ import (
 	"io"
 	"io/fs"
 	"os"
-	"path/filepath"
 	"strings"
 
 	"github.com/BurntSushi/toml"
@@ -35,6 +34,9 @@ type Study struct {
 	Depletion []float64 // depletion pressures, Pa, falling; nil when not given
 
 	Lab Lab
+	// specs are the entries of [fluid.composition], each with the model
+	// components it became; the laboratory tables name components by them.
+	specs []spec
 
 	// Surface holds the separator data of [surface]; nil when not given.
 	Surface *Surface
@@ -102,7 +104,8 @@ type Stage struct {
 }
 
 // Lab holds the paths of the laboratory tables, resolved against the
-// directory of the study file; empty when not given.
+// directory of the study file (paths of the operating system for Read and
+// Parse, paths within the file system for ParseFS); empty when not given.
 type Lab struct {
 	CCE, CVD string
 	// Report is the laboratory report the section describes, read from its
@@ -191,6 +194,30 @@ func Read(path string) (*Study, error) {
 	return Parse(path, data)
 }
 
+// ParseFS reads and checks the study file name of fsys, as Read does a
+// file of the operating system, and reads the laboratory tables its [lab]
+// names from fsys too: a relative path there is taken from the folder of
+// name within fsys, and an absolute path, or one that leads out of fsys, is
+// an error. Lab.CCE and Lab.CVD are then paths within fsys. A caller with
+// the study in memory (an embedded example) gives its tables this way.
+func ParseFS(fsys fs.FS, name string) (*Study, error) {
+	fail := func(err error) (*Study, error) {
+		return nil, &Error{File: name, Msg: fmt.Sprintf("cannot read the study file: %v", pathCause(err)), Err: err}
+	}
+	fi, err := fs.Stat(fsys, name)
+	if err != nil {
+		return fail(err)
+	}
+	if !fi.Mode().IsRegular() {
+		return nil, &Error{File: name, Msg: fmt.Sprintf("is %s, not a regular file; give the path of a study file (TOML)", FileKind(fi.Mode()))}
+	}
+	data, err := fs.ReadFile(fsys, name)
+	if err != nil {
+		return fail(err)
+	}
+	return parse(fsys, name, data)
+}
+
 // pathCause is the reason of a file-system error without the operation and
 // path it repeats ("no such file or directory" for "open x: no such file
 // or directory").
@@ -222,14 +249,21 @@ func FileKind(m fs.FileMode) string {
 
 // Parse checks the study in data, read from the file called name (which
 // names the file in errors and anchors the relative paths of [lab]), and
-// builds its fluid. The error is an *Error, or wraps one.
+// builds its fluid. The laboratory tables of [lab] are read from the
+// operating system's files. The error is an *Error, or wraps one.
 func Parse(name string, data []byte) (*Study, error) {
+	return parse(nil, name, data)
+}
+
+// parse is Parse with the laboratory tables read from fsys, or from the
+// operating system's files when fsys is nil.
+func parse(fsys fs.FS, name string, data []byte) (*Study, error) {
 	var f fileStudy
 	md, err := toml.Decode(string(data), &f)
 	if err != nil {
 		return nil, decodeError(name, err)
 	}
-	r := &reader{file: name, atm: units.PaPerAtm}
+	r := &reader{file: name, atm: units.PaPerAtm, fsys: fsys}
 	r.checkKeys(md)
 	if r.err != nil {
 		return nil, r.err
@@ -241,7 +275,7 @@ func Parse(name string, data []byte) (*Study, error) {
 	r.fluid(s, f.Fluid, md)
 	r.separator(s, f.Separator)
 	r.depletion(s, f.Depletion)
-	r.lab(s, f.Lab, filepath.Dir(name))
+	r.lab(s, f.Lab)
 	r.surface(s, f.Surface)
 	r.history(s, f.History)
 	r.relPerm(s, f.RelPerm)
@@ -418,33 +452,4 @@ func (r *reader) depletion(s *Study, f *fileDepletion) {
 		}
 		s.Depletion = append(s.Depletion, p)
 	}
-}
-
-func (r *reader) lab(s *Study, f *fileLab, dir string) {
-	if f == nil {
-		return
-	}
-	path := func(k string, v value) string {
-		p := r.text(k, v, false)
-		if !v.set || r.err != nil {
-			return ""
-		}
-		if p == "" {
-			r.failf(k, "empty path")
-			return ""
-		}
-		if !filepath.IsAbs(p) {
-			p = filepath.Join(dir, p)
-		}
-		fi, err := os.Stat(p)
-		switch {
-		case err != nil:
-			r.failf(k, "cannot use %s: %v", p, pathCause(err))
-		case !fi.Mode().IsRegular(): // a named pipe would make the reader wait
-			r.failf(k, "%s is %s, not a regular file; want a CSV file", p, FileKind(fi.Mode()))
-		}
-		return p
-	}
-	s.Lab.CCE = path("lab.cce", f.CCE)
-	s.Lab.CVD = path("lab.cvd", f.CVD)
 }

@@ -19,6 +19,8 @@
 //   - the degree Rankine, 1 °R = 5/9 K; 0 °F = 459.67 °R; 0 °C = 273.15 K;
 //   - the international acre, 1 acre = 43560 ft², the hectare, 10⁴ m², and the
 //     US oil barrel, 1 bbl = 42 US gallons = 9702 in³.
+//   - the centipoise, 1 cP = 1 mPa·s = 10⁻³ Pa·s, the viscosity of laboratory
+//     reports.
 //
 // See NIST Special Publication 811 (2008), Guide for the Use of the
 // International System of Units, Appendix B, for these definitions.

@@ -56,6 +56,8 @@ const (
 	GasOilRatio          // standard m³ of gas per m³ of stock-tank liquid
 	GasPerBulk           // standard m³ of gas per m³ of bulk rock (output only)
 	LiquidPerBulk        // m³ of stock-tank liquid per m³ of bulk rock (output only)
+	Viscosity            // Pa·s
+	LiquidGasRatio       // m³ of stock-tank liquid per standard m³ of gas (a condensate-gas ratio)
 )
 
 var kindNames = [...]string{
@@ -74,6 +76,8 @@ var kindNames = [...]string{
 	GasOilRatio:     "gas-oil ratio",
 	GasPerBulk:      "standard gas volume per bulk rock volume",
 	LiquidPerBulk:   "stock-tank liquid volume per bulk rock volume",
+	Viscosity:       "viscosity",
+	LiquidGasRatio:  "condensate-gas ratio",
 }
 
 // kindExamples show a user what to write for each kind.
@@ -93,6 +97,8 @@ var kindExamples = [...]string{
 	GasOilRatio:     `"6500 scf/STB", "6.5 Mscf/STB" or "1160 sm3/sm3"`,
 	GasPerBulk:      `"1300 Mscf/acre-ft" (output only)`,
 	LiquidPerBulk:   `"160 STB/acre-ft" (output only)`,
+	Viscosity:       `"0.0285 cP", "0.0285 mPa.s", "28.5 uPa.s" or "2.85e-5 Pa.s"`,
+	LiquidGasRatio:  `"95 STB/MMscf", "0.095 STB/Mscf" or "534 sm3/1e6sm3"`,
 }
 
 func (k Kind) String() string {
@@ -216,6 +222,8 @@ var (
 	GPerMol   = def(MolarMass, "g_mol", 1e-3, 1/1e-3, 0, "g/mol")
 	M3PerKmol = def(MolarVolume, "m3_kmol", 1e-3, 1/1e-3, 0, "m3/kmol")
 	Ft3PerLb  = def(MolarVolume, "ft3_lbmol", M3MolPerFt3Lb, 1/M3MolPerFt3Lb, 0, "ft3/lbmol")
+	// Centipoise is the viscosity unit of laboratory reports, the same as mPa·s.
+	Centipoise = def(Viscosity, "cP", 1e-3, 1/1e-3, 0, "cP", "mPa.s", "mPa·s")
 
 	// Percent is a dimensionless fraction shown in percent (mole %, saturation %).
 	Percent = Unit{Kind: Dimensionless, Symbol: "%", Key: "pct", scale: 0.01, inv: 100}
@@ -246,6 +254,11 @@ func init() {
 	def(MolarVolume, "m3_mol", 1, 1, 0, "m3/mol")
 	def(MolarVolume, "cm3_mol", 1e-6, 1/1e-6, 0, "cm3/mol")
 	def(MolarVolume, "L_mol", 1e-3, 1/1e-3, 0, "L/mol")
+	// Viscosities as laboratory reports give them: 1 cP = 1 mPa·s = 1e-3 Pa·s
+	// (NIST SP 811 (2008), B.9: centipoise 1.0 E-03 Pa·s, exact). The micro
+	// prefix is written u, µ (the micro sign) or μ (the Greek letter).
+	def(Viscosity, "Pa_s", 1, 1, 0, "Pa.s", "Pa·s")
+	def(Viscosity, "uPa_s", 1e-6, 1/1e-6, 0, "uPa.s", "uPa·s", "µPa.s", "µPa·s", "μPa.s", "μPa·s")
 }
 
 // ambiguous lists symbols we refuse because they do not say whether the
@@ -259,6 +272,25 @@ var ambiguous = map[string]string{
 func Lookup(symbol string) (Unit, bool) {
 	u, ok := table[symbol]
 	return u, ok
+}
+
+// Symbols lists the symbols Lookup accepts for units of kind k, in
+// alphabetical order regardless of case, for messages that say what a
+// header or a flag may name.
+func Symbols(k Kind) []string {
+	var s []string
+	for sym, u := range table {
+		if u.Kind == k {
+			s = append(s, sym)
+		}
+	}
+	sort.Slice(s, func(i, j int) bool {
+		if a, b := strings.ToLower(s[i]), strings.ToLower(s[j]); a != b {
+			return a < b
+		}
+		return s[i] < s[j]
+	})
+	return s
 }
 
 // Errors wrapped in *Error. Use errors.Is.

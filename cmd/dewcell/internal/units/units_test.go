@@ -72,6 +72,10 @@ var parseTests = []struct {
 	{"3e-6 1/bar", Compressibility, 0, 3e-11, 1e-15, "1/bar = 1e-5 1/Pa"},
 	{"1 lb/ft3", Density, 0, 1.601846e1, 1e-6, "NIST SP 811 B.9: pound per cubic foot 1.601 846 E+01 kg/m3 (7 digits)"},
 	{"143 g/mol", MolarMass, 0, 0.143, 1e-15, "SI prefix"},
+	{"0.0285 cP", Viscosity, 0, 2.85e-5, 1e-15, "NIST SP 811 B.9: centipoise 1.0 E-03 Pa·s (exact)"},
+	{"0.0285 mPa·s", Viscosity, 0, 2.85e-5, 1e-15, "SI prefix: 1 mPa·s = 1 cP"},
+	{"28.5 µPa.s", Viscosity, 0, 2.85e-5, 1e-15, "SI prefix"},
+	{"2.85e-5 Pa.s", Viscosity, 0, 2.85e-5, 0, "SI"},
 	{"1 ft3/lbmol", MolarVolume, 0, 1 / 0.01601846 * 1e-6, 1e-6, "METHODS.md units line: 1 cm3/mol = 0.01601846 ft3/lbmol (7 digits)"},
 }
 
@@ -279,5 +283,26 @@ func TestParseState(t *testing.T) {
 	}
 	if _, err := ParseState("6200 psi", Pressure, PaPerAtm); !errors.Is(err, ErrAmbiguous) {
 		t.Errorf("ParseState keeps the errors of Parse: %v", err)
+	}
+}
+
+// Symbols lists every symbol of a kind that Lookup reads back as that kind,
+// and no other: the pressure units are those of the package's definitions.
+func TestSymbols(t *testing.T) {
+	t.Parallel()
+	got := strings.Join(Symbols(Pressure), " ")
+	if want := "atm bara barg kPa MPa Pa psia psig"; got != want {
+		t.Errorf("Symbols(Pressure) = %q, want %q", got, want)
+	}
+	for _, k := range []Kind{Temperature, Density, Viscosity, LiquidGasRatio} {
+		syms := Symbols(k)
+		if len(syms) == 0 {
+			t.Errorf("Symbols(%v) is empty", k)
+		}
+		for _, s := range syms {
+			if u, ok := Lookup(s); !ok || u.Kind != k {
+				t.Errorf("Symbols(%v) lists %q, which Lookup gives as %v, %v", k, s, u.Kind, ok)
+			}
+		}
 	}
 }

@@ -26,6 +26,10 @@ var (
 	ScfPerSTB = def(GasOilRatio, "scf_stb", M3PerFt3/M3PerBbl, M3PerBbl/M3PerFt3, 0, "scf/STB", "scf/bbl")
 	Sm3PerSm3 = def(GasOilRatio, "sm3_sm3", 1, 1, 0, "sm3/sm3", "Sm3/Sm3", "sm3/m3", "m3/m3")
 
+	// STBPerMMscf is a condensate-gas ratio, stock-tank barrels per million
+	// standard cubic feet of gas, as laboratory reports give it.
+	STBPerMMscf = def(LiquidGasRatio, "stb_mmscf", M3PerBbl/(1e6*M3PerFt3), 1e6*M3PerFt3/M3PerBbl, 0, "STB/MMscf", "bbl/MMscf")
+
 	// AcreFoot and HectareMetre measure bulk rock.
 	AcreFoot     = def(Volume, "acre_ft", M3PerAcreFt, 1/M3PerAcreFt, 0, "acre-ft")
 	HectareMetre = def(Volume, "ha_m", M2PerHectare, 1/M2PerHectare, 0, "ha-m")
@@ -62,6 +66,11 @@ func defAlias(k Kind, key string, scale, inv float64, symbols ...string) Unit {
 func init() {
 	// Input-only surface units.
 	def(GasOilRatio, "mscf_stb", 1e3*M3PerFt3/M3PerBbl, M3PerBbl/(1e3*M3PerFt3), 0, "Mscf/STB")
+	def(LiquidGasRatio, "stb_mscf", M3PerBbl/(1e3*M3PerFt3), 1e3*M3PerFt3/M3PerBbl, 0, "STB/Mscf", "bbl/Mscf")
+	// Metric condensate-gas ratios: stock-tank m³ per million standard m³.
+	// Written with a space ("sm3/1e6 sm3") the symbol suits a table header
+	// (Lookup), not a quantity string, which takes one word as its unit.
+	def(LiquidGasRatio, "sm3_1e6sm3", 1e-6, 1e6, 0, "sm3/1e6sm3", "sm3/1e6 sm3", "Sm3/1e6Sm3", "Sm3/1e6 Sm3", "m3/1e6m3", "m3/1e6 m3")
 	def(GasVolume, "1e3sm3", 1e3, 1/1e3, 0, "1e3 sm3", "1e3sm3", "1e3 Sm3")
 	def(GasVolume, "1e9sm3", 1e9, 1/1e9, 0, "1e9 sm3", "1e9sm3", "1e9 Sm3")
 	defAlias(LiquidVolume, "bbl", M3PerBbl, 1/M3PerBbl, "bbl")

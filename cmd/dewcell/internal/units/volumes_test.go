@@ -40,6 +40,11 @@ var volumeTests = []struct {
 	{"6.5 Mscf/STB", GasOilRatio, 6500 * 0.028316846592 / 0.158987294928, 1e-15, "1e3 ft3/bbl"},
 	{"1160 sm3/sm3", GasOilRatio, 1160, 0, "SI"},
 	{"1 ha-m", Volume, 1e4, 0, "hectare-metre = 1e4 m2 x 1 m"},
+	// Condensate-gas ratios: 1 bbl = 9702/1728 ft3 (definitions), so 1 STB/MMscf = 9702/1728 x 1e-6 m3/m3.
+	{"1 STB/MMscf", LiquidGasRatio, 9702.0 / 1728 * 1e-6, 1e-15, "1 bbl = 9702 in3, 1 ft3 = 1728 in3 (definitions)"},
+	{"95 bbl/MMscf", LiquidGasRatio, 95 * 9702.0 / 1728 * 1e-6, 1e-15, "1 bbl = 9702 in3, 1 ft3 = 1728 in3 (definitions)"},
+	{"0.095 STB/Mscf", LiquidGasRatio, 95 * 9702.0 / 1728 * 1e-6, 1e-15, "1e3 ft3 (trade prefix M)"},
+	{"534 sm3/1e6sm3", LiquidGasRatio, 534e-6, 1e-15, "power of ten"},
 	{"1 acre-ft", Volume, 1233.48183754752, 1e-15, "43560 ft3 (definition)"},
 }
 
