@@ -2,7 +2,7 @@
 // The demo command embeds one of them.
 package examples
 
-import _ "embed"
+import "embed"
 
 // StudyName is the file name of the bundled example study.
 const StudyName = "sablewick.toml"
@@ -11,3 +11,9 @@ const StudyName = "sablewick.toml"
 //
 //go:embed sablewick.toml
 var Study []byte
+
+// Files holds the bundled example study and the laboratory tables its
+// [lab] section names, for study.ParseFS.
+//
+//go:embed sablewick.toml lab/*.csv
+var Files embed.FS

@@ -72,7 +72,7 @@ func demoCommand() *cli.Command {
 			var st *study.Study
 			var source []byte
 			if o.study == "" {
-				if st, err = study.Parse("examples/"+examples.StudyName, examples.Study); err != nil {
+				if st, err = study.ParseFS(examples.Files, examples.StudyName); err != nil {
 					return fmt.Errorf("the bundled example: %w", err) // a defect, not the user's input
 				}
 				o.warn(st.Warnings...)
