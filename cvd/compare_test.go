@@ -104,18 +104,7 @@ func TestCompareO9Reference(t *testing.T) {
 func TestCompareStatistics(t *testing.T) {
 	d := loadRef(t)
 	fl, z := o9Fluid(t)
-	comps := fl.Components()
-	comps[len(comps)-1].Tc *= 1.03
-	kij := make([]float64, fl.N()*fl.N())
-	for i := range fl.N() {
-		for j := range fl.N() {
-			kij[i*fl.N()+j] = fl.Kij(i, j)
-		}
-	}
-	heavy, err := eos.NewFluid(comps, kij, fl.Options())
-	if err != nil {
-		t.Fatal(err)
-	}
+	heavy := scaledHeavyTc(t, fl, 1.03)
 	c, err := cvd.Compare(heavy, z, o9Lab(t, d), cvd.CompareOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -214,18 +203,7 @@ func TestCompareNothing(t *testing.T) {
 func TestCompareChargedAboveModelDewPoint(t *testing.T) {
 	d := loadRef(t)
 	fl, z := o9Fluid(t)
-	comps := fl.Components()
-	comps[len(comps)-1].Tc *= 0.97
-	kij := make([]float64, fl.N()*fl.N())
-	for i := range fl.N() {
-		for j := range fl.N() {
-			kij[i*fl.N()+j] = fl.Kij(i, j)
-		}
-	}
-	light, err := eos.NewFluid(comps, kij, fl.Options())
-	if err != nil {
-		t.Fatal(err)
-	}
+	light := scaledHeavyTc(t, fl, 0.97)
 	lab := o9Lab(t, d)
 	c, err := cvd.Compare(light, z, lab, cvd.CompareOptions{})
 	if err != nil {
@@ -247,4 +225,24 @@ func TestCompareChargedAboveModelDewPoint(t *testing.T) {
 			t.Errorf("produced at %g Pa is %g, want above 0", p.P, p.Model)
 		}
 	}
+}
+
+// scaledHeavyTc is fl with the critical temperature of its heaviest
+// component multiplied by f, the interaction coefficients kept.
+func scaledHeavyTc(t *testing.T, fl *eos.Fluid, f float64) *eos.Fluid {
+	t.Helper()
+	comps := fl.Components()
+	comps[len(comps)-1].Tc *= f
+	n := fl.N()
+	kij := make([]float64, n*n)
+	for i := range n {
+		for j := range n {
+			kij[i*n+j] = fl.Kij(i, j)
+		}
+	}
+	out, err := eos.NewFluid(comps, kij, fl.Options())
+	if err != nil {
+		t.Fatal(err)
+	}
+	return out
 }

@@ -181,11 +181,7 @@ func statisticsTable(name, title string, sys units.System, c *cvd.Comparison, w 
 	}
 	t := Table{Name: name, Title: title, Columns: cols}
 	for _, q := range c.Quantities {
-		devs := make([]cvd.PointComparison, len(q.Points))
-		for i, p := range q.Points {
-			devs[i] = cvd.PointComparison{P: p.P, Model: cvd.Deviation(q.Kind, p) / 100}
-		}
-		s := cvd.StatsOf(devs)
+		s := deviationStats(q)
 		kind := "relative"
 		if q.Kind == cvd.Absolute {
 			kind = "absolute"
