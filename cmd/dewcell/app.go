@@ -142,6 +142,7 @@ func newApp(stdout, stderr io.Writer) *cli.App {
 			recoverCommand(),
 			historyCommand(),
 			compareCommand(),
+			checkCommand(),
 			tuneCommand(),
 			reportCommand(),
 			demoCommand(),

@@ -84,7 +84,7 @@ func TestHistoryRecoversModelGIP(t *testing.T) {
 // noise. Means over several seeds, so that no single draw decides.
 func TestHistoryNoise(t *testing.T) {
 	base, rec, hist := modelHistory(t, 10)
-	st, err := study.Parse("history.toml", []byte(base+hist))
+	st, err := study.Parse("history.toml", []byte(stripLab(base)+hist))
 	if err != nil {
 		t.Fatal(err)
 	}

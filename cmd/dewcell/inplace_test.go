@@ -44,7 +44,30 @@ func exampleVariant(t *testing.T, extra string, edits ...string) string {
 	if err := os.WriteFile(path, []byte(s+extra), 0o644); err != nil {
 		t.Fatal(err)
 	}
+	copyExampleLab(t, s+extra, filepath.Dir(path))
 	return path
+}
+
+// copyExampleLab copies the example's laboratory tables into dir when the
+// study text names them (its [lab] paths are relative to the study file).
+func copyExampleLab(t *testing.T, text, dir string) {
+	t.Helper()
+	if !strings.Contains(text, `"lab/`) {
+		return
+	}
+	src := filepath.Join(filepath.Dir(exampleStudy), "lab")
+	if err := os.MkdirAll(filepath.Join(dir, "lab"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	for _, name := range []string{"cvd.csv", "cce.csv"} {
+		data, err := os.ReadFile(filepath.Join(src, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, "lab", name), data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
 }
 
 // exampleWithout is the example study up to the line that starts section,
@@ -70,6 +93,7 @@ func writeStudy(t *testing.T, text string) string {
 	if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
 		t.Fatal(err)
 	}
+	copyExampleLab(t, text, filepath.Dir(path))
 	return path
 }
 

@@ -158,18 +158,22 @@ func exampleLabTables(t *testing.T) (sat float64, cvdCSV, cceCSV string) {
 	return sat, cvdCSV, cceCSV
 }
 
-// stripLab removes the [lab] section of the example, which names the
-// tables being made.
+// stripLab removes the [lab] section and the tuning sections of the
+// example ([[tune.parameter]], [tune.weights]), which the procedure gives
+// anew.
 func stripLab(s string) string {
-	i := strings.Index(s, "\n[lab]")
-	if i < 0 {
-		return s
+	var out []string
+	skip := false
+	for _, line := range strings.SplitAfter(s, "\n") {
+		if h := strings.TrimSpace(line); strings.HasPrefix(h, "[") {
+			name := strings.Trim(strings.Fields(strings.SplitN(h, "#", 2)[0] + " ")[0], "[]")
+			skip = name == "lab" || name == "tune" || strings.HasPrefix(name, "tune.")
+		}
+		if !skip {
+			out = append(out, line)
+		}
 	}
-	j := strings.Index(s[i+1:], "\n[")
-	if j < 0 {
-		return s[:i+1]
-	}
-	return s[:i+1] + s[i+1+j+1:]
+	return strings.Join(out, "")
 }
 
 func TestExampleLabReport(t *testing.T) {
@@ -200,6 +204,9 @@ func TestExampleLabReport(t *testing.T) {
 	}
 	if !bytes.Contains(readme, []byte(fmt.Sprintf("%.0f psia", sat))) {
 		t.Errorf("examples/lab/README.md does not give the procedure's saturation pressure, %.0f psia", sat)
+	}
+	if want := fmt.Sprintf("saturation_pressure = \"%.0f psia\"", sat); !bytes.Contains(examples.Study, []byte(want)) {
+		t.Errorf("examples/%s does not give the procedure's saturation pressure in its [lab]: want %s", examples.StudyName, want)
 	}
 }
 

@@ -610,7 +610,7 @@ func TestExampleReads(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	st, err := Parse("examples/sablewick.toml", data)
+	st, err := Parse("../../../../examples/sablewick.toml", data)
 	if err != nil {
 		t.Fatal(err)
 	}

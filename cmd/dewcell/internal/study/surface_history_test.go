@@ -197,7 +197,7 @@ func TestExampleSurfaceAndHistory(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	st, err := Parse("examples/sablewick.toml", data)
+	st, err := Parse("../../../../examples/sablewick.toml", data)
 	if err != nil {
 		t.Fatal(err)
 	}
