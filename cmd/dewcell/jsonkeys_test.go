@@ -46,6 +46,10 @@ var jsonKeyCases = []struct {
 	{"recover-rich", []string{"recover", "testdata/rich-near-critical.toml", "--start-at-dew-point"}},
 	{"history", []string{"history", "../../examples/sablewick.toml"}},
 	{"history-metric", []string{"history", "../../examples/sablewick.toml", "--units", "metric"}},
+	{"compare", []string{"compare", "../../examples/sablewick.toml"}},
+	{"compare-metric", []string{"compare", "../../examples/sablewick.toml", "--units", "metric"}},
+	{"check", []string{"check", "../../examples/sablewick.toml"}},
+	{"tune", []string{"tune", "../../examples/sablewick.toml"}},
 	{"demo", []string{"demo"}},
 }
 

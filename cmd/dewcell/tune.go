@@ -126,7 +126,7 @@ func tuneReport(st *study.Study, sys units.System, res *cvd.TuneResult) *Report 
 		Section: "Tuning to the laboratory",
 		Title:   fmt.Sprintf("%s tuned to the laboratory report", fluidName(st)),
 		Fields: []Field{
-			{Column: Column{Name: "parameters"}, Value: len(ps)},
+			{Column: Column{Name: "parameter_count", Label: "Parameters"}, Value: len(ps)},
 			{Column: Column{Name: "measurements", Label: "Measurements fitted"}, Value: len(fit.Residuals)},
 			{Column: Column{Name: "objective_before", Label: "Objective before tuning", Format: report.Format{Decimals: 2, MinDigits: 3, MaxDecimals: 6}}, Value: res.ObjectiveBefore},
 			{Column: Column{Name: "objective_after", Label: "Objective after tuning", Format: report.Format{Decimals: 2, MinDigits: 3, MaxDecimals: 6}}, Value: res.ObjectiveAfter},
@@ -155,6 +155,9 @@ func tuneReport(st *study.Study, sys units.System, res *cvd.TuneResult) *Report 
 		r.Fields = append(r.Fields,
 			Field{Column: Column{Name: q.Name + "_aad_before", Label: "AAD " + lowerFirst(lq.label) + " before", Symbol: lq.diff, Format: lq.format}, Value: lq.of(before.Stats.AAD)},
 			Field{Column: Column{Name: q.Name + "_aad_after", Label: "AAD " + lowerFirst(lq.label) + " after", Symbol: lq.diff, Format: lq.format}, Value: lq.of(q.Stats.AAD)})
+	}
+	if fit.Fallback != "" {
+		r.Note("the regression turned from Levenberg-Marquardt to Nelder-Mead: " + fit.Fallback)
 	}
 	if !fit.Stop.Converged() {
 		r.Warn(fmt.Sprintf("the regression did not converge: %s after %d iterations; the parameters are the best found, not a minimum", fit.Stop, fit.Iterations))

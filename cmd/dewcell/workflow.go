@@ -57,6 +57,9 @@ func workflow(o *options, st *study.Study, atDew bool) (out []*Report, err error
 		return nil, err
 	}
 	add(env)
+	if err := labSteps(o, st, add); err != nil {
+		return nil, err
+	}
 
 	rs := st.Reservoir
 	tr := trainOf(st, sys)
@@ -135,6 +138,60 @@ func workflow(o *options, st *study.Study, atDew bool) (out []*Report, err error
 	}
 	add(historyReportOf(st, sys, h))
 	return out, nil
+}
+
+// labSteps adds the workflow's laboratory steps when the study has a
+// [lab]: the quality check of its CVD (when the report gives what the
+// check needs), the comparison of the model with it, and, when the study
+// has [[tune.parameter]], the tuning and the comparison after it. The
+// later steps keep the study's fluid.
+func labSteps(o *options, st *study.Study, add func(*Report)) error {
+	if st.Lab.Report == nil {
+		o.note(fmt.Sprintf("laboratory comparison, check and tuning left out: %s has no [lab]", st.File))
+		return nil
+	}
+	lab := *st.Lab.Report
+	sys := o.sys
+	if lab.CVD != nil && len(lab.CVD.Gas) > 0 {
+		res, err := checkLab(st, lab)
+		if err != nil {
+			o.note(fmt.Sprintf("quality check of the laboratory CVD left out: %v", err))
+		} else {
+			add(checkReport(st, sys, lab, res))
+		}
+	} else {
+		o.note("quality check of the laboratory CVD left out: the report has no CVD with produced-gas compositions")
+	}
+	if st.Tune == nil {
+		cmp, err := compareModel(st, sys, lab)
+		if err != nil {
+			return err
+		}
+		add(comparisonReport(st, sys, cmp, nil))
+		o.note(fmt.Sprintf("tuning left out: %s has no [[tune.parameter]]", st.File))
+		return nil
+	}
+	res, err := tuneStudy(o, st)
+	if err != nil {
+		return err
+	}
+	add(comparisonReport(st, sys, res.Before, nil))
+	tr := tuneReport(st, sys, res)
+	kept := tr.Tables[:0]
+	for _, t := range tr.Tables {
+		if !strings.HasSuffix(t.Name, "_after") { // comparison_after gives them
+			kept = append(kept, t)
+		}
+	}
+	tr.Tables = kept
+	add(tr)
+	after := comparisonReport(st, sys, res.After, nil)
+	after.Name, after.Section = "comparison_after", "Tuned model against the laboratory"
+	after.Title = strings.Replace(after.Title, fluidName(st), fluidName(st)+", tuned,", 1)
+	after.Figures = nil // the tuning's figures draw the model before and after
+	after.Note("the steps after this one run on the study's fluid, not the tuned one: dewcell tune --save writes the tuned study to run them on")
+	add(after)
+	return nil
 }
 
 // missingRock says which reservoir key the volumes in place need and the
