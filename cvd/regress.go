@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 
 	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/mat"
@@ -802,7 +803,7 @@ func (g *regression) levenbergMarquardt(p *regressPoint) *regressPoint {
 					central, mu, nu = true, 1e-3, 2
 					break trials
 				}
-				return g.fallback(p, fmt.Sprintf("Levenberg-Marquardt steps fail to give the reduction of %.3g in the objective that the Jacobian predicts", md.predMax))
+				return g.fallback(p, "Levenberg-Marquardt steps fail to give the reduction of "+shareText(md.predMax/p.obj)+" of the objective that the Jacobian predicts")
 			}
 			// Predicted reduction of the step taken: F − ‖r + J δp‖².
 			copy(jd, p.r)
@@ -841,6 +842,18 @@ func (g *regression) levenbergMarquardt(p *regressPoint) *regressPoint {
 			break
 		}
 	}
+}
+
+// shareText writes a fraction as a percentage for people, without
+// e-notation.
+func shareText(f float64) string {
+	switch {
+	case !(f >= 0):
+		return "an unknown share"
+	case f < 1e-4:
+		return "less than 0.01 %"
+	}
+	return strconv.FormatFloat(100*f, 'f', 2, 64) + " %"
 }
 
 // fallback runs Nelder–Mead from p, in scaled parameters, and returns the
