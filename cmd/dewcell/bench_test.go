@@ -1,8 +1,16 @@
 package main
 
 import (
+	"encoding/json"
+	"fmt"
 	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
 	"testing"
+
+	"dewcell/examples"
 )
 
 // BenchmarkRecoverCommand: the whole recover command on the bundled example
@@ -12,6 +20,56 @@ func BenchmarkRecoverCommand(b *testing.B) {
 	b.ReportAllocs()
 	for b.Loop() {
 		if code := run([]string{"dewcell", "recover", "--format", "json", exampleStudy}, io.Discard, io.Discard); code != 0 {
+			b.Fatalf("exit %d", code)
+		}
+	}
+}
+
+// BenchmarkTuneCommand: the tune command as a user runs it, four
+// parameters (critical temperature, critical pressure, acentric factor and
+// molar mass of the plus fraction) fitted to a saturation pressure, a
+// 10-step CVD with produced-gas compositions and a 10-point CCE made by the
+// procedure of the example's laboratory report (labdata_test.go).
+func BenchmarkTuneCommand(b *testing.B) {
+	sat, cvdCSV, cceCSV := labTables(b,
+		[]float64{4400, 4000, 3600, 3200, 2800, 2400, 2000, 1600, 1200, 800},
+		[]float64{6000, 5600, 5200, 4900, 4700, 4400, 4000, 3500, 3000, 2500})
+	dir := b.TempDir()
+	if err := os.MkdirAll(filepath.Join(dir, "lab"), 0o755); err != nil {
+		b.Fatal(err)
+	}
+	text := strings.Replace(string(examples.Study), `saturation_pressure = "4811 psia"`, fmt.Sprintf(`saturation_pressure = "%.0f psia"`, sat), 1)
+	for name, data := range map[string]string{"sablewick.toml": text, "lab/cvd.csv": cvdCSV, "lab/cce.csv": cceCSV} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(data), 0o644); err != nil {
+			b.Fatal(err)
+		}
+	}
+	path := filepath.Join(dir, "sablewick.toml")
+	// The run measured must be a converged one that finds the fluid the
+	// tables came from.
+	var out strings.Builder
+	if code := run([]string{"dewcell", "tune", "--format", "json", path}, &out, io.Discard); code != 0 {
+		b.Fatalf("exit %d", code)
+	}
+	var doc struct {
+		Iterations int    `json:"iterations"`
+		Stop       string `json:"stop"`
+		Parameters []struct {
+			Tuned float64 `json:"tuned"`
+		} `json:"parameters"`
+	}
+	if err := json.Unmarshal([]byte(out.String()), &doc); err != nil || len(doc.Parameters) != len(labTruthValues) {
+		b.Fatalf("tune output: %v, %d parameters", err, len(doc.Parameters))
+	}
+	for i, p := range doc.Parameters {
+		if math.Abs(p.Tuned/labTruthValues[i]-1) > 0.01 {
+			b.Errorf("parameter %d tuned to %.4f, the tables came from %.4f", i+1, p.Tuned, labTruthValues[i])
+		}
+	}
+	b.Logf("%d iterations, stopped because: %s", doc.Iterations, doc.Stop)
+	b.ReportAllocs()
+	for b.Loop() {
+		if code := run([]string{"dewcell", "tune", "--format", "json", path}, io.Discard, io.Discard); code != 0 {
 			b.Fatalf("exit %d", code)
 		}
 	}

@@ -70,7 +70,13 @@ const psia = 6894.757293168362 // Pa per psi, exact (NIST SP 811)
 
 // exampleLabTables computes the invented report: the saturation pressure
 // (psia, to 1 psi) and the CVD and CCE tables as CSV text.
-func exampleLabTables(t *testing.T) (sat float64, cvdCSV, cceCSV string) {
+func exampleLabTables(t testing.TB) (sat float64, cvdCSV, cceCSV string) {
+	return labTables(t, labCVDPressures, labCCEPressures)
+}
+
+// labTables computes a report like the example's at the CVD steps cvdPs
+// and CCE pressures ccePs (psia).
+func labTables(t testing.TB, cvdPs, ccePs []float64) (sat float64, cvdCSV, cceCSV string) {
 	t.Helper()
 	text := stripLab(string(examples.Study)) + labTruth
 	st, err := study.Parse(filepath.Join("..", "..", "examples", examples.StudyName), []byte(text))
@@ -89,7 +95,7 @@ func exampleLabTables(t *testing.T) (sat float64, cvdCSV, cceCSV string) {
 		}
 		return out
 	}
-	d, err := cvd.Deplete(fl, z, temp, cvd.DepletionOptions{Pressures: ps(labCVDPressures), SkipMaxDropout: true})
+	d, err := cvd.Deplete(fl, z, temp, cvd.DepletionOptions{Pressures: ps(cvdPs), SkipMaxDropout: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -137,7 +143,7 @@ func exampleLabTables(t *testing.T) (sat float64, cvdCSV, cceCSV string) {
 	}
 	cvdCSV = b.String()
 
-	e, err := cvd.Expand(fl, z, temp, ps(labCCEPressures), nil)
+	e, err := cvd.Expand(fl, z, temp, ps(ccePs), nil)
 	if err != nil {
 		t.Fatal(err)
 	}
