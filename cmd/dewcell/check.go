@@ -60,10 +60,19 @@ func checkLab(st *study.Study, lab cvd.LabReport) (*cvd.CheckResult, error) {
 func checkErrorText(re *cvd.ReportError) string {
 	f := re.Field
 	switch {
+	case f == "CVD.Gas" && strings.HasPrefix(re.Msg, "is empty"):
+		return "the table has no gas_<component> columns: the material balance needs the composition of the gas produced at every step"
+	case f == "CVD.Gas" && strings.HasPrefix(re.Msg, "leaves out the model components "):
+		names := strings.SplitN(strings.TrimPrefix(re.Msg, "leaves out the model components "), ":", 2)[0]
+		var cols []string
+		for _, n := range strings.Split(names, ", ") {
+			cols = append(cols, "gas_"+n)
+		}
+		return fmt.Sprintf("its gas_<component> columns leave out %s of the study: the material balance needs the produced gas's every component; add the column %s", names, strings.Join(cols, ", "))
 	case strings.HasPrefix(f, "CVD.Gas"):
-		return "its gas_<component> columns " + re.Msg
+		return "its gas_<component> columns " + plural(re.Msg)
 	case strings.HasPrefix(f, "CVD.Liquid"):
-		return "its liquid_<component> columns " + re.Msg
+		return "its liquid_<component> columns " + plural(re.Msg)
 	case f == "CVD.Points":
 		return "its rows " + re.Msg
 	case f == "CVD":
@@ -88,6 +97,17 @@ func checkErrorText(re *cvd.ReportError) string {
 		}
 	}
 	return f + " " + re.Msg
+}
+
+// plural puts the verb that opens msg in the plural: the subject is a
+// set of columns.
+func plural(msg string) string {
+	for _, v := range [][2]string{{"leaves ", "leave "}, {"names ", "name "}, {"is ", "are "}} {
+		if rest, ok := strings.CutPrefix(msg, v[0]); ok {
+			return v[1] + rest
+		}
+	}
+	return msg
 }
 
 // checkReport shows the check res of the laboratory report lab in sys: the

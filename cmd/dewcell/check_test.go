@@ -147,12 +147,30 @@ func TestCheckFindsPlantedDefects(t *testing.T) {
 func TestCheckUsageErrors(t *testing.T) {
 	noLab := writeStudy(t, stripLab(string(mustRead(t, exampleStudy))))
 	noCVD := exampleVariant(t, "", `cvd = "lab/cvd.csv"`, "")
+	drop := func(prefix string) func(rows [][]string) {
+		return func(rows [][]string) {
+			header := rows[0]
+			for i, r := range rows {
+				var kept []string
+				for j, c := range r {
+					if !strings.HasPrefix(header[j], prefix) {
+						kept = append(kept, c)
+					}
+				}
+				rows[i] = kept
+			}
+		}
+	}
+	noGas := labVariant(t, drop("gas_"))
+	noCO2 := labVariant(t, drop("gas_CO2"))
 	for _, c := range []struct {
 		name, path string
 		want       []string
 	}{
 		{"no [lab]", noLab, []string{"no [lab] section", "saturation_pressure"}},
 		{"no cvd table", noCVD, []string{"no cvd table", "gas_<component>"}},
+		{"no gas compositions", noGas, []string{"lab/cvd.csv", "no gas_<component> columns"}},
+		{"a component left out", noCO2, []string{"lab/cvd.csv", "leave out CO2", "add the column gas_CO2"}},
 	} {
 		code, _, stderr := dewcell("check", c.path)
 		if code != exitUsage {
