@@ -21,7 +21,8 @@ type TuneProblem struct {
 	// DefaultWeights).
 	Weights map[string]float64
 	Compare CompareOptions
-	// Regress controls the regression; nil means its defaults.
+	// Regress controls the regression; nil means its defaults, but for the
+	// finite-difference step, TuneFDStep unless set.
 	Regress *RegressSettings
 }
 
@@ -38,6 +39,22 @@ type TuneResult struct {
 	ObjectiveBefore, ObjectiveAfter float64
 	Fit                             *RegressResult
 }
+
+// TuneFDStep is the finite-difference step, in scaled parameters, Tune
+// gives the regression when its settings give none. The model's CVD cell
+// is charged at the higher of the model's and the measured saturation
+// pressure (Comparison.Start), so the produced moles, and with them the
+// objective, have a kink where the two are equal, and a tuned model's dew
+// point lies close to the measured one: a step of 1e-4 (the regression's
+// default) straddles the kink there, which halves the standard errors and
+// stalls Levenberg–Marquardt. A step of 1e-6 keeps the differences on one
+// side for dew points more than about 0.01 psi from the measured one;
+// the saturation point and the flashes converge to about 1e-10, so the
+// noise of the differences stays near 1e-4 of their size. Measured on the
+// example's report (four parameters, rounded data): 6 iterations and 39
+// evaluations with Levenberg–Marquardt alone, against 35 iterations, 108
+// evaluations and a fall-back on Nelder–Mead with 1e-4.
+const TuneFDStep = 1e-6
 
 // ErrTuneStart: the model at the starting parameters cannot be compared
 // with the report, so there is nothing to tune from.
@@ -84,7 +101,14 @@ func Tune(p TuneProblem) (*TuneResult, error) {
 		copy(r, buf)
 		return nil
 	}
-	fit, err := Regress(residuals, m, p.X0, p.Lo, p.Hi, p.Regress)
+	set := RegressSettings{}
+	if p.Regress != nil {
+		set = *p.Regress
+	}
+	if set.FDStep == 0 {
+		set.FDStep = TuneFDStep
+	}
+	fit, err := Regress(residuals, m, p.X0, p.Lo, p.Hi, &set)
 	if err != nil {
 		return nil, err
 	}

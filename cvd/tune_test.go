@@ -375,8 +375,8 @@ func TestTuneRecoversKnownParameters(t *testing.T) {
 // positive, and equal to s²(JᵀJ)⁻¹ computed here again from a Jacobian of
 // our own differences and gonum's inverse.
 //
-// The finite-difference step is 1e-6 of each range, not the default 1e-4.
-// Compare charges the model's CVD cell at the higher of the model's and the
+// The finite-difference step is Tune's, 1e-6 of each range, not the
+// regression's default 1e-4 (TuneFDStep). Compare charges the model's CVD cell at the higher of the model's and the
 // measured saturation pressure (Comparison.Start), so the produced moles,
 // and with them the objective, have a kink where the two are equal, and a
 // tuned model's dew point lies close to the measured one. Measured on the
@@ -399,8 +399,7 @@ func TestTuneRoundedAndNoisyReport(t *testing.T) {
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			p := tuneProblem(t, tuneTruth, c.e)
-			const fdStep = 1e-6
-			p.Regress = &cvd.RegressSettings{FDStep: fdStep}
+			const fdStep = cvd.TuneFDStep // Tune's default, p.Regress nil
 			res, err := cvd.Tune(p)
 			if err != nil {
 				t.Fatal(err)
