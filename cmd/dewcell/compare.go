@@ -137,12 +137,15 @@ func comparisonReport(st *study.Study, sys units.System, c *cvd.Comparison, w ma
 			continue
 		}
 		lq := quantityOf(q.Name, sys)
-		col := Column{Name: q.Name + "_aad", Label: "AAD " + lowerFirst(lq.label) + " (" + q.Experiment.String() + ")", Symbol: lq.diff, Format: lq.format}
+		// The components of the gas, one by one, are for programs: people
+		// read them in the statistics table.
+		col := Column{Name: q.Name + "_aad", Label: "AAD " + lowerFirst(lq.label) + " (" + q.Experiment.String() + ")", Symbol: lq.diff, Format: lq.format,
+			Verbose: isGasComponent(q.Name)}
 		r.Fields = append(r.Fields, Field{Column: col, Value: lq.of(q.Stats.AAD)})
 	}
 	r.Tables = append(r.Tables, statisticsTable("statistics", "deviations per quantity (relative ones in %, absolute ones in % points)", sys, c, w))
 	for _, q := range c.Quantities {
-		if q.Experiment == cvd.Saturation || strings.HasPrefix(q.Name, "gas_") && q.Name != cvd.QGasViscosity {
+		if q.Experiment == cvd.Saturation || isGasComponent(q.Name) {
 			continue
 		}
 		r.Tables = append(r.Tables, pointsTable(q, sys))
@@ -154,8 +157,11 @@ func comparisonReport(st *study.Study, sys units.System, c *cvd.Comparison, w ma
 	return r
 }
 
+// lowerFirst writes a label inside a sentence: its first word in lower
+// case, unless it is a name or a symbol (CGR, Z, N2, CO2, C1, C7+), whose
+// second character is not a lower-case letter.
 func lowerFirst(s string) string {
-	if s == "" || strings.HasPrefix(s, "CGR") || strings.HasPrefix(s, "Z ") {
+	if len(s) < 2 || s[1] < 'a' || s[1] > 'z' {
 		return s
 	}
 	return strings.ToLower(s[:1]) + s[1:]
@@ -225,7 +231,7 @@ func pointsTable(q cvd.QuantityComparison, sys units.System) Table {
 func gasCompositionTable(st *study.Study, sys units.System, c *cvd.Comparison) *Table {
 	var qs []cvd.QuantityComparison
 	for _, q := range c.Quantities {
-		if strings.HasPrefix(q.Name, "gas_") && q.Name != cvd.QGasViscosity {
+		if isGasComponent(q.Name) {
 			qs = append(qs, q)
 		}
 	}
@@ -265,6 +271,12 @@ func gasCompositionTable(st *study.Study, sys units.System, c *cvd.Comparison) *
 		t.Rows = append(t.Rows, row)
 	}
 	return t
+}
+
+// isGasComponent reports whether the quantity name is that of a component
+// of the produced gas.
+func isGasComponent(name string) bool {
+	return strings.HasPrefix(name, "gas_") && name != cvd.QGasViscosity
 }
 
 // plusNameOf is the name of the study's plus fraction as the laboratory

@@ -153,8 +153,8 @@ func tuneReport(st *study.Study, sys units.System, res *cvd.TuneResult) *Report 
 		lq := quantityOf(q.Name, sys)
 		before := res.Before.Quantity(q.Name)
 		r.Fields = append(r.Fields,
-			Field{Column: Column{Name: q.Name + "_aad_before", Label: "AAD " + lowerFirst(lq.label) + " before", Symbol: lq.diff, Format: lq.format}, Value: lq.of(before.Stats.AAD)},
-			Field{Column: Column{Name: q.Name + "_aad_after", Label: "AAD " + lowerFirst(lq.label) + " after", Symbol: lq.diff, Format: lq.format}, Value: lq.of(q.Stats.AAD)})
+			Field{Column: Column{Name: q.Name + "_aad_before", Label: "AAD " + lowerFirst(lq.label) + " before", Symbol: lq.diff, Format: lq.format, Verbose: isGasComponent(q.Name)}, Value: lq.of(before.Stats.AAD)},
+			Field{Column: Column{Name: q.Name + "_aad_after", Label: "AAD " + lowerFirst(lq.label) + " after", Symbol: lq.diff, Format: lq.format, Verbose: isGasComponent(q.Name)}, Value: lq.of(q.Stats.AAD)})
 	}
 	if fit.Fallback != "" {
 		r.Note("the regression turned from Levenberg-Marquardt to Nelder-Mead: " + fit.Fallback)
@@ -246,7 +246,7 @@ func tuneReport(st *study.Study, sys units.System, res *cvd.TuneResult) *Report 
 	fig.Series = []report.Series{obj}
 	r.Tables = append(r.Tables, hist)
 	for _, q := range res.After.Quantities {
-		if q.Experiment == cvd.Saturation || strings.HasPrefix(q.Name, "gas_") && q.Name != cvd.QGasViscosity {
+		if q.Experiment == cvd.Saturation || isGasComponent(q.Name) {
 			continue
 		}
 		t := pointsTable(q, sys)

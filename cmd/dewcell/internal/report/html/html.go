@@ -210,7 +210,7 @@ const cellPad = 2
 // first column; the later ones are titled as continued.
 func split(tv *table) []*table {
 	n := len(tv.Head)
-	if n == 0 {
+	if n == 0 || len(tv.Rows) == 0 { // an empty table shows as "None."
 		return []*table{tv}
 	}
 	w := make([]int, n)

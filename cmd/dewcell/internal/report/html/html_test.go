@@ -103,6 +103,24 @@ func TestWideTablesSplit(t *testing.T) {
 	}
 }
 
+// An empty table, a list of findings with none, shows its title and says
+// so, once, whatever its width.
+func TestEmptyTable(t *testing.T) {
+	r := sample()
+	empty := report.Table{Name: "findings", Title: "findings"}
+	for j := range 30 {
+		empty.Columns = append(empty.Columns, report.Column{Name: "column_" + strconv.Itoa(j)})
+	}
+	r.Tables = append(r.Tables, empty)
+	page := write(t, r)
+	if n := strings.Count(page, `<p class="empty">None.</p>`); n != 1 {
+		t.Errorf("the empty table says None %d times, want once", n)
+	}
+	if strings.Contains(page, ">Column 1<") {
+		t.Error("the empty table shows its header")
+	}
+}
+
 func TestWriteErrors(t *testing.T) {
 	if err := Write(&bytes.Buffer{}, opt); err == nil {
 		t.Error("no reports: no error")
