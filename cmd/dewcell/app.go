@@ -143,6 +143,7 @@ func newApp(stdout, stderr io.Writer) *cli.App {
 			historyCommand(),
 			compareCommand(),
 			checkCommand(),
+			forecastCommand(),
 			tuneCommand(),
 			reportCommand(),
 			demoCommand(),

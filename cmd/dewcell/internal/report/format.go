@@ -94,6 +94,8 @@ var unitFormats = map[string]Format{
 	"m3_kmol":   {Decimals: 4, MinDigits: 3, MaxDecimals: 6},
 
 	"scf_stb": {Decimals: 0}, "sm3_sm3": {Decimals: 1},
+	"mmscf_d": {Decimals: 2, MinDigits: 3, MaxDecimals: 3}, "1e6sm3_d": {Decimals: 3, MinDigits: 3, MaxDecimals: 4},
+	"stb_d": {Decimals: 0, MinDigits: 2, MaxDecimals: 1}, "sm3_d": {Decimals: 1, MinDigits: 2, MaxDecimals: 2},
 	"stb_mmscf": {Decimals: 1}, "sm3_1e6sm3": {Decimals: 1},
 	"scf_lbmol": {Decimals: 2, MinDigits: 3, MaxDecimals: 4},
 	"stb_lbmol": {Decimals: 4, MinDigits: 3, MaxDecimals: 7},

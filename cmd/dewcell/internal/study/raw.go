@@ -28,6 +28,11 @@ type fileStudy struct {
 	History   []fileHistory  `toml:"history"`
 	RelPerm   *fileRelPerm   `toml:"relative_permeability"`
 	Tune      *fileTune      `toml:"tune"`
+
+	Wells      *fileWells      `toml:"wells"`
+	Production *fileProduction `toml:"production"`
+	Plant      *filePlant      `toml:"plant"`
+	Economics  *fileEconomics  `toml:"economics"`
 }
 
 type fileTune struct {

@@ -53,6 +53,13 @@ type Study struct {
 	// Tune holds [[tune.parameter]] and [tune.weights]; nil when not given.
 	Tune *Tune
 
+	// Wells, Production, Plant and Economics hold the sections of the
+	// production forecast; each nil when not given.
+	Wells      *Wells
+	Production *Production
+	Plant      *Plant
+	Economics  *Economics
+
 	standard    units.Conditions
 	standardSet [2]bool // temperature, pressure given
 
@@ -281,6 +288,10 @@ func parse(fsys fs.FS, name string, data []byte) (*Study, error) {
 	r.relPerm(s, f.RelPerm)
 	s.raw, s.md = f.Fluid, md
 	r.tune(s, f.Tune)
+	r.wells(s, f.Wells)
+	r.production(s, f.Production)
+	r.plant(s, f.Plant, md)
+	r.economics(s, f.Economics)
 	if r.err != nil {
 		return nil, r.err
 	}

@@ -52,6 +52,8 @@ var systems = [2]map[Kind]Unit{
 		GasOilRatio:     ScfPerSTB,
 		GasPerBulk:      MscfPerAcreFt,
 		LiquidPerBulk:   STBPerAcreFt,
+		GasRate:         MMscfPerDay,
+		LiquidRate:      STBPerDay,
 	},
 	Metric: {
 		Temperature:     DegC,
@@ -68,6 +70,8 @@ var systems = [2]map[Kind]Unit{
 		GasOilRatio:     Sm3PerSm3,
 		GasPerBulk:      GasSm3PerHaM,
 		LiquidPerBulk:   LiquidSm3PerHaM,
+		GasRate:         MillionSm3PerDay,
+		LiquidRate:      Sm3PerDay,
 	},
 }
 

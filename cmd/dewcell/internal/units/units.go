@@ -58,6 +58,8 @@ const (
 	LiquidPerBulk        // m³ of stock-tank liquid per m³ of bulk rock (output only)
 	Viscosity            // Pa·s
 	LiquidGasRatio       // m³ of stock-tank liquid per standard m³ of gas (a condensate-gas ratio)
+	GasRate              // standard m³ of gas per second (shown per day)
+	LiquidRate           // m³ of stock-tank liquid per second (shown per day)
 )
 
 var kindNames = [...]string{
@@ -78,6 +80,8 @@ var kindNames = [...]string{
 	LiquidPerBulk:   "stock-tank liquid volume per bulk rock volume",
 	Viscosity:       "viscosity",
 	LiquidGasRatio:  "condensate-gas ratio",
+	GasRate:         "gas rate",
+	LiquidRate:      "liquid rate",
 }
 
 // kindExamples show a user what to write for each kind.
@@ -99,6 +103,8 @@ var kindExamples = [...]string{
 	LiquidPerBulk:   `"160 STB/acre-ft" (output only)`,
 	Viscosity:       `"0.0285 cP", "0.0285 mPa.s", "28.5 uPa.s" or "2.85e-5 Pa.s"`,
 	LiquidGasRatio:  `"95 STB/MMscf", "0.095 STB/Mscf" or "534 sm3/1e6sm3"`,
+	GasRate:         `"45 MMscf/d", "9000 Mscf/d", "1.3 1e6 sm3/d" or "1.3e6 sm3/d"`,
+	LiquidRate:      `"4500 STB/d", "4500 bbl/d" or "715 sm3/d"`,
 }
 
 func (k Kind) String() string {

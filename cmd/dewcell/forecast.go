@@ -1,0 +1,319 @@
+package main
+
+import (
+	"fmt"
+	"time"
+
+	"github.com/urfave/cli/v2"
+
+	"dewcell/cmd/dewcell/internal/report"
+	"dewcell/cmd/dewcell/internal/study"
+	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/mbal"
+)
+
+// forecastGridSteps is the number of even pressure steps the depletion is
+// tabulated on for the forecast (and the dew point among them).
+const forecastGridSteps = 120
+
+func forecastCommand() *cli.Command {
+	return studyCommand("forecast",
+		"production forecast of the depletion versus time: the wells' deliverability and the plateau of sales gas ([wells], [production]), "+
+			"the gas plant ([plant]), the rates, cumulatives and pressure per step and per year, and the cash flow and its NPV and IRR ([economics])",
+		[]cli.Flag{startAtDewPointFlag(), plotFlag()},
+		func(c *cli.Context, o *options, st *study.Study) error {
+			res, err := forecastRun(o, st, c.Bool(flagStartAtDew))
+			if err != nil {
+				return err
+			}
+			return o.emit(forecastReport(st, o.sys, res))
+		})
+}
+
+// forecastResult is a forecast and what it was made from.
+type forecastResult struct {
+	res   mbal.Reservoir
+	rec   *mbal.Recovery
+	model *mbal.DepletionModel
+	fc    *mbal.Forecast
+	years []yearVolumes
+}
+
+// yearVolumes are the volumes of one calendar year of a forecast.
+type yearVolumes struct {
+	Year              int
+	Volumes           mbal.Streams // produced in the year
+	WellYears         float64
+	ProducingFraction float64
+	EndPressure       float64
+	Wells             int
+}
+
+// forecastRun forecasts the study's field: the recovery tabulated on a
+// fine pressure grid, the wells on it.
+func forecastRun(o *options, st *study.Study, atDew bool) (*forecastResult, error) {
+	switch {
+	case st.Wells == nil:
+		return nil, cli.Exit(fmt.Sprintf("%s has no [wells] section: the forecast needs the wells' count, start and test, such as "+
+			`[wells] count = 6, start = "2027-01-01", test_rate = "9 MMscf/d", test_reservoir_pressure = "4050 psia", test_flowing_pressure = "3000 psia", deliverability_exponent = 0.85, minimum_flowing_pressure = "1000 psia"`, st.File), exitUsage)
+	case st.Production == nil:
+		return nil, cli.Exit(fmt.Sprintf("%s has no [production] section: the forecast needs the field's plateau and horizon, such as "+
+			`[production] plateau_rate = "45 MMscf/d", uptime = 0.95, minimum_rate = "2 MMscf/d", end = "2060-01-01", step = "1 month"`, st.File), exitUsage)
+	}
+	res, err := reservoirOf(o, st, "forecast", true)
+	if err != nil {
+		return nil, err
+	}
+	if _, err := startAtDewPoint(o, st, &res, "forecast", atDew); err != nil {
+		return nil, err
+	}
+	if len(st.Separator) == 0 {
+		o.warnOnce(noSeparator, fmt.Sprintf("%s gives no [[separator.stage]]: the produced stream goes straight to the stock tank", st.File))
+	}
+	sat, err := upperSaturation(st, o.sys, res.T)
+	if err != nil {
+		return nil, err
+	}
+	tr := trainOf(st, o.sys)
+	grid := mbal.DepletionGrid(res.Pi, res.Abandonment, sat.P, forecastGridSteps)
+	rec, err := mbal.Recover(st.Fluid, st.Z, res, tr, mbal.RecoverOptions{Pressures: grid, SkipMaxSaturation: true})
+	if err != nil {
+		return nil, reservoirError(st, o.sys, "depletion recovery for the forecast", err)
+	}
+	proc, err := plantOf(st)
+	if err != nil {
+		return nil, err
+	}
+	model, err := mbal.NewDepletionModel(st.Fluid, rec, tr, proc, nil)
+	if err != nil {
+		return nil, fmt.Errorf("the depletion as the forecast's reservoir: %w", err)
+	}
+	w := st.Wells
+	wells := mbal.Wells{Count: w.Count, Start: w.Start, TestRate: w.TestRate, TestPR: w.TestReservoirPressure, TestPwf: w.TestFlowingPressure,
+		Exponent: w.Exponent, MinPwf: w.MinimumFlowingPressure, BankFactor: w.BankFactor}
+	for _, a := range w.Add {
+		wells.Add = append(wells.Add, mbal.WellAdd{Date: a.Date, Count: a.Count})
+	}
+	p := st.Production
+	fc, err := mbal.RunForecast(model, wells, mbal.ForecastOptions{Plateau: p.PlateauRate, Uptime: p.Uptime, Minimum: p.MinimumRate, End: p.End, StepMonths: p.StepMonths})
+	if err != nil {
+		return nil, fmt.Errorf("the forecast: %w", err)
+	}
+	out := &forecastResult{res: res, rec: rec, model: model, fc: fc}
+	out.years = yearsOf(fc)
+	return out, nil
+}
+
+// yearsOf sums a forecast's steps by calendar year; a step that spans two
+// years is shared between them in proportion to its days.
+func yearsOf(fc *mbal.Forecast) []yearVolumes {
+	var ys []yearVolumes
+	at := func(y int) *yearVolumes {
+		if n := len(ys); n == 0 || ys[n-1].Year != y {
+			ys = append(ys, yearVolumes{Year: y})
+		}
+		return &ys[len(ys)-1]
+	}
+	for _, s := range fc.Steps {
+		for t := s.Start; t.Before(s.End); {
+			next := time.Date(t.Year()+1, 1, 1, 0, 0, 0, 0, t.Location())
+			if next.After(s.End) {
+				next = s.End
+			}
+			sec := next.Sub(t).Seconds()
+			total := s.End.Sub(s.Start).Seconds()
+			y := at(t.Year())
+			r := s.Rates
+			y.Volumes.WetGas += r.WetGas * sec
+			y.Volumes.SeparatorGas += r.SeparatorGas * sec
+			y.Volumes.Condensate += r.Condensate * sec
+			y.Volumes.SalesGas += r.SalesGas * sec
+			y.Volumes.SalesEnergy += r.SalesEnergy * sec
+			y.Volumes.NGL += r.NGL * sec
+			y.Volumes.Fuel += r.Fuel * sec
+			y.Volumes.Removed += r.Removed * sec
+			y.WellYears += s.WellYears * sec / total
+			y.ProducingFraction += sec / yearSeconds(t.Year())
+			y.EndPressure, y.Wells = s.State.P, s.Wells
+			t = next
+		}
+	}
+	return ys
+}
+
+func yearSeconds(y int) float64 {
+	return time.Date(y+1, 1, 1, 0, 0, 0, 0, time.UTC).Sub(time.Date(y, 1, 1, 0, 0, 0, 0, time.UTC)).Seconds()
+}
+
+// plantOf is the study's gas plant as the forecast uses it; nil without
+// [plant].
+func plantOf(st *study.Study) (mbal.GasProcessor, error) {
+	return nil, nil
+}
+
+// decimalYear is t as a year with its fraction, for the figures' time
+// axis.
+func decimalYear(t time.Time) float64 {
+	y := t.Year()
+	start := time.Date(y, 1, 1, 0, 0, 0, 0, t.Location())
+	return float64(y) + t.Sub(start).Seconds()/yearSeconds(y)
+}
+
+// forecastReport shows the forecast res in sys.
+func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Report {
+	pU := sys.Unit(units.Pressure)
+	gU, lU := sys.Unit(units.GasVolume), sys.Unit(units.LiquidVolume)
+	grU, lrU := sys.Unit(units.GasRate), sys.Unit(units.LiquidRate)
+	fc := res.fc
+	ip := res.rec.InPlace
+	fin := fc.Final.Cum
+	r := &Report{
+		Name:    "forecast",
+		Section: "Production forecast",
+		Title:   fmt.Sprintf("Production forecast of %s: depletion with %d wells and a plateau of %s sales gas", fluidName(st), st.Wells.Count, rateText(grU, st.Production.PlateauRate)),
+	}
+	date := func(t time.Time) string { return t.Format(time.DateOnly) }
+	plateau := "never reached"
+	if !fc.PlateauEnd.IsZero() {
+		plateau = date(fc.PlateauEnd)
+	}
+	r.Fields = []Field{
+		{Column: Column{Name: "start", Label: "First production"}, Value: date(st.Wells.Start)},
+		{Column: Column{Name: "plateau_rate", Label: "Plateau, sales gas", Unit: grU}, Value: grU.FromSI(st.Production.PlateauRate)},
+		{Column: Column{Name: "plateau_end", Label: "End of the plateau"}, Value: plateau},
+		{Column: Column{Name: "stop_date", Label: "End of production"}, Value: date(fc.StopDate)},
+		{Column: Column{Name: "stop_reason", Label: "Production ends because"}, Value: fc.Stop.String()},
+		{Column: Column{Name: "final_pressure", Label: "Reservoir pressure at the end", Unit: pU}, Value: pU.FromSI(fc.Final.P)},
+		{Column: Column{Name: "ultimate_wet_gas", Label: "Ultimate wet gas", Unit: gU}, Value: gU.FromSI(fin.WetGas)},
+		{Column: Column{Name: "ultimate_sales_gas", Label: "Ultimate sales gas", Unit: gU}, Value: gU.FromSI(fin.SalesGas)},
+		{Column: Column{Name: "ultimate_condensate", Label: "Ultimate condensate", Unit: lU}, Value: lU.FromSI(fin.Condensate)},
+		{Column: Column{Name: "ultimate_ngl", Label: "Ultimate NGL", Unit: lU}, Value: lU.FromSI(fin.NGL)},
+		{Column: Column{Name: "wet_gas_recovery", Label: "Wet gas recovery", Unit: units.Percent, Format: report.Fixed(1)}, Value: units.Percent.FromSI(fin.WetGas / ip.WetGas)},
+		{Column: Column{Name: "condensate_recovery", Label: "Condensate recovery", Unit: units.Percent, Format: report.Fixed(1)}, Value: units.Percent.FromSI(fin.Condensate / ip.Condensate)},
+	}
+	steps := Table{Name: "steps", Title: "forecast per step (rates are the step's averages per calendar day; cumulatives at its end)",
+		Columns: []Column{
+			{Name: "date", Label: "End of step"},
+			{Name: "pressure", Unit: pU},
+			{Name: "wells"},
+			{Name: "wet_gas_rate", Unit: grU},
+			{Name: "sales_gas_rate", Unit: grU},
+			{Name: "condensate_rate", Unit: lrU},
+			{Name: "ngl_rate", Label: "NGL rate", Unit: lrU},
+			{Name: "cgr", Label: "CGR", Unit: surfaceUnitsOf(sys).cgr.Unit},
+			{Name: "deliverability", Label: "Deliverability, wet gas", Unit: grU},
+			{Name: "on_plateau"},
+			{Name: "cum_wet_gas", Unit: gU},
+			{Name: "cum_sales_gas", Unit: gU},
+			{Name: "cum_condensate", Unit: lU},
+			{Name: "cum_ngl", Label: "Cum NGL", Unit: lU},
+			{Name: "wet_gas_recovery", Unit: units.Percent, Format: report.Fixed(2)},
+			{Name: "condensate_recovery", Unit: units.Percent, Format: report.Fixed(2)},
+			{Name: "fuel_rate", Unit: grU},
+			{Name: "removed_rate", Label: "Gas removed, rate", Unit: grU},
+		}}
+	cgrU := surfaceUnitsOf(sys).cgr
+	for _, s := range fc.Steps {
+		cgr := any(nil)
+		if s.Rates.SeparatorGas > 0 {
+			cgr = cgrU.of(s.Rates.Condensate / s.Rates.SeparatorGas)
+		}
+		c := s.State.Cum
+		steps.Rows = append(steps.Rows, []any{date(s.End), pU.FromSI(s.State.P), s.Wells,
+			grU.FromSI(s.Rates.WetGas), grU.FromSI(s.Rates.SalesGas), lrU.FromSI(s.Rates.Condensate), lrU.FromSI(s.Rates.NGL), cgr,
+			grU.FromSI(s.Deliverability), s.OnPlateau,
+			gU.FromSI(c.WetGas), gU.FromSI(c.SalesGas), lU.FromSI(c.Condensate), lU.FromSI(c.NGL),
+			units.Percent.FromSI(c.WetGas / ip.WetGas), units.Percent.FromSI(c.Condensate / ip.Condensate),
+			grU.FromSI(s.Rates.Fuel), grU.FromSI(s.Rates.Removed)})
+	}
+	steps.Detail = len(steps.Rows) > 60
+	years := Table{Name: "years", Title: "forecast per calendar year",
+		Columns: []Column{
+			{Name: "year"},
+			{Name: "wells"},
+			{Name: "pressure", Label: "Pressure at the year's end", Unit: pU},
+			{Name: "wet_gas", Unit: gU},
+			{Name: "sales_gas", Unit: gU},
+			{Name: "condensate", Unit: lU},
+			{Name: "ngl", Label: "NGL", Unit: lU},
+			{Name: "fuel", Unit: gU},
+			{Name: "removed", Label: "Gas removed", Unit: gU},
+			{Name: "sales_gas_rate", Label: "Sales gas, average rate", Unit: grU},
+			{Name: "condensate_rate", Label: "Condensate, average rate", Unit: lrU},
+		}}
+	for _, y := range res.years {
+		v := y.Volumes
+		sec := yearSeconds(y.Year)
+		years.Rows = append(years.Rows, []any{y.Year, y.Wells, pU.FromSI(y.EndPressure), gU.FromSI(v.WetGas), gU.FromSI(v.SalesGas), lU.FromSI(v.Condensate),
+			lU.FromSI(v.NGL), gU.FromSI(v.Fuel), gU.FromSI(v.Removed), grU.FromSI(v.SalesGas / sec), lrU.FromSI(v.Condensate / sec)})
+	}
+	r.Tables = append(r.Tables, years, steps)
+	r.Figures = forecastFigures(sys, res)
+	r.Note(fmt.Sprintf("the reservoir is the step-converged depletion of recover, tabulated at %d pressures from %s to %s; the cumulative withdrawal is integrated in daily steps",
+		len(res.rec.Steps), pressureNote(sys, res.res.Pi), pressureNote(sys, res.res.Abandonment)))
+	return r
+}
+
+// rateText is a rate with its unit, for titles.
+func rateText(u units.Unit, q float64) string {
+	return fmt.Sprintf("%s %s", report.Sig(u.FromSI(q), 4), u.Symbol)
+}
+
+// forecastFigures draws the rates, the pressure and the cumulatives
+// against time.
+func forecastFigures(sys units.System, res *forecastResult) []*report.Figure {
+	pU := sys.Unit(units.Pressure)
+	grU, lrU := sys.Unit(units.GasRate), sys.Unit(units.LiquidRate)
+	fc := res.fc
+	tAxis := report.Axis{Label: "Year"}
+	gas := &report.Figure{Name: "forecast-gas-rate", Title: "Gas rates", Caption: "Wet gas and sales gas rates of the field, averages per calendar day of each step, and the wells' deliverability.",
+		X: tAxis, Y: report.Axis{Label: "Gas rate", Unit: grU}}
+	cond := &report.Figure{Name: "forecast-condensate-rate", Title: "Condensate and NGL rates", Caption: "Stock-tank condensate and natural-gas liquids, averages per calendar day of each step.",
+		X: tAxis, Y: report.Axis{Label: "Liquid rate", Unit: lrU}}
+	pres := &report.Figure{Name: "forecast-pressure", Title: "Reservoir pressure", Caption: "Average reservoir pressure at the end of each step, with the dew point.",
+		X: tAxis, Y: report.Axis{Label: "Pressure", Unit: pU}}
+	gU, lU := sys.Unit(units.GasVolume), sys.Unit(units.LiquidVolume)
+	last := fc.Final.Cum
+	gFig, gF := report.FigureUnit(gU, gU.FromSI(last.SalesGas))
+	lFig, lF := report.FigureUnit(lU, lU.FromSI(last.Condensate))
+	cum := &report.Figure{Name: "forecast-cumulative", Title: "Cumulative production", Caption: "Cumulative sales gas and condensate.",
+		X: tAxis, Y: report.Axis{Label: "Sales gas [" + report.PrintedSymbol(gFig.Symbol) + "], condensate [" + report.PrintedSymbol(lFig.Symbol) + "]"}}
+	wet := report.Series{Label: "Wet gas", Style: report.Line}
+	sales := report.Series{Label: "Sales gas", Style: report.Line}
+	deliv := report.Series{Label: "Deliverability", Style: report.Dashed}
+	oil := report.Series{Label: "Condensate", Style: report.Line}
+	ngl := report.Series{Label: "NGL", Style: report.Line}
+	pr := report.Series{Label: "Reservoir pressure", Style: report.Line}
+	cg := report.Series{Label: "Sales gas", Style: report.Line}
+	co := report.Series{Label: "Condensate", Style: report.Line}
+	start := decimalYear(fc.Steps[0].Start)
+	pr.X, pr.Y = append(pr.X, start), append(pr.Y, pU.FromSI(res.model.Initial().P))
+	cg.X, cg.Y, co.X, co.Y = []float64{start}, []float64{0}, []float64{start}, []float64{0}
+	hasNGL := false
+	for _, s := range fc.Steps {
+		t0, t1 := decimalYear(s.Start), decimalYear(s.End)
+		// Rates as steps: the average over each step, drawn across it.
+		for _, t := range []float64{t0, t1} {
+			wet.X, wet.Y = append(wet.X, t), append(wet.Y, grU.FromSI(s.Rates.WetGas))
+			sales.X, sales.Y = append(sales.X, t), append(sales.Y, grU.FromSI(s.Rates.SalesGas))
+			oil.X, oil.Y = append(oil.X, t), append(oil.Y, lrU.FromSI(s.Rates.Condensate))
+			ngl.X, ngl.Y = append(ngl.X, t), append(ngl.Y, lrU.FromSI(s.Rates.NGL))
+		}
+		hasNGL = hasNGL || s.Rates.NGL > 0
+		deliv.X, deliv.Y = append(deliv.X, t1), append(deliv.Y, grU.FromSI(s.Deliverability))
+		pr.X, pr.Y = append(pr.X, t1), append(pr.Y, pU.FromSI(s.State.P))
+		cg.X, cg.Y = append(cg.X, t1), append(cg.Y, gU.FromSI(s.State.Cum.SalesGas)*gF)
+		co.X, co.Y = append(co.X, t1), append(co.Y, lU.FromSI(s.State.Cum.Condensate)*lF)
+	}
+	gas.Series = []report.Series{wet, sales, deliv}
+	cond.Series = []report.Series{oil}
+	if hasNGL {
+		cond.Series = append(cond.Series, ngl)
+	}
+	pres.Series = []report.Series{pr}
+	if d := res.model.DewPressure(); d > 0 {
+		pres.Lines = []report.RefLine{{Label: "Dew point", Value: pU.FromSI(d)}}
+	}
+	cum.Series = []report.Series{cg, co}
+	return []*report.Figure{gas, cond, pres, cum}
+}

@@ -1,0 +1,510 @@
+package mbal
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"time"
+
+	"gonum.org/v1/gonum/interp"
+
+	"dewcell/cvd"
+	"dewcell/eos"
+)
+
+// The rate-time forecast of a gas-condensate field: wells with a
+// back-pressure deliverability, a plateau of sales gas, and a reservoir
+// model that says, for a withdrawal, what the pressure becomes and what the
+// produced streams are. The forecast knows nothing of how the model works:
+// the depletion of Recover, tabulated, is one model (DepletionModel); a
+// model of pressure maintenance is another.
+//
+// References:
+//
+//   - Rawlins, E.L. and Schellhardt, M.A. (1936). Back-pressure data on
+//     natural-gas wells and their application to production practices. US
+//     Bureau of Mines Monograph 7 (the back-pressure equation
+//     q = C (p_R² − p_wf²)^n, 0.5 ≤ n ≤ 1).
+//   - Fritsch, F.N. and Butland, J. (1984). A method for constructing local
+//     monotone piecewise cubic interpolants. SIAM J. Sci. Stat. Comput.
+//     5(2), 300–304 (the pressure against the cumulative withdrawal).
+
+// Streams are cumulative produced volumes since the start of production:
+// gas in standard m³, liquids in m³ at standard conditions, energy in J of
+// gross heating value.
+type Streams struct {
+	WetGas       float64 // the well stream as an ideal gas
+	SeparatorGas float64 // the separator train's gas, the plant's inlet
+	Condensate   float64 // stock-tank condensate
+	SalesGas     float64 // the plant's sales gas (the separator gas without a plant)
+	SalesEnergy  float64 // gross heating value of the sales gas, J
+	NGL          float64 // natural-gas liquids recovered by the plant
+	Fuel         float64 // gas burnt in the plant
+	Removed      float64 // gas taken out by the plant (CO2, H2S, ...)
+	Injected     float64 // gas injected (zero for a depletion)
+}
+
+// sub returns s − o, field by field.
+func (s Streams) sub(o Streams) Streams {
+	return Streams{s.WetGas - o.WetGas, s.SeparatorGas - o.SeparatorGas, s.Condensate - o.Condensate, s.SalesGas - o.SalesGas,
+		s.SalesEnergy - o.SalesEnergy, s.NGL - o.NGL, s.Fuel - o.Fuel, s.Removed - o.Removed, s.Injected - o.Injected}
+}
+
+// lerp returns s + f (o − s).
+func (s Streams) lerp(o Streams, f float64) Streams {
+	d := o.sub(s)
+	return Streams{s.WetGas + f*d.WetGas, s.SeparatorGas + f*d.SeparatorGas, s.Condensate + f*d.Condensate, s.SalesGas + f*d.SalesGas,
+		s.SalesEnergy + f*d.SalesEnergy, s.NGL + f*d.NGL, s.Fuel + f*d.Fuel, s.Removed + f*d.Removed, s.Injected + f*d.Injected}
+}
+
+// ReservoirState is the reservoir after some production: what a reservoir
+// model reports to the forecast. Values of this type do not change; a model
+// returns a new one for every withdrawal.
+type ReservoirState struct {
+	P   float64 // average reservoir pressure, Pa
+	Cum Streams // cumulative produced and injected
+	// SalesPerWet is the sales gas per standard m³ of wet gas of the stream
+	// produced at this state: what converts a sales-gas target into a
+	// withdrawal.
+	SalesPerWet float64
+	// Exhausted says the model can give no more: the pressure has reached
+	// the abandonment pressure.
+	Exhausted bool
+	// at is the model's own position (for DepletionModel, the cumulative
+	// wet gas).
+	at float64
+}
+
+// A ReservoirModel answers the forecast's one question: from a state, what
+// follows a further withdrawal of wet gas and injection of gas.
+type ReservoirModel interface {
+	// Initial is the state before production.
+	Initial() ReservoirState
+	// Advance returns the state after withdraw standard m³ of wet gas are
+	// produced and inject standard m³ of gas injected from s. A withdrawal
+	// beyond what the model can give stops at its end, with Exhausted set.
+	Advance(s ReservoirState, withdraw, inject float64) (ReservoirState, error)
+	// DewPressure is the pressure below which liquid drops out in the
+	// reservoir, Pa (0 when none).
+	DewPressure() float64
+}
+
+// Processed is what the gas plant makes of a quantity of separator gas, in
+// the units of Streams.
+type Processed struct {
+	SalesGas, SalesEnergy, NGL, Fuel, Removed float64
+}
+
+// A GasProcessor takes moles of separator gas of composition gas (mole
+// fractions over the fluid's components) through the gas plant.
+type GasProcessor func(gas []float64, moles float64) (Processed, error)
+
+// DepletionModel is the reservoir as the depletion of Recover: the
+// pressure and the cumulative streams tabulated against the cumulative
+// wet gas at the recovery's reported pressures, the pressure interpolated
+// between them by a monotone cubic (Fritsch–Butland), the streams linearly
+// (the stream of each interval is that of its step, so the cumulatives are
+// linear in the wet gas between the reported pressures). It injects
+// nothing.
+type DepletionModel struct {
+	w, p []float64 // cumulative wet gas, increasing; pressure, falling
+	cum  []Streams // at each node
+	pOfW interp.FritschButland
+	dew  float64
+}
+
+// ErrForecast reports an invalid forecast setting or model input.
+var ErrForecast = errors.New("invalid forecast input")
+
+// NewDepletionModel tabulates the recovery rec of fl through the separator
+// train tr and the gas plant proc (nil: the separator gas is sold as it is,
+// and its energy is not known). rec should report many pressures (the
+// forecast interpolates between them): DepletionGrid gives a grid.
+func NewDepletionModel(fl *eos.Fluid, rec *Recovery, tr cvd.Train, proc GasProcessor, s *eos.Settings) (*DepletionModel, error) {
+	if rec == nil || rec.Depletion == nil || len(rec.Steps) < 2 || len(rec.Steps) != len(rec.Depletion.Steps) {
+		return nil, fmt.Errorf("%w: the recovery reports fewer than two pressures", ErrForecast)
+	}
+	sep, err := cvd.NewSeparator(fl, tr, s)
+	if err != nil {
+		return nil, err
+	}
+	n := rec.InPlace.Moles
+	vsc := tr.StandardConditions().IdealGasVolume()
+	m := &DepletionModel{dew: rec.Depletion.Dew.P}
+	var acc Streams
+	for k, st := range rec.Steps {
+		ds := rec.Depletion.Steps[k]
+		if k > 0 && ds.StepProduced > 0 {
+			moles := n * ds.StepProduced
+			sr, err := sep.Separate(ds.Stream)
+			if err != nil {
+				return nil, fmt.Errorf("the stream produced down to %.6g Pa through the separators: %w", st.P, err)
+			}
+			gasMoles := moles * sr.GasMoles
+			pr := Processed{SalesGas: gasMoles * vsc}
+			if proc != nil && gasMoles > 0 {
+				if pr, err = proc(sr.Gas, gasMoles); err != nil {
+					return nil, fmt.Errorf("the gas produced down to %.6g Pa through the plant: %w", st.P, err)
+				}
+			}
+			acc.SeparatorGas += gasMoles * vsc
+			acc.SalesGas += pr.SalesGas
+			acc.SalesEnergy += pr.SalesEnergy
+			acc.NGL += pr.NGL
+			acc.Fuel += pr.Fuel
+			acc.Removed += pr.Removed
+		}
+		acc.WetGas, acc.Condensate = st.WetGas, st.Condensate
+		if k > 0 && !(st.WetGas > m.w[len(m.w)-1]) {
+			continue // no production since the pressure before
+		}
+		m.w, m.p, m.cum = append(m.w, st.WetGas), append(m.p, st.P), append(m.cum, acc)
+	}
+	if len(m.w) < 2 {
+		return nil, fmt.Errorf("%w: the recovery produces nothing", ErrForecast)
+	}
+	if err := m.pOfW.Fit(m.w, m.p); err != nil {
+		return nil, fmt.Errorf("%w: pressure against the cumulative wet gas: %v", ErrForecast, err)
+	}
+	return m, nil
+}
+
+// DepletionGrid is the reported pressures NewDepletionModel wants: steps
+// even steps from pi down to the abandonment pressure pa, and the dew
+// point pd when it lies between (the reservoir's compressibility changes
+// there).
+func DepletionGrid(pi, pa, pd float64, steps int) []float64 {
+	var ps []float64
+	for k := 1; k <= steps; k++ {
+		ps = append(ps, pi-(pi-pa)*float64(k)/float64(steps))
+	}
+	if pd < pi && pd > pa {
+		ps = append(ps, pd)
+		sort.Sort(sort.Reverse(sort.Float64Slice(ps)))
+		// A node within 1e-6 of the span of the dew point would make an
+		// interval of nothing.
+		out := ps[:1]
+		for _, p := range ps[1:] {
+			if out[len(out)-1]-p > 1e-6*(pi-pa) {
+				out = append(out, p)
+			}
+		}
+		ps = out
+	}
+	return ps
+}
+
+// Initial is the reservoir before production.
+func (m *DepletionModel) Initial() ReservoirState { return m.state(0) }
+
+// DewPressure is the upper dew point at the reservoir temperature.
+func (m *DepletionModel) DewPressure() float64 { return m.dew }
+
+// Limit is the cumulative wet gas at the abandonment pressure.
+func (m *DepletionModel) Limit() float64 { return m.w[len(m.w)-1] }
+
+// Advance withdraws from s; a depletion injects nothing.
+func (m *DepletionModel) Advance(s ReservoirState, withdraw, inject float64) (ReservoirState, error) {
+	if inject != 0 {
+		return ReservoirState{}, fmt.Errorf("%w: a depletion injects no gas", ErrForecast)
+	}
+	if withdraw < 0 || math.IsNaN(withdraw) {
+		return ReservoirState{}, fmt.Errorf("%w: withdrawal %g, want 0 or more", ErrForecast, withdraw)
+	}
+	return m.state(s.at + withdraw), nil
+}
+
+// state is the reservoir after w standard m³ of wet gas.
+func (m *DepletionModel) state(w float64) ReservoirState {
+	last := len(m.w) - 1
+	if w >= m.w[last] {
+		st := ReservoirState{P: m.p[last], Cum: m.cum[last], at: m.w[last], Exhausted: true}
+		st.SalesPerWet = m.slope(last - 1)
+		return st
+	}
+	k := sort.SearchFloat64s(m.w, w) // m.w[k-1] < w <= m.w[k]
+	if k == 0 {
+		k = 1
+	}
+	f := (w - m.w[k-1]) / (m.w[k] - m.w[k-1])
+	st := ReservoirState{P: m.pOfW.Predict(w), Cum: m.cum[k-1].lerp(m.cum[k], f), at: w, SalesPerWet: m.slope(k - 1)}
+	if w <= 0 {
+		st.P = m.p[0]
+	}
+	return st
+}
+
+// slope is the sales gas per wet gas over interval k (nodes k, k+1).
+func (m *DepletionModel) slope(k int) float64 {
+	return (m.cum[k+1].SalesGas - m.cum[k].SalesGas) / (m.w[k+1] - m.w[k])
+}
+
+// Wells are the producing wells and their deliverability: a back-pressure
+// equation q = C (p_R² − p_wf²)^n per well (Rawlins and Schellhardt 1936),
+// C from one test, times BankFactor once the reservoir is below its dew
+// point (the condensate bank round the wells), at the minimum flowing
+// pressure.
+type Wells struct {
+	Count int
+	Start time.Time
+	// TestRate is a well's wet-gas rate, standard m³/s, at the reservoir
+	// pressure TestPR and the flowing pressure TestPwf (Pa).
+	TestRate, TestPR, TestPwf float64
+	Exponent                  float64 // n, 0.5 to 1
+	MinPwf                    float64 // Pa
+	BankFactor                float64 // (0, 1]; 0 means 1
+	Add                       []WellAdd
+}
+
+// A WellAdd is Count more wells producing from Date.
+type WellAdd struct {
+	Date  time.Time
+	Count int
+}
+
+// C is the back-pressure coefficient, standard m³/s per Pa^(2n).
+func (w Wells) C() float64 {
+	return w.TestRate / math.Pow(w.TestPR*w.TestPR-w.TestPwf*w.TestPwf, w.Exponent)
+}
+
+// Deliverability is one well's wet-gas rate at reservoir pressure p,
+// standard m³/s, belowDew when the reservoir is below its dew point.
+func (w Wells) Deliverability(p float64, belowDew bool) float64 {
+	d := p*p - w.MinPwf*w.MinPwf
+	if !(d > 0) {
+		return 0
+	}
+	q := w.C() * math.Pow(d, w.Exponent)
+	if belowDew && w.BankFactor > 0 {
+		q *= w.BankFactor
+	}
+	return q
+}
+
+// CountAt is the number of wells producing at t.
+func (w Wells) CountAt(t time.Time) int {
+	if t.Before(w.Start) {
+		return 0
+	}
+	n := w.Count
+	for _, a := range w.Add {
+		if !t.Before(a.Date) {
+			n += a.Count
+		}
+	}
+	return n
+}
+
+// ForecastOptions set the field's targets and the forecast's horizon.
+type ForecastOptions struct {
+	Plateau float64 // the field's sales-gas target, standard m³/s
+	Uptime  float64 // fraction of the time the wells produce, (0, 1]
+	Minimum float64 // sales-gas rate below which the field stops, standard m³/s
+	End     time.Time
+	// StepMonths is the reporting step, in calendar months (1 to 12).
+	StepMonths int
+	// Substep is the integration step; 0 means one day. The rate is
+	// integrated with the classical Runge–Kutta method on it, whatever the
+	// reporting step.
+	Substep time.Duration
+}
+
+// StopReason says why a forecast ended.
+type StopReason int
+
+const (
+	StopHorizon     StopReason = iota // the forecast's end date
+	StopMinimumRate                   // the sales-gas rate fell below the minimum
+	StopAbandonment                   // the reservoir reached the abandonment pressure
+	StopNoWells                       // no well can flow: the pressure is at the minimum flowing pressure
+)
+
+func (s StopReason) String() string {
+	switch s {
+	case StopHorizon:
+		return "the end of the forecast"
+	case StopMinimumRate:
+		return "the sales-gas rate fell below the minimum"
+	case StopAbandonment:
+		return "the reservoir reached the abandonment pressure"
+	case StopNoWells:
+		return "the wells cannot flow at the minimum flowing pressure"
+	}
+	return fmt.Sprintf("StopReason(%d)", int(s))
+}
+
+// ForecastStep is the field over one reporting step: the state at its end
+// and the step's average rates (per calendar day of the step, standard m³/s
+// and m³/s).
+type ForecastStep struct {
+	Start, End time.Time
+	Wells      int // producing at the end of the step (at its start for the last)
+	State      ReservoirState
+	// Rates are the step's produced volumes over its length.
+	Rates Streams
+	// Deliverability is the field's wet-gas deliverability at the end of
+	// the step (with uptime), standard m³/s; OnPlateau says the sales-gas
+	// target was met throughout the step.
+	Deliverability float64
+	OnPlateau      bool
+	WellYears      float64 // producing well-years in the step
+}
+
+// Forecast is a rate-time forecast.
+type Forecast struct {
+	Steps []ForecastStep
+	Stop  StopReason
+	// StopDate is when production ends; PlateauEnd when the sales-gas
+	// target was last met (zero when it never was).
+	StopDate, PlateauEnd time.Time
+	Final                ReservoirState
+}
+
+// RunForecast forecasts the field of wells on the reservoir model m with
+// o's targets, from the wells' start to the first of the horizon, the
+// minimum rate and the model's exhaustion (abandonment pressure). At every
+// instant the wet-gas rate is the lesser of the wells' deliverability at
+// the reservoir pressure (times the uptime) and the withdrawal that yields
+// the sales-gas plateau at the current stream; the cumulative withdrawal is
+// integrated in time by the classical fourth-order Runge–Kutta method on
+// substeps of a day, so that the reporting step does not change the result.
+func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, error) {
+	switch {
+	case wells.TestRate <= 0 || wells.TestPR <= wells.TestPwf || wells.TestPwf <= 0:
+		return nil, fmt.Errorf("%w: the well test needs a rate above 0 at a flowing pressure between 0 and the reservoir pressure", ErrForecast)
+	case wells.Exponent < 0.5 || wells.Exponent > 1:
+		return nil, fmt.Errorf("%w: deliverability exponent %g, want 0.5 to 1", ErrForecast, wells.Exponent)
+	case wells.MinPwf <= 0:
+		return nil, fmt.Errorf("%w: minimum flowing pressure %g Pa, want above 0", ErrForecast, wells.MinPwf)
+	case wells.BankFactor < 0 || wells.BankFactor > 1:
+		return nil, fmt.Errorf("%w: condensate bank factor %g, want (0, 1]", ErrForecast, wells.BankFactor)
+	case !(o.Plateau > 0) || !(o.Uptime > 0 && o.Uptime <= 1) || o.Minimum < 0 || o.Minimum >= o.Plateau:
+		return nil, fmt.Errorf("%w: plateau %g, uptime %g, minimum %g: want a plateau above 0, an uptime in (0, 1] and a minimum below the plateau", ErrForecast, o.Plateau, o.Uptime, o.Minimum)
+	case o.StepMonths < 1 || o.StepMonths > 12:
+		return nil, fmt.Errorf("%w: reporting step of %d months, want 1 to 12", ErrForecast, o.StepMonths)
+	case !o.End.After(wells.Start):
+		return nil, fmt.Errorf("%w: the forecast ends %s, not after the wells start (%s)", ErrForecast, o.End.Format(time.DateOnly), wells.Start.Format(time.DateOnly))
+	}
+	h := o.Substep
+	if h == 0 {
+		h = 24 * time.Hour
+	}
+	dew := m.DewPressure()
+	// rate is the wet-gas rate at state s with n wells, and the field's
+	// deliverability.
+	rate := func(s ReservoirState, n int) (q, deliv float64, plateau bool) {
+		if s.Exhausted {
+			return 0, 0, false
+		}
+		deliv = float64(n) * wells.Deliverability(s.P, dew > 0 && s.P < dew) * o.Uptime
+		target := math.Inf(1)
+		if s.SalesPerWet > 0 {
+			target = o.Plateau / s.SalesPerWet
+		}
+		if target <= deliv {
+			return target, deliv, true
+		}
+		return deliv, deliv, false
+	}
+	f := &Forecast{}
+	s := m.Initial()
+	t := wells.Start
+	stepStart, stepState := t, s
+	var wellSeconds float64
+	onPlateau := true
+	advance := func(s ReservoirState, dw float64) (ReservoirState, error) { return m.Advance(s, math.Max(dw, 0), 0) }
+	for stop := false; !stop; {
+		stepEnd := stepStart.AddDate(0, o.StepMonths, 0)
+		if stepEnd.After(o.End) {
+			stepEnd = o.End
+		}
+		for t.Before(stepEnd) && !stop {
+			dt := h
+			if next := t.Add(h); next.After(stepEnd) {
+				dt = stepEnd.Sub(t)
+			}
+			n := wells.CountAt(t)
+			sec := dt.Seconds()
+			q1, _, p1 := rate(s, n)
+			s2, err := advance(s, q1*sec/2)
+			if err != nil {
+				return nil, err
+			}
+			q2, _, _ := rate(s2, n)
+			s3, err := advance(s, q2*sec/2)
+			if err != nil {
+				return nil, err
+			}
+			q3, _, _ := rate(s3, n)
+			s4, err := advance(s, q3*sec)
+			if err != nil {
+				return nil, err
+			}
+			q4, _, _ := rate(s4, n)
+			dw := sec * (q1 + 2*q2 + 2*q3 + q4) / 6
+			next, err := advance(s, dw)
+			if err != nil {
+				return nil, err
+			}
+			if !p1 {
+				onPlateau = false
+			} else {
+				f.PlateauEnd = t.Add(dt)
+			}
+			frac := 1.0
+			switch {
+			case next.Exhausted:
+				if dw > 0 {
+					frac = math.Min(1, (next.Cum.WetGas-s.Cum.WetGas)/dw)
+				}
+				f.Stop, stop = StopAbandonment, true
+			case n > 0 && q1 == 0 && !s.Exhausted && wells.Deliverability(s.P, false) == 0:
+				frac, f.Stop, stop = 0, StopNoWells, true
+			}
+			sales0 := q1 * s.SalesPerWet
+			if !stop && o.Minimum > 0 && n > 0 {
+				// The sales rate at the end of the substep; the field stops
+				// where it crosses the minimum, interpolated in time.
+				qe, _, _ := rate(next, wells.CountAt(t.Add(dt)))
+				sales1 := qe * next.SalesPerWet
+				if sales1 < o.Minimum {
+					frac = 1
+					if sales0 > sales1 {
+						frac = math.Max(0, math.Min(1, (sales0-o.Minimum)/(sales0-sales1)))
+					}
+					if frac < 1 {
+						if next, err = advance(s, dw*frac); err != nil {
+							return nil, err
+						}
+					}
+					f.Stop, stop = StopMinimumRate, true
+				}
+			}
+			part := time.Duration(frac * float64(dt))
+			wellSeconds += float64(n) * part.Seconds()
+			t, s = t.Add(part), next
+		}
+		if t.Equal(o.End) && !stop {
+			f.Stop, stop = StopHorizon, true
+		}
+		end := t
+		// The wells producing at the end of the step: those that start on
+		// the next step's first day are not yet among them.
+		st := ForecastStep{Start: stepStart, End: end, Wells: wells.CountAt(end.Add(-time.Nanosecond)), State: s, OnPlateau: onPlateau, WellYears: wellSeconds / secondsPerYear}
+		if d := end.Sub(stepStart).Seconds(); d > 0 {
+			dv := s.Cum.sub(stepState.Cum)
+			st.Rates = Streams{dv.WetGas / d, dv.SeparatorGas / d, dv.Condensate / d, dv.SalesGas / d, dv.SalesEnergy / d, dv.NGL / d, dv.Fuel / d, dv.Removed / d, dv.Injected / d}
+		}
+		_, st.Deliverability, _ = rate(s, st.Wells)
+		if end.After(stepStart) {
+			f.Steps = append(f.Steps, st)
+		}
+		stepStart, stepState, wellSeconds, onPlateau = end, s, 0, true
+	}
+	f.StopDate, f.Final = t, s
+	return f, nil
+}
+
+// secondsPerYear is the mean Gregorian year, 365.2425 days.
+const secondsPerYear = 365.2425 * 86400
