@@ -176,9 +176,10 @@ func NewDepletionModel(fl *eos.Fluid, rec *Recovery, tr cvd.Train, proc GasProce
 // there).
 func DepletionGrid(pi, pa, pd float64, steps int) []float64 {
 	var ps []float64
-	for k := 1; k <= steps; k++ {
+	for k := 1; k < steps; k++ {
 		ps = append(ps, pi-(pi-pa)*float64(k)/float64(steps))
 	}
+	ps = append(ps, pa) // exactly, not rounded below it
 	if pd < pi && pd > pa {
 		ps = append(ps, pd)
 		sort.Sort(sort.Reverse(sort.Float64Slice(ps)))
@@ -427,25 +428,44 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 			n := wells.CountAt(t)
 			sec := dt.Seconds()
 			q1, _, p1 := rate(s, n)
-			s2, err := advance(s, q1*sec/2)
-			if err != nil {
-				return nil, err
+			var dw float64
+			var next ReservoirState
+			held := false
+			if p1 {
+				// On the plateau the substep sells the target exactly: the
+				// withdrawal that yields it, by Newton's method on the
+				// model's cumulative sales gas, if the wells can still
+				// deliver it at the substep's end.
+				var err error
+				if dw, next, held, err = plateauStep(advance, s, o.Plateau*sec); err != nil {
+					return nil, err
+				}
+				if held {
+					if _, _, ok := rate(next, n); !ok && !next.Exhausted {
+						held = false
+					}
+				}
 			}
-			q2, _, _ := rate(s2, n)
-			s3, err := advance(s, q2*sec/2)
-			if err != nil {
-				return nil, err
-			}
-			q3, _, _ := rate(s3, n)
-			s4, err := advance(s, q3*sec)
-			if err != nil {
-				return nil, err
-			}
-			q4, _, _ := rate(s4, n)
-			dw := sec * (q1 + 2*q2 + 2*q3 + q4) / 6
-			next, err := advance(s, dw)
-			if err != nil {
-				return nil, err
+			if !held {
+				s2, err := advance(s, q1*sec/2)
+				if err != nil {
+					return nil, err
+				}
+				q2, _, _ := rate(s2, n)
+				s3, err := advance(s, q2*sec/2)
+				if err != nil {
+					return nil, err
+				}
+				q3, _, _ := rate(s3, n)
+				s4, err := advance(s, q3*sec)
+				if err != nil {
+					return nil, err
+				}
+				q4, _, _ := rate(s4, n)
+				dw = sec * (q1 + 2*q2 + 2*q3 + q4) / 6
+				if next, err = advance(s, dw); err != nil {
+					return nil, err
+				}
 			}
 			if !p1 {
 				onPlateau = false
@@ -474,6 +494,7 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 						frac = math.Max(0, math.Min(1, (sales0-o.Minimum)/(sales0-sales1)))
 					}
 					if frac < 1 {
+						var err error
 						if next, err = advance(s, dw*frac); err != nil {
 							return nil, err
 						}
@@ -504,6 +525,38 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 	}
 	f.StopDate, f.Final = t, s
 	return f, nil
+}
+
+// plateauStep finds the withdrawal from s that yields sales standard m³
+// of sales gas, by Newton's method with the model's sales per wet gas as
+// the derivative; ok is false when it does not converge to 1e-9 of the
+// target in 20 iterations (the caller then integrates the rate instead).
+func plateauStep(advance func(ReservoirState, float64) (ReservoirState, error), s ReservoirState, sales float64) (dw float64, next ReservoirState, ok bool, err error) {
+	if !(s.SalesPerWet > 0) {
+		return 0, s, false, nil
+	}
+	dw = sales / s.SalesPerWet
+	for range 20 {
+		if next, err = advance(s, dw); err != nil {
+			return 0, s, false, err
+		}
+		miss := next.Cum.SalesGas - s.Cum.SalesGas - sales
+		if math.Abs(miss) <= 1e-9*sales {
+			return dw, next, true, nil
+		}
+		if next.Exhausted && miss < 0 {
+			return dw, next, true, nil // the model ends within the substep
+		}
+		slope := next.SalesPerWet
+		if !(slope > 0) {
+			return 0, s, false, nil
+		}
+		dw -= miss / slope
+		if dw < 0 {
+			dw = 0
+		}
+	}
+	return 0, s, false, nil
 }
 
 // secondsPerYear is the mean Gregorian year, 365.2425 days.
