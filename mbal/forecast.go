@@ -394,11 +394,14 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 	dew := m.DewPressure()
 	// rate is the wet-gas rate at state s with n wells, and the field's
 	// deliverability.
+	fieldDeliverability := func(s ReservoirState, n int) float64 {
+		return float64(n) * wells.Deliverability(s.P, dew > 0 && s.P < dew) * o.Uptime
+	}
 	rate := func(s ReservoirState, n int) (q, deliv float64, plateau bool) {
 		if s.Exhausted {
 			return 0, 0, false
 		}
-		deliv = float64(n) * wells.Deliverability(s.P, dew > 0 && s.P < dew) * o.Uptime
+		deliv = fieldDeliverability(s, n)
 		target := math.Inf(1)
 		if s.SalesPerWet > 0 {
 			target = o.Plateau / s.SalesPerWet
@@ -517,7 +520,7 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 			dv := s.Cum.sub(stepState.Cum)
 			st.Rates = Streams{dv.WetGas / d, dv.SeparatorGas / d, dv.Condensate / d, dv.SalesGas / d, dv.SalesEnergy / d, dv.NGL / d, dv.Fuel / d, dv.Removed / d, dv.Injected / d}
 		}
-		_, st.Deliverability, _ = rate(s, st.Wells)
+		st.Deliverability = fieldDeliverability(s, st.Wells)
 		if end.After(stepStart) {
 			f.Steps = append(f.Steps, st)
 		}

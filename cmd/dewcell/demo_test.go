@@ -15,7 +15,7 @@ import (
 
 // demoTables are the results demo writes, each as JSON and its first
 // table as CSV.
-var demoTables = []string{"fluid", "saturation", "envelope", "check", "comparison", "tuning", "comparison_after", "depletion", "expansion", "separator", "in_place", "recovery", "history"}
+var demoTables = []string{"fluid", "saturation", "envelope", "check", "comparison", "tuning", "comparison_after", "depletion", "expansion", "separator", "in_place", "recovery", "forecast", "history"}
 
 // demoFigures are the figures demo draws, each as SVG and PNG.
 var demoFigures = []string{"phase-envelope",
@@ -23,7 +23,9 @@ var demoFigures = []string{"phase-envelope",
 	"lab-liquid-dropout", "lab-produced", "lab-z-factors", "lab-relative-volume",
 	"tune-liquid-dropout", "tune-produced", "tune-z-factors", "tune-relative-volume", "tune-objective",
 	"cvd-liquid-dropout", "cvd-gas-composition", "cce-relative-volume", "cce-liquid-volume",
-	"recovery", "condensate-saturation", "history-p-over-z"}
+	"recovery", "condensate-saturation",
+	"forecast-gas-rate", "forecast-condensate-rate", "forecast-pressure", "forecast-cumulative-gas", "forecast-cumulative-liquid",
+	"history-p-over-z"}
 
 // demoParts are the further tables demo writes as CSV, by result.
 var demoParts = map[string][]string{
@@ -33,6 +35,7 @@ var demoParts = map[string][]string{
 	"separator":  {"compositions", "summary"},
 	"in_place":   {"summary"},
 	"recovery":   {"summary"},
+	"forecast":   {"steps", "summary"},
 	"history":    {"summary"},
 	"expansion":  {"summary"},
 	"saturation": nil, // the summary is its only table

@@ -255,9 +255,7 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 }
 
 // rateText is a rate with its unit, for titles.
-func rateText(u units.Unit, q float64) string {
-	return fmt.Sprintf("%s %s", report.Sig(u.FromSI(q), 4), u.Symbol)
-}
+func rateText(u units.Unit, q float64) string { return report.Quantity(u.FromSI(q), u) }
 
 // forecastFigures draws the rates, the pressure and the cumulatives
 // against time.
@@ -274,21 +272,27 @@ func forecastFigures(sys units.System, res *forecastResult) []*report.Figure {
 		X: tAxis, Y: report.Axis{Label: "Pressure", Unit: pU}}
 	gU, lU := sys.Unit(units.GasVolume), sys.Unit(units.LiquidVolume)
 	last := fc.Final.Cum
-	gFig, gF := report.FigureUnit(gU, gU.FromSI(last.SalesGas))
+	gFig, gF := report.FigureUnit(gU, gU.FromSI(last.WetGas))
 	lFig, lF := report.FigureUnit(lU, lU.FromSI(last.Condensate))
-	cum := &report.Figure{Name: "forecast-cumulative", Title: "Cumulative production", Caption: "Cumulative sales gas and condensate.",
-		X: tAxis, Y: report.Axis{Label: "Sales gas [" + report.PrintedSymbol(gFig.Symbol) + "], condensate [" + report.PrintedSymbol(lFig.Symbol) + "]"}}
+	cumGas := &report.Figure{Name: "forecast-cumulative-gas", Title: "Cumulative gas", Caption: "Cumulative wet gas (the well stream) and sales gas.",
+		X: tAxis, Y: report.Axis{Label: "Cumulative gas", Unit: gFig}}
+	cumLiq := &report.Figure{Name: "forecast-cumulative-liquid", Title: "Cumulative condensate and NGL", Caption: "Cumulative stock-tank condensate and natural-gas liquids.",
+		X: tAxis, Y: report.Axis{Label: "Cumulative liquid", Unit: lFig}}
 	wet := report.Series{Label: "Wet gas", Style: report.Line}
 	sales := report.Series{Label: "Sales gas", Style: report.Line}
 	deliv := report.Series{Label: "Deliverability", Style: report.Dashed}
 	oil := report.Series{Label: "Condensate", Style: report.Line}
 	ngl := report.Series{Label: "NGL", Style: report.Line}
 	pr := report.Series{Label: "Reservoir pressure", Style: report.Line}
+	cw := report.Series{Label: "Wet gas", Style: report.Line}
 	cg := report.Series{Label: "Sales gas", Style: report.Line}
 	co := report.Series{Label: "Condensate", Style: report.Line}
+	cn := report.Series{Label: "NGL", Style: report.Line}
 	start := decimalYear(fc.Steps[0].Start)
 	pr.X, pr.Y = append(pr.X, start), append(pr.Y, pU.FromSI(res.model.Initial().P))
-	cg.X, cg.Y, co.X, co.Y = []float64{start}, []float64{0}, []float64{start}, []float64{0}
+	for _, sr := range []*report.Series{&cw, &cg, &co, &cn} {
+		sr.X, sr.Y = []float64{start}, []float64{0}
+	}
 	hasNGL := false
 	for _, s := range fc.Steps {
 		t0, t1 := decimalYear(s.Start), decimalYear(s.End)
@@ -302,8 +306,11 @@ func forecastFigures(sys units.System, res *forecastResult) []*report.Figure {
 		hasNGL = hasNGL || s.Rates.NGL > 0
 		deliv.X, deliv.Y = append(deliv.X, t1), append(deliv.Y, grU.FromSI(s.Deliverability))
 		pr.X, pr.Y = append(pr.X, t1), append(pr.Y, pU.FromSI(s.State.P))
-		cg.X, cg.Y = append(cg.X, t1), append(cg.Y, gU.FromSI(s.State.Cum.SalesGas)*gF)
-		co.X, co.Y = append(co.X, t1), append(co.Y, lU.FromSI(s.State.Cum.Condensate)*lF)
+		c := s.State.Cum
+		cw.X, cw.Y = append(cw.X, t1), append(cw.Y, gU.FromSI(c.WetGas)*gF)
+		cg.X, cg.Y = append(cg.X, t1), append(cg.Y, gU.FromSI(c.SalesGas)*gF)
+		co.X, co.Y = append(co.X, t1), append(co.Y, lU.FromSI(c.Condensate)*lF)
+		cn.X, cn.Y = append(cn.X, t1), append(cn.Y, lU.FromSI(c.NGL)*lF)
 	}
 	gas.Series = []report.Series{wet, sales, deliv}
 	cond.Series = []report.Series{oil}
@@ -314,6 +321,10 @@ func forecastFigures(sys units.System, res *forecastResult) []*report.Figure {
 	if d := res.model.DewPressure(); d > 0 {
 		pres.Lines = []report.RefLine{{Label: "Dew point", Value: pU.FromSI(d)}}
 	}
-	cum.Series = []report.Series{cg, co}
-	return []*report.Figure{gas, cond, pres, cum}
+	cumGas.Series = []report.Series{cw, cg}
+	cumLiq.Series = []report.Series{co}
+	if hasNGL {
+		cumLiq.Series = append(cumLiq.Series, cn)
+	}
+	return []*report.Figure{gas, cond, pres, cumGas, cumLiq}
 }

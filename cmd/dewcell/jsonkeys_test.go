@@ -50,6 +50,8 @@ var jsonKeyCases = []struct {
 	{"compare-metric", []string{"compare", "../../examples/sablewick.toml", "--units", "metric"}},
 	{"check", []string{"check", "../../examples/sablewick.toml"}},
 	{"tune", []string{"tune", "../../examples/sablewick.toml"}},
+	{"forecast", []string{"forecast", "../../examples/sablewick.toml"}},
+	{"forecast-metric", []string{"forecast", "../../examples/sablewick.toml", "--units", "metric"}},
 	{"demo", []string{"demo"}},
 }
 

@@ -128,6 +128,18 @@ func workflow(o *options, st *study.Study, atDew bool) (out []*Report, err error
 		}
 		add(rec)
 	}
+	switch {
+	case rs.AbandonmentPressure == 0:
+		skipped("production forecast", fmt.Sprintf("%s gives no reservoir.abandonment_pressure", st.File))
+	case st.Wells == nil || st.Production == nil:
+		skipped("production forecast", fmt.Sprintf("%s gives no [wells] and [production]", st.File))
+	default:
+		fr, err := forecastRun(o, st, atDew)
+		if err != nil {
+			return nil, err
+		}
+		add(forecastReport(st, sys, fr))
+	}
 	if len(st.History) == 0 {
 		skipped("material balance on production history", fmt.Sprintf("%s has no [[history]]", st.File))
 		return out, nil
