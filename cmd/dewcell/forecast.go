@@ -9,6 +9,7 @@ import (
 	"dewcell/cmd/dewcell/internal/report"
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/cvd"
 	"dewcell/mbal"
 )
 
@@ -37,6 +38,8 @@ type forecastResult struct {
 	model *mbal.DepletionModel
 	fc    *mbal.Forecast
 	years []yearVolumes
+	sales *salesGas
+	std   units.Conditions
 }
 
 // yearVolumes are the volumes of one calendar year of a forecast.
@@ -80,7 +83,11 @@ func forecastRun(o *options, st *study.Study, atDew bool) (*forecastResult, erro
 	if err != nil {
 		return nil, reservoirError(st, o.sys, "depletion recovery for the forecast", err)
 	}
-	proc, err := plantOf(st)
+	pl, proc, err := plantOf(st, o.sys)
+	if err != nil {
+		return nil, err
+	}
+	sales, err := salesGasOf(st, o.sys, tr, pl)
 	if err != nil {
 		return nil, err
 	}
@@ -99,7 +106,7 @@ func forecastRun(o *options, st *study.Study, atDew bool) (*forecastResult, erro
 	if err != nil {
 		return nil, fmt.Errorf("the forecast: %w", err)
 	}
-	out := &forecastResult{res: res, rec: rec, model: model, fc: fc}
+	out := &forecastResult{res: res, rec: rec, model: model, fc: fc, sales: sales, std: st.StandardConditions(o.sys)}
 	out.years = yearsOf(fc)
 	return out, nil
 }
@@ -145,10 +152,67 @@ func yearSeconds(y int) float64 {
 	return time.Date(y+1, 1, 1, 0, 0, 0, 0, time.UTC).Sub(time.Date(y, 1, 1, 0, 0, 0, 0, time.UTC)).Seconds()
 }
 
-// plantOf is the study's gas plant as the forecast uses it; nil without
-// [plant].
-func plantOf(st *study.Study) (mbal.GasProcessor, error) {
-	return nil, nil
+// plantOf is the study's gas plant ([plant]; without it, a plant that
+// sells the separator gas as it is) as the forecast uses it: the sales gas,
+// its energy by the gross heating value of its composition, the NGL, fuel
+// and gas removed, in standard volumes at the study's conditions.
+func plantOf(st *study.Study, sys units.System) (mbal.Plant, mbal.GasProcessor, error) {
+	comps := st.Fluid.Components()
+	var pl mbal.Plant
+	if p := st.Plant; p != nil {
+		pl = mbal.Plant{Remove: p.Remove, NGL: p.NGL, Fuel: p.Fuel}
+	}
+	if err := pl.Check(comps); err != nil {
+		return pl, nil, cli.Exit(fmt.Sprintf("%s: [plant]: %v", st.File, cause(err)), exitUsage)
+	}
+	std := st.StandardConditions(sys)
+	vsc := cvd.Conditions{T: std.T, P: std.P}.IdealGasVolume()
+	return pl, func(gas []float64, moles float64) (mbal.Processed, error) {
+		r, err := pl.Process(comps, gas, moles)
+		if err != nil {
+			return mbal.Processed{}, err
+		}
+		out := mbal.Processed{SalesGas: r.Sales * vsc, NGL: r.NGLVolume, Fuel: r.Fuel * vsc, Removed: r.Removed * vsc}
+		if r.Sales > 0 {
+			hv, err := mbal.GrossHeatingValue(comps, r.SalesComposition)
+			if err != nil {
+				return mbal.Processed{}, fmt.Errorf("heating value of the sales gas: %w", err)
+			}
+			out.SalesEnergy = r.Sales * hv
+		}
+		return out, nil
+	}, nil
+}
+
+// salesGas is the sales gas the plant makes at discovery, from the
+// reservoir fluid through the separators and the plant: its composition,
+// its ideal gross heating value per mole and its Z at standard conditions.
+type salesGas struct {
+	composition []float64
+	hv, z       float64
+}
+
+func salesGasOf(st *study.Study, sys units.System, tr cvd.Train, pl mbal.Plant) (*salesGas, error) {
+	sep, err := cvd.NewSeparator(st.Fluid, tr, nil)
+	if err != nil {
+		return nil, err
+	}
+	sr, err := sep.Separate(st.Z)
+	if err != nil {
+		return nil, fmt.Errorf("the reservoir fluid through the separators: %w", err)
+	}
+	comps := st.Fluid.Components()
+	r, err := pl.Process(comps, sr.Gas, 1)
+	if err != nil {
+		return nil, fmt.Errorf("the separator gas through the plant: %w", err)
+	}
+	hv, err := mbal.GrossHeatingValue(comps, r.SalesComposition)
+	if err != nil {
+		return nil, fmt.Errorf("heating value of the sales gas: %w", err)
+	}
+	std := st.StandardConditions(sys)
+	pp, _ := st.Fluid.Props(std.T, std.P, r.SalesComposition)
+	return &salesGas{composition: r.SalesComposition, hv: hv, z: pp.Z}, nil
 }
 
 // decimalYear is t as a year with its fraction, for the figures' time
@@ -190,6 +254,20 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 		{Column: Column{Name: "ultimate_ngl", Label: "Ultimate NGL", Unit: lU}, Value: lU.FromSI(fin.NGL)},
 		{Column: Column{Name: "wet_gas_recovery", Label: "Wet gas recovery", Unit: units.Percent, Format: report.Fixed(1)}, Value: units.Percent.FromSI(fin.WetGas / ip.WetGas)},
 		{Column: Column{Name: "condensate_recovery", Label: "Condensate recovery", Unit: units.Percent, Format: report.Fixed(1)}, Value: units.Percent.FromSI(fin.Condensate / ip.Condensate)},
+		{Column: Column{Name: "ultimate_sales_energy", Label: "Ultimate sales gas, gross heating value", Unit: sys.Unit(units.Energy), Format: report.Format{Scaled: true}}, Value: sys.Unit(units.Energy).FromSI(fin.SalesEnergy)},
+	}
+	if sg := res.sales; sg != nil {
+		perVol := mbal.HeatingValuePerVolume(sg.hv, sg.z, res.std.T, res.std.P)
+		r.Fields = append(r.Fields,
+			Field{Column: Column{Name: "heating_value", Label: "Sales gas at discovery: gross heating value", Unit: units.BtuPerScf, Format: report.Fixed(1)}, Value: units.BtuPerScf.FromSI(perVol)},
+			Field{Column: Column{Name: "heating_value", Label: "Sales gas at discovery: gross heating value", Unit: units.MegajoulePerSm3, Format: report.Fixed(3)}, Value: units.MegajoulePerSm3.FromSI(perVol)},
+			Field{Column: Column{Name: "heating_value_ideal", Label: "Gross heating value per mole (ideal gas)", Unit: kjPerMol, Format: report.Fixed(2)}, Value: sg.hv / 1000},
+			Field{Column: Column{Name: "sales_gas_z", Label: "Z of the sales gas at standard conditions", Format: report.Format{Decimals: 5}}, Value: sg.z})
+		names := make([]string, st.Fluid.N())
+		for i := range names {
+			names[i] = st.Fluid.Component(i).Name
+		}
+		r.Vectors = append(r.Vectors, report.Vector{Name: "sales_gas_composition", Title: "sales gas at discovery, mole fractions", Label: "component", Labels: names, Values: sg.composition})
 	}
 	steps := Table{Name: "steps", Title: "forecast per step (rates are the step's averages per calendar day; cumulatives at its end)",
 		Columns: []Column{
@@ -234,6 +312,7 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 			{Name: "pressure", Label: "Pressure at the year's end", Unit: pU},
 			{Name: "wet_gas", Unit: gU},
 			{Name: "sales_gas", Unit: gU},
+			{Name: "sales_energy", Label: "Sales gas, gross heating value", Unit: sys.Unit(units.Energy), Format: report.Format{Scaled: true}},
 			{Name: "condensate", Unit: lU},
 			{Name: "ngl", Label: "NGL", Unit: lU},
 			{Name: "fuel", Unit: gU},
@@ -244,7 +323,7 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 	for _, y := range res.years {
 		v := y.Volumes
 		sec := yearSeconds(y.Year)
-		years.Rows = append(years.Rows, []any{y.Year, y.Wells, pU.FromSI(y.EndPressure), gU.FromSI(v.WetGas), gU.FromSI(v.SalesGas), lU.FromSI(v.Condensate),
+		years.Rows = append(years.Rows, []any{y.Year, y.Wells, pU.FromSI(y.EndPressure), gU.FromSI(v.WetGas), gU.FromSI(v.SalesGas), sys.Unit(units.Energy).FromSI(v.SalesEnergy), lU.FromSI(v.Condensate),
 			lU.FromSI(v.NGL), gU.FromSI(v.Fuel), gU.FromSI(v.Removed), grU.FromSI(v.SalesGas / sec), lrU.FromSI(v.Condensate / sec)})
 	}
 	r.Tables = append(r.Tables, years, steps)
@@ -253,6 +332,9 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 		len(res.rec.Steps), pressureNote(sys, res.res.Pi), pressureNote(sys, res.res.Abandonment)))
 	return r
 }
+
+// kjPerMol labels heating values per mole.
+var kjPerMol = units.Unit{Symbol: "kJ/mol", Key: "kj_mol"}
 
 // rateText is a rate with its unit, for titles.
 func rateText(u units.Unit, q float64) string { return report.Quantity(u.FromSI(q), u) }

@@ -16,6 +16,10 @@ var (
 	millionM3      = Unit{Kind: Volume, Symbol: "1e6 m3", Key: "1e6m3", scale: 1e6, inv: 1 / 1e6}
 	microPerPsi    = Unit{Kind: Compressibility, Symbol: "1e-6/psi", Key: "per_psi", scale: 1e-6 / PaPerPsi, inv: PaPerPsi / 1e-6}
 	microPerBar    = Unit{Kind: Compressibility, Symbol: "1e-6/bar", Key: "per_bar", scale: 1e-6 / PaPerBar, inv: PaPerBar / 1e-6}
+	millionMMBtu   = Unit{Kind: Energy, Symbol: "1e6 MMBtu", Key: "mmbtu", scale: 1e12 * joulesPerBtu, inv: 1 / (1e12 * joulesPerBtu)}
+	thousandMMBtu  = Unit{Kind: Energy, Symbol: "1e3 MMBtu", Key: "mmbtu", scale: 1e9 * joulesPerBtu, inv: 1 / (1e9 * joulesPerBtu)}
+	terajoule      = Unit{Kind: Energy, Symbol: "TJ", Key: "gj", scale: 1e12, inv: 1e-12}
+	petajoule      = Unit{Kind: Energy, Symbol: "PJ", Key: "gj", scale: 1e15, inv: 1e-15}
 )
 
 var multiples = map[string][]Unit{
@@ -27,6 +31,8 @@ var multiples = map[string][]Unit{
 	"vol:" + CuMetre.Symbol:   {CuMetre, thousandM3, millionM3},
 	"cmp:" + PerPsi.Symbol:    {microPerPsi},
 	"cmp:" + PerBar.Symbol:    {microPerBar},
+	"nrg:" + MMBtu.Symbol:     {MMBtu, thousandMMBtu, millionMMBtu},
+	"nrg:" + Gigajoule.Symbol: {Gigajoule, terajoule, petajoule},
 }
 
 // family is the key of the multiples of u, by the smallest of them.
@@ -48,6 +54,12 @@ func family(u Unit) string {
 		for _, f := range []Unit{Barrel, CuMetre} {
 			if inFamily(u, multiples["vol:"+f.Symbol]) {
 				return "vol:" + f.Symbol
+			}
+		}
+	case Energy:
+		for _, f := range []Unit{MMBtu, Gigajoule} {
+			if inFamily(u, multiples["nrg:"+f.Symbol]) {
+				return "nrg:" + f.Symbol
 			}
 		}
 	case Compressibility:

@@ -54,6 +54,8 @@ var systems = [2]map[Kind]Unit{
 		LiquidPerBulk:   STBPerAcreFt,
 		GasRate:         MMscfPerDay,
 		LiquidRate:      STBPerDay,
+		Energy:          MMBtu,
+		HeatingValue:    BtuPerScf,
 	},
 	Metric: {
 		Temperature:     DegC,
@@ -72,6 +74,8 @@ var systems = [2]map[Kind]Unit{
 		LiquidPerBulk:   LiquidSm3PerHaM,
 		GasRate:         MillionSm3PerDay,
 		LiquidRate:      Sm3PerDay,
+		Energy:          Gigajoule,
+		HeatingValue:    MegajoulePerSm3,
 	},
 }
 

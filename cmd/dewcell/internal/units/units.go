@@ -60,6 +60,8 @@ const (
 	LiquidGasRatio       // m³ of stock-tank liquid per standard m³ of gas (a condensate-gas ratio)
 	GasRate              // standard m³ of gas per second (shown per day)
 	LiquidRate           // m³ of stock-tank liquid per second (shown per day)
+	Energy               // J (output only)
+	HeatingValue         // J per standard m³ of gas (output only)
 )
 
 var kindNames = [...]string{
@@ -82,6 +84,8 @@ var kindNames = [...]string{
 	LiquidGasRatio:  "condensate-gas ratio",
 	GasRate:         "gas rate",
 	LiquidRate:      "liquid rate",
+	Energy:          "energy",
+	HeatingValue:    "heating value",
 }
 
 // kindExamples show a user what to write for each kind.
@@ -105,6 +109,8 @@ var kindExamples = [...]string{
 	LiquidGasRatio:  `"95 STB/MMscf", "0.095 STB/Mscf" or "534 sm3/1e6sm3"`,
 	GasRate:         `"45 MMscf/d", "9000 Mscf/d", "1.3 1e6 sm3/d" or "1.3e6 sm3/d"`,
 	LiquidRate:      `"4500 STB/d", "4500 bbl/d" or "715 sm3/d"`,
+	Energy:          `"1.2e6 MMBtu" or "1.27e6 GJ" (output only)`,
+	HeatingValue:    `"1050 Btu/scf" or "39.1 MJ/sm3" (output only)`,
 }
 
 func (k Kind) String() string {
