@@ -29,7 +29,7 @@ func checkCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
-			return o.emit(checkReport(st, o.sys, lab, res))
+			return o.emitPlots(c, checkReport(st, o.sys, lab, res))
 		})
 }
 

@@ -25,7 +25,7 @@ func compareCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
-			return o.emit(comparisonReport(st, o.sys, cmp, nil))
+			return o.emitPlots(c, comparisonReport(st, o.sys, cmp, nil))
 		})
 }
 

@@ -24,7 +24,7 @@ var demoFigures = []string{"phase-envelope",
 	"tune-liquid-dropout", "tune-produced", "tune-z-factors", "tune-relative-volume", "tune-objective",
 	"cvd-liquid-dropout", "cvd-gas-composition", "cce-relative-volume", "cce-liquid-volume",
 	"recovery", "condensate-saturation",
-	"forecast-gas-rate", "forecast-condensate-rate", "forecast-pressure", "forecast-cumulative-gas", "forecast-cumulative-liquid",
+	"forecast-gas-rate", "forecast-condensate-rate", "forecast-pressure", "forecast-cumulative-gas", "forecast-cumulative-liquid", "forecast-cash-flow",
 	"history-p-over-z"}
 
 // demoParts are the further tables demo writes as CSV, by result.
@@ -35,7 +35,7 @@ var demoParts = map[string][]string{
 	"separator":  {"compositions", "summary"},
 	"in_place":   {"summary"},
 	"recovery":   {"summary"},
-	"forecast":   {"steps", "summary"},
+	"forecast":   {"steps", "summary", "cash-flow"},
 	"history":    {"summary"},
 	"expansion":  {"summary"},
 	"saturation": nil, // the summary is its only table

@@ -2,6 +2,8 @@ package main
 
 import (
 	"fmt"
+	"math"
+	"strings"
 	"time"
 
 	"github.com/urfave/cli/v2"
@@ -27,7 +29,7 @@ func forecastCommand() *cli.Command {
 			if err != nil {
 				return err
 			}
-			return o.emit(forecastReport(st, o.sys, res))
+			return o.emitPlots(c, forecastReport(st, o.sys, res))
 		})
 }
 
@@ -40,6 +42,7 @@ type forecastResult struct {
 	years []yearVolumes
 	sales *salesGas
 	std   units.Conditions
+	cash  *mbal.CashFlowResult // nil without [economics]
 }
 
 // yearVolumes are the volumes of one calendar year of a forecast.
@@ -108,7 +111,42 @@ func forecastRun(o *options, st *study.Study, atDew bool) (*forecastResult, erro
 	}
 	out := &forecastResult{res: res, rec: rec, model: model, fc: fc, sales: sales, std: st.StandardConditions(o.sys)}
 	out.years = yearsOf(fc)
+	if st.Economics != nil {
+		if out.cash, err = cashFlowOf(st, out); err != nil {
+			return nil, err
+		}
+	}
 	return out, nil
+}
+
+// cashFlowOf is the yearly cash flow of the forecast fr with the study's
+// [economics]; the abandonment cost falls in the last year of production.
+func cashFlowOf(st *study.Study, fr *forecastResult) (*mbal.CashFlowResult, error) {
+	e := st.Economics
+	me := mbal.Economics{Currency: e.Currency, GasPrice: e.GasPrice, CondensatePrice: e.CondensatePrice, NGLPrice: e.NGLPrice,
+		Royalty: e.Royalty, DiscountRate: e.DiscountRate, OpexFixed: e.OpexFixed, OpexPerWell: e.OpexPerWell,
+		OpexGas: e.OpexGas, OpexCondensate: e.OpexCondensate, AbandonmentCost: e.AbandonmentCost}
+	if !e.GasPerEnergy {
+		me.GasBasis = mbal.GasPerVolume
+	}
+	if !e.MidYear {
+		me.Discounting = mbal.EndOfYear
+	}
+	for _, c := range e.Capex {
+		me.Capex = append(me.Capex, mbal.Capex{Date: c.Date, Amount: c.Amount, What: c.What})
+	}
+	var ys []mbal.YearVolumes
+	for _, y := range fr.years {
+		v := y.Volumes
+		ys = append(ys, mbal.YearVolumes{Year: y.Year, SalesGas: v.SalesGas, SalesEnergy: v.SalesEnergy, Condensate: v.Condensate, NGL: v.NGL,
+			WellYears: y.WellYears, ProducingFraction: y.ProducingFraction})
+	}
+	last := fr.fc.StopDate.Add(-time.Nanosecond).Year()
+	cf, err := mbal.CashFlow(me, ys, last)
+	if err != nil {
+		return nil, cli.Exit(fmt.Sprintf("%s: [economics]: %v", st.File, cause(err)), exitUsage)
+	}
+	return cf, nil
 }
 
 // yearsOf sums a forecast's steps by calendar year; a step that spans two
@@ -328,6 +366,9 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 	}
 	r.Tables = append(r.Tables, years, steps)
 	r.Figures = forecastFigures(sys, res)
+	if res.cash != nil {
+		cashFlowReport(r, st, sys, res)
+	}
 	r.Note(fmt.Sprintf("the reservoir is the step-converged depletion of recover, tabulated at %d pressures from %s to %s; the cumulative withdrawal is integrated in daily steps",
 		len(res.rec.Steps), pressureNote(sys, res.res.Pi), pressureNote(sys, res.res.Abandonment)))
 	return r
@@ -409,4 +450,114 @@ func forecastFigures(sys units.System, res *forecastResult) []*report.Figure {
 		cumLiq.Series = append(cumLiq.Series, cn)
 	}
 	return []*report.Figure{gas, cond, pres, cumGas, cumLiq}
+}
+
+// cashFlowReport adds the economics of the forecast to r: NPV, IRR,
+// payback, profit and unit costs, the yearly cash flow and its figure.
+func cashFlowReport(r *Report, st *study.Study, sys units.System, res *forecastResult) {
+	cf, e := res.cash, st.Economics
+	cur := e.Currency
+	money := report.Format{Decimals: 0, MinDigits: 1}
+	conv := "mid-year"
+	if !e.MidYear {
+		conv = "end-of-year"
+	}
+	first := cf.Years[0].Year
+	r.Fields = append(r.Fields,
+		Field{Column: Column{Name: "currency"}, Value: cur},
+		Field{Column: Column{Name: "npv", Label: fmt.Sprintf("NPV at %s %% a year (%s, to 1 January %d)", report.Sig(100*e.DiscountRate, 3), conv, first), Symbol: cur, Format: money}, Value: cf.NPV},
+		Field{Column: Column{Name: "undiscounted_profit", Label: "Undiscounted profit", Symbol: cur, Format: money}, Value: cf.UndiscountedProfit})
+	irr, known := cf.IRR, cf.IRRKnown
+	if !known {
+		if rr, ok := profitableBelow(cf, e); ok {
+			irr, known = rr, true
+			r.Note(fmt.Sprintf("the net cash flow changes sign more than once (%s), so NPV = 0 at more than one rate; the IRR given is the rate above which NPV turns negative",
+				cf.IRRWhy))
+		}
+	}
+	if known {
+		r.Fields = append(r.Fields,
+			Field{Column: Column{Name: "irr", Label: "IRR (fraction a year)", Verbose: true}, Value: irr},
+			Field{Column: Column{Name: "irr", Label: "IRR", Unit: units.Percent, Format: report.Fixed(1)}, Value: units.Percent.FromSI(irr)})
+	} else {
+		r.Fields = append(r.Fields, Field{Column: Column{Name: "irr_note", Label: "IRR"}, Value: "none: " + cf.IRRWhy})
+		r.Warn("the cash flow has no single internal rate of return: " + cf.IRRWhy)
+	}
+	if cf.PaybackKnown {
+		r.Fields = append(r.Fields,
+			Field{Column: Column{Name: "payback_date", Label: "Payback"}, Value: cf.Payback.Format(time.DateOnly)},
+			Field{Column: Column{Name: "payback_years", Label: fmt.Sprintf("Payback, years from 1 January %d", first), Format: report.Fixed(1)}, Value: cf.PaybackYears})
+	} else {
+		r.Fields = append(r.Fields, Field{Column: Column{Name: "payback_date", Label: "Payback"}, Value: "never"})
+	}
+	gasUnit, gasPer := "Mscf", 1e3*units.M3PerFt3
+	eUnit, ePer := "MMBtu", units.MMBtu.ToSI(1)
+	boe, boePer := "boe", units.M3PerBbl
+	if sys == units.Metric {
+		gasUnit, gasPer, eUnit, ePer, boe, boePer = "1e3 sm3", 1e3, "GJ", 1e9, "m3 oe", 1
+	}
+	key := func(s string) string { return strings.NewReplacer(" ", "", "/", "_").Replace(strings.ToLower(s)) }
+	show := func(s string) string { return strings.Replace(s, "1e3 ", "10^3 ", 1) }
+	r.Fields = append(r.Fields,
+		Field{Column: Column{Name: "unit_cost_per_" + key(gasUnit), Label: "Unit cost per sales gas (capex, opex, abandonment)", Symbol: cur + "/" + show(gasUnit), Format: report.Fixed(2)}, Value: cf.UnitCostPerSalesGas * gasPer},
+		Field{Column: Column{Name: "unit_cost_per_" + key(eUnit), Label: "Unit cost per energy sold", Symbol: cur + "/" + eUnit, Format: report.Fixed(2)}, Value: cf.UnitCostPerEnergy * ePer},
+		Field{Column: Column{Name: "unit_technical_cost_per_" + key(boe), Label: fmt.Sprintf("Unit technical cost per oil equivalent (gas at %s scf/bbl)", report.Sig(cf.GasPerOilEquivalent*units.M3PerBbl/units.M3PerFt3, 4)), Symbol: cur + "/" + boe, Format: report.Fixed(2)}, Value: cf.UnitTechnicalCost * boePer})
+	t := Table{Name: "cash_flow", Title: fmt.Sprintf("yearly cash flow, %s (discounted to 1 January %d, %s)", cur, first, conv),
+		Columns: []Column{
+			{Name: "year"},
+			{Name: "gas_revenue", Symbol: cur, Format: money},
+			{Name: "condensate_revenue", Symbol: cur, Format: money},
+			{Name: "ngl_revenue", Label: "NGL revenue", Symbol: cur, Format: money},
+			{Name: "royalty", Symbol: cur, Format: money},
+			{Name: "opex", Symbol: cur, Format: money},
+			{Name: "capex", Symbol: cur, Format: money},
+			{Name: "abandonment", Symbol: cur, Format: money},
+			{Name: "net_cash_flow", Symbol: cur, Format: money},
+			{Name: "discount_factor", Format: report.Fixed(4)},
+			{Name: "discounted_cash_flow", Symbol: cur, Format: money},
+			{Name: "cumulative_cash_flow", Symbol: cur, Format: money},
+			{Name: "cumulative_discounted_cash_flow", Symbol: cur, Format: money},
+		}}
+	fig := &report.Figure{Name: "forecast-cash-flow", Title: "Yearly cash flow", Caption: fmt.Sprintf("Net cash flow of each year (bars) and the cumulative discounted cash flow at %s %% a year, %s.", report.Sig(100*e.DiscountRate, 3), cur),
+		X: report.Axis{Label: "Year"}, Y: report.Axis{Label: "Cash flow [10^6 " + cur + "]"}}
+	bars := report.Series{Label: "Net cash flow", Style: report.Bars}
+	cum := report.Series{Label: "Cumulative discounted", Style: report.LinePoints}
+	for _, y := range cf.Years {
+		t.Rows = append(t.Rows, []any{y.Year, y.GasRevenue, y.CondensateRevenue, y.NGLRevenue, y.Royalty, y.Opex, y.Capex, y.Abandonment, y.Net,
+			y.DiscountFactor, y.Discounted, y.Cumulative, y.CumulativeDiscounted})
+		bars.X, bars.Y = append(bars.X, float64(y.Year)+0.5), append(bars.Y, y.Net/1e6)
+		cum.X, cum.Y = append(cum.X, float64(y.Year)+1), append(cum.Y, y.CumulativeDiscounted/1e6)
+	}
+	fig.Series = []report.Series{bars, cum}
+	fig.Lines = []report.RefLine{{Value: 0}}
+	r.Tables = append(r.Tables, t)
+	r.Figures = append(r.Figures, fig)
+	if !res.fc.StopDate.Before(st.Production.End) {
+		r.Note("the forecast reaches its end while the field still produces: the cash flow stops there, with the abandonment cost in its last year")
+	}
+	r.Note("no tax beyond the royalty; the economics are a screening estimate at constant prices and costs")
+}
+
+// profitableBelow picks, among the several rates at which the NPV of cf is
+// zero, the highest one at which it turns from positive below to negative
+// above: the discount rate beyond which the project loses money, the IRR
+// of a conventional investment whose sign changes again only through a
+// final abandonment cost. ok is false when there is none.
+func profitableBelow(cf *mbal.CashFlowResult, e *study.Economics) (float64, bool) {
+	d := mbal.MidYear
+	if !e.MidYear {
+		d = mbal.EndOfYear
+	}
+	net := make([]float64, len(cf.Years))
+	for i, y := range cf.Years {
+		net[i] = y.Net
+	}
+	best, ok := 0.0, false
+	for _, r := range cf.IRRs {
+		h := 1e-6 * (1 + math.Abs(r))
+		if mbal.NPV(r-h, net, d) > 0 && mbal.NPV(r+h, net, d) < 0 && (!ok || r > best) {
+			best, ok = r, true
+		}
+	}
+	return best, ok
 }

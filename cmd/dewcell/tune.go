@@ -59,7 +59,7 @@ func tuneCommand() *cli.Command {
 				}
 				r.Note(fmt.Sprintf("the tuned study is saved as %s; every command runs on it, and compare on it gives the statistics after tuning", save))
 			}
-			return o.emit(r)
+			return o.emitPlots(c, r)
 		})
 }
 

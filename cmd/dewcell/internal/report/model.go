@@ -316,6 +316,9 @@ const (
 	Points                  // markers only: measurements, data
 	LinePoints              // a line with a marker at every point: model values at few points
 	Dashed                  // a dashed line: a fit, a bound
+	// Bars draws a filled bar from zero to each point, centred on its x,
+	// 0.8 of the closest spacing of the points wide: yearly amounts.
+	Bars
 )
 
 // A Series is one curve of a figure.

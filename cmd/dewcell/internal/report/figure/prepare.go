@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
 	"strings"
 	"unicode"
 
@@ -92,6 +93,18 @@ func newScene(f *report.Figure) (*scene, error) {
 				xs, ys = append(xs, x), append(ys, y)
 			} else {
 				out.x[j], out.y[j] = math.NaN(), math.NaN()
+			}
+		}
+		if sr.Style == report.Bars {
+			// The bars' sides and their feet at zero are in the ranges.
+			w := barWidth(out.x)
+			for j := range out.x {
+				if !math.IsNaN(out.x[j]) {
+					xs = append(xs, out.x[j]-w/2, out.x[j]+w/2)
+					if drawable(0, &s.y) {
+						ys = append(ys, 0)
+					}
+				}
 			}
 		}
 		s.series = append(s.series, out)
@@ -239,4 +252,26 @@ func clean(s string) string {
 		}
 		return r
 	}, s)
+}
+
+// barWidth is the width of the bars of a series at x: 0.8 of the closest
+// spacing of its points, or 0.8 with a single point.
+func barWidth(x []float64) float64 {
+	var xs []float64
+	for _, v := range x {
+		if !math.IsNaN(v) {
+			xs = append(xs, v)
+		}
+	}
+	sort.Float64s(xs)
+	gap := math.Inf(1)
+	for i := 1; i < len(xs); i++ {
+		if d := xs[i] - xs[i-1]; d > 0 && d < gap {
+			gap = d
+		}
+	}
+	if math.IsInf(gap, 1) {
+		gap = 1
+	}
+	return 0.8 * gap
 }

@@ -9,6 +9,8 @@ import (
 	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+
+	"dewcell/cmd/dewcell/internal/report"
 )
 
 // Spacing, in points.
@@ -149,6 +151,10 @@ func (r refLines) Plot(c draw.Canvas, p *plot.Plot) {
 type seriesPlot struct{ s *series }
 
 func (sp seriesPlot) Plot(c draw.Canvas, p *plot.Plot) {
+	if sp.s.style == report.Bars {
+		sp.bars(c, p)
+		return
+	}
 	line, glyph := seriesLook(sp.s.index, sp.s.style)
 	runs := sp.s.runs(p, &c)
 	if line.Width > 0 {
@@ -166,6 +172,25 @@ func (sp seriesPlot) Plot(c draw.Canvas, p *plot.Plot) {
 				c.DrawGlyph(glyph, pt)
 			}
 		}
+	}
+}
+
+// bars draws the series as filled bars from zero, clipped to the plot.
+func (sp seriesPlot) bars(c draw.Canvas, p *plot.Plot) {
+	trX, trY := p.Transforms(&c)
+	w := barWidth(sp.s.x)
+	col := palette[sp.s.index%len(palette)]
+	clamp := func(v, lo, hi vg.Length) vg.Length { return max(lo, min(hi, v)) }
+	for i, x := range sp.s.x {
+		if math.IsNaN(x) {
+			continue
+		}
+		x0, x1 := clamp(trX(x-w/2), c.Min.X, c.Max.X), clamp(trX(x+w/2), c.Min.X, c.Max.X)
+		y0, y1 := clamp(trY(0), c.Min.Y, c.Max.Y), clamp(trY(sp.s.y[i]), c.Min.Y, c.Max.Y)
+		if x1 <= x0 || y0 == y1 {
+			continue
+		}
+		c.FillPolygon(col, []vg.Point{{X: x0, Y: y0}, {X: x1, Y: y0}, {X: x1, Y: y1}, {X: x0, Y: y1}})
 	}
 }
 
