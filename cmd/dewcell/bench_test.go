@@ -74,3 +74,15 @@ func BenchmarkTuneCommand(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkForecastCommand: the forecast command on the bundled example
+// (the depletion tabulated at 122 pressures, the plant, thirteen years of
+// daily steps, the cash flow, the JSON report), as a user runs it.
+func BenchmarkForecastCommand(b *testing.B) {
+	b.ReportAllocs()
+	for b.Loop() {
+		if code := run([]string{"dewcell", "forecast", "--format", "json", exampleStudy}, io.Discard, io.Discard); code != 0 {
+			b.Fatalf("exit %d", code)
+		}
+	}
+}

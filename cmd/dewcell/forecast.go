@@ -357,12 +357,27 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 			{Name: "removed", Label: "Gas removed", Unit: gU},
 			{Name: "sales_gas_rate", Label: "Sales gas, average rate", Unit: grU},
 			{Name: "condensate_rate", Label: "Condensate, average rate", Unit: lrU},
+			{Name: "cgr", Label: "CGR", Unit: surfaceUnitsOf(sys).cgr.Unit},
+			{Name: "cum_wet_gas", Unit: gU},
+			{Name: "cum_sales_gas", Unit: gU},
+			{Name: "cum_condensate", Unit: lU},
+			{Name: "cum_ngl", Label: "Cum NGL", Unit: lU},
+			{Name: "wet_gas_recovery", Unit: units.Percent, Format: report.Fixed(2)},
+			{Name: "condensate_recovery", Unit: units.Percent, Format: report.Fixed(2)},
 		}}
+	var cum mbal.Streams
 	for _, y := range res.years {
 		v := y.Volumes
 		sec := yearSeconds(y.Year)
+		cum.WetGas, cum.SalesGas, cum.Condensate, cum.NGL = cum.WetGas+v.WetGas, cum.SalesGas+v.SalesGas, cum.Condensate+v.Condensate, cum.NGL+v.NGL
+		cgr := any(nil)
+		if v.SeparatorGas > 0 {
+			cgr = cgrU.of(v.Condensate / v.SeparatorGas)
+		}
 		years.Rows = append(years.Rows, []any{y.Year, y.Wells, pU.FromSI(y.EndPressure), gU.FromSI(v.WetGas), gU.FromSI(v.SalesGas), sys.Unit(units.Energy).FromSI(v.SalesEnergy), lU.FromSI(v.Condensate),
-			lU.FromSI(v.NGL), gU.FromSI(v.Fuel), gU.FromSI(v.Removed), grU.FromSI(v.SalesGas / sec), lrU.FromSI(v.Condensate / sec)})
+			lU.FromSI(v.NGL), gU.FromSI(v.Fuel), gU.FromSI(v.Removed), grU.FromSI(v.SalesGas / sec), lrU.FromSI(v.Condensate / sec), cgr,
+			gU.FromSI(cum.WetGas), gU.FromSI(cum.SalesGas), lU.FromSI(cum.Condensate), lU.FromSI(cum.NGL),
+			units.Percent.FromSI(cum.WetGas / ip.WetGas), units.Percent.FromSI(cum.Condensate / ip.Condensate)})
 	}
 	r.Tables = append(r.Tables, years, steps)
 	r.Figures = forecastFigures(sys, res)
