@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -138,8 +139,15 @@ func cashFlowOf(st *study.Study, fr *forecastResult) (*mbal.CashFlowResult, erro
 	var ys []mbal.YearVolumes
 	for _, y := range fr.years {
 		v := y.Volumes
+		if math.IsNaN(v.SalesEnergy) {
+			v.SalesEnergy = 0 // unknown, and not priced: the gas sells by volume
+		}
 		ys = append(ys, mbal.YearVolumes{Year: y.Year, SalesGas: v.SalesGas, SalesEnergy: v.SalesEnergy, Condensate: v.Condensate, NGL: v.NGL,
 			WellYears: y.WellYears, ProducingFraction: y.ProducingFraction})
+	}
+	if e.GasPerEnergy && math.IsNaN(fr.fc.Final.Cum.SalesEnergy) {
+		return nil, cli.Exit(fmt.Sprintf("%s: economics.gas_price is per energy, but the sales gas's heating value is unknown (%s): give the price per volume, such as \"3.6 %s/Mscf\"",
+			st.File, fr.sales.unknown, e.Currency), exitUsage)
 	}
 	last := fr.fc.StopDate.Add(-time.Nanosecond).Year()
 	cf, err := mbal.CashFlow(me, ys, last)
@@ -213,7 +221,10 @@ func plantOf(st *study.Study, sys units.System) (mbal.Plant, mbal.GasProcessor, 
 		out := mbal.Processed{SalesGas: r.Sales * vsc, NGL: r.NGLVolume, Fuel: r.Fuel * vsc, Removed: r.Removed * vsc}
 		if r.Sales > 0 {
 			hv, err := mbal.GrossHeatingValue(comps, r.SalesComposition)
-			if err != nil {
+			switch {
+			case errors.Is(err, mbal.ErrNoProperty):
+				hv = math.NaN() // a component without a heating value: the energy is unknown
+			case err != nil:
 				return mbal.Processed{}, fmt.Errorf("heating value of the sales gas: %w", err)
 			}
 			out.SalesEnergy = r.Sales * hv
@@ -228,6 +239,7 @@ func plantOf(st *study.Study, sys units.System) (mbal.Plant, mbal.GasProcessor, 
 type salesGas struct {
 	composition []float64
 	hv, z       float64
+	unknown     string // why the heating value is unknown, "" when it is known
 }
 
 func salesGasOf(st *study.Study, sys units.System, tr cvd.Train, pl mbal.Plant) (*salesGas, error) {
@@ -245,12 +257,16 @@ func salesGasOf(st *study.Study, sys units.System, tr cvd.Train, pl mbal.Plant) 
 		return nil, fmt.Errorf("the separator gas through the plant: %w", err)
 	}
 	hv, err := mbal.GrossHeatingValue(comps, r.SalesComposition)
-	if err != nil {
+	var unknown string
+	switch {
+	case errors.Is(err, mbal.ErrNoProperty):
+		hv, unknown = math.NaN(), cause(err).Error()
+	case err != nil:
 		return nil, fmt.Errorf("heating value of the sales gas: %w", err)
 	}
 	std := st.StandardConditions(sys)
 	pp, _ := st.Fluid.Props(std.T, std.P, r.SalesComposition)
-	return &salesGas{composition: r.SalesComposition, hv: hv, z: pp.Z}, nil
+	return &salesGas{composition: r.SalesComposition, hv: hv, z: pp.Z, unknown: unknown}, nil
 }
 
 // decimalYear is t as a year with its fraction, for the figures' time
@@ -293,6 +309,9 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 		{Column: Column{Name: "wet_gas_recovery", Label: "Wet gas recovery", Unit: units.Percent, Format: report.Fixed(1)}, Value: units.Percent.FromSI(fin.WetGas / ip.WetGas)},
 		{Column: Column{Name: "condensate_recovery", Label: "Condensate recovery", Unit: units.Percent, Format: report.Fixed(1)}, Value: units.Percent.FromSI(fin.Condensate / ip.Condensate)},
 		{Column: Column{Name: "ultimate_sales_energy", Label: "Ultimate sales gas, gross heating value", Unit: sys.Unit(units.Energy), Format: report.Format{Scaled: true}}, Value: sys.Unit(units.Energy).FromSI(fin.SalesEnergy)},
+	}
+	if sg := res.sales; sg != nil && sg.unknown != "" {
+		r.Note("the sales gas's heating value is unknown, and with it its energy: " + sg.unknown)
 	}
 	if sg := res.sales; sg != nil {
 		perVol := mbal.HeatingValuePerVolume(sg.hv, sg.z, res.std.T, res.std.P)

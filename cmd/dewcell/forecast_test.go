@@ -7,6 +7,10 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"dewcell/cmd/dewcell/internal/study"
+	"dewcell/cmd/dewcell/internal/units"
+	"dewcell/mbal"
 )
 
 // The forecast of the example, checked against the recover command (the
@@ -126,5 +130,32 @@ func TestPlotFlagWritesFigures(t *testing.T) {
 				t.Errorf("%s: %s is empty", cmd, f)
 			}
 		}
+	}
+}
+
+// A component with no heating value (a light user component the GPA 2145
+// table does not hold) leaves the sales gas's energy unknown, not wrong.
+func TestForecastUnknownHeatingValue(t *testing.T) {
+	st, err := study.Read(userFile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, proc, err := plantOf(st, units.Field)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out, err := proc(st.Z, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !math.IsNaN(out.SalesEnergy) || !(out.SalesGas > 0) {
+		t.Errorf("sales gas %g sm3 with energy %g J, want the gas and an unknown energy", out.SalesGas, out.SalesEnergy)
+	}
+	sg, err := salesGasOf(st, units.Field, trainOf(st, units.Field), mbal.Plant{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sg.unknown == "" || !math.IsNaN(sg.hv) {
+		t.Errorf("heating value %g, unknown %q: want it unknown, saying why", sg.hv, sg.unknown)
 	}
 }
