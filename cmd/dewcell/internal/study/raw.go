@@ -33,6 +33,7 @@ type fileStudy struct {
 	Production *fileProduction `toml:"production"`
 	Plant      *filePlant      `toml:"plant"`
 	Economics  *fileEconomics  `toml:"economics"`
+	Scenario   []fileScenario  `toml:"scenario"`
 }
 
 type fileTune struct {
@@ -178,9 +179,15 @@ type reader struct {
 	atm      float64 // Pa, for gauge pressures
 	warnings []string
 	adj      *adjustment // tuned values applied while the fluid is built; nil when reading the file
+	// rename, when set, gives the key an error names: the sections a
+	// scenario overrides are read under the scenario's keys.
+	rename func(string) string
 }
 
 func (r *reader) failf(k, format string, args ...any) {
+	if r.rename != nil {
+		k = r.rename(k)
+	}
 	if r.err == nil {
 		r.err = &Error{File: r.file, Key: k, Msg: fmt.Sprintf(format, args...)}
 	}

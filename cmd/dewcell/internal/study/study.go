@@ -59,6 +59,8 @@ type Study struct {
 	Production *Production
 	Plant      *Plant
 	Economics  *Economics
+	// Scenarios are the [[scenario]] tables in file order; nil when none.
+	Scenarios []Scenario
 
 	standard    units.Conditions
 	standardSet [2]bool // temperature, pressure given
@@ -292,6 +294,7 @@ func parse(fsys fs.FS, name string, data []byte) (*Study, error) {
 	r.production(s, f.Production)
 	r.plant(s, f.Plant, md)
 	r.economics(s, f.Economics)
+	r.scenarios(s, &f, f.Scenario, md)
 	if r.err != nil {
 		return nil, r.err
 	}
