@@ -72,8 +72,9 @@ type ReservoirState struct {
 	// the abandonment pressure.
 	Exhausted bool
 	// at is the model's own position (for DepletionModel, the cumulative
-	// wet gas).
+	// wet gas); x is what else a model keeps (the cells of CyclingModel).
 	at float64
+	x  any
 }
 
 // A ReservoirModel answers the forecast's one question: from a state, what
@@ -91,9 +92,19 @@ type ReservoirModel interface {
 }
 
 // Processed is what the gas plant makes of a quantity of separator gas, in
-// the units of Streams.
+// the units of Streams, and the sales gas's composition (mole fractions;
+// nil when the processor does not give it).
 type Processed struct {
 	SalesGas, SalesEnergy, NGL, Fuel, Removed float64
+	SalesComposition                          []float64
+}
+
+// A TimedModel is a ReservoirModel whose response depends on the date (a
+// scheduled change of operation, such as the end of gas cycling): the
+// forecast calls AdvanceAt with the date the withdrawal starts.
+type TimedModel interface {
+	ReservoirModel
+	AdvanceAt(s ReservoirState, withdraw, inject float64, at time.Time) (ReservoirState, error)
 }
 
 // A GasProcessor takes moles of separator gas of composition gas (mole
@@ -352,9 +363,26 @@ type ForecastStep struct {
 	WellYears      float64 // producing well-years in the step
 }
 
+// ForecastYear is a calendar year of a forecast: its volumes (the
+// substeps never straddle 1 January), the producing time and well-years,
+// and the reservoir at its end.
+type ForecastYear struct {
+	Year              int
+	Volumes           Streams
+	WellYears         float64
+	ProducingFraction float64 // of the calendar year that some well produced
+	End               ReservoirState
+	Wells             int           // producing at the end of the year
+	producing         time.Duration // the time some well produced, exactly
+}
+
 // Forecast is a rate-time forecast.
 type Forecast struct {
 	Steps []ForecastStep
+	Years []ForecastYear
+	// FirstProduction is the first day a well produced (zero when none
+	// did).
+	FirstProduction time.Time
 	Stop  StopReason
 	// StopDate is when production ends; PlateauEnd when the sales-gas
 	// target was last met (zero when it never was).
@@ -417,9 +445,22 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 	stepStart, stepState := t, s
 	var wellSeconds float64
 	onPlateau := true
-	advance := func(s ReservoirState, dw float64) (ReservoirState, error) { return m.Advance(s, math.Max(dw, 0), 0) }
-	for stop := false; !stop; {
-		stepEnd := stepStart.AddDate(0, o.StepMonths, 0)
+	var now time.Time // the start of the substep, for a TimedModel
+	advance := func(s ReservoirState, dw float64) (ReservoirState, error) {
+		if tm, ok := m.(TimedModel); ok {
+			return tm.AdvanceAt(s, math.Max(dw, 0), 0, now)
+		}
+		return m.Advance(s, math.Max(dw, 0), 0)
+	}
+	year := func(t time.Time) *ForecastYear {
+		if n := len(f.Years); n > 0 && f.Years[n-1].Year == t.Year() {
+			return &f.Years[n-1]
+		}
+		f.Years = append(f.Years, ForecastYear{Year: t.Year()})
+		return &f.Years[len(f.Years)-1]
+	}
+	for k, stop := 1, false; !stop; k++ {
+		stepEnd := addMonths(wells.Start, k*o.StepMonths)
 		if stepEnd.After(o.End) {
 			stepEnd = o.End
 		}
@@ -428,8 +469,12 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 			if next := t.Add(h); next.After(stepEnd) {
 				dt = stepEnd.Sub(t)
 			}
+			if jan := time.Date(t.Year()+1, 1, 1, 0, 0, 0, 0, t.Location()); t.Add(dt).After(jan) {
+				dt = jan.Sub(t) // a substep ends on 1 January: the years add up exactly
+			}
 			n := wells.CountAt(t)
 			sec := dt.Seconds()
+			now = t
 			q1, _, p1 := rate(s, n)
 			var dw float64
 			var next ReservoirState
@@ -482,7 +527,9 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 					frac = math.Min(1, (next.Cum.WetGas-s.Cum.WetGas)/dw)
 				}
 				f.Stop, stop = StopAbandonment, true
-			case n > 0 && q1 == 0 && !s.Exhausted && wells.Deliverability(s.P, false) == 0:
+			case n > 0 && !s.Exhausted && q1*math.Max(s.SalesPerWet, 1e-300) <= 1e-9*o.Plateau:
+				// The wells can no longer flow: the reservoir is at (or
+				// within a hair of) their minimum flowing pressure.
 				frac, f.Stop, stop = 0, StopNoWells, true
 			}
 			sales0 := q1 * s.SalesPerWet
@@ -507,7 +554,18 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 			}
 			part := time.Duration(frac * float64(dt))
 			wellSeconds += float64(n) * part.Seconds()
+			y := year(t)
+			if dv := next.Cum.sub(s.Cum); dv.WetGas > 0 {
+				y.Volumes = y.Volumes.add(dv)
+				y.WellYears += float64(n) * part.Seconds() / secondsPerYear
+				y.producing += part
+				if f.FirstProduction.IsZero() {
+					f.FirstProduction = t
+				}
+			}
 			t, s = t.Add(part), next
+			y.End, y.Wells = s, wells.CountAt(t.Add(-time.Nanosecond))
+			y.ProducingFraction = y.producing.Seconds() / yearLength(y.Year)
 		}
 		if t.Equal(o.End) && !stop {
 			f.Stop, stop = StopHorizon, true
@@ -527,7 +585,34 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 		stepStart, stepState, wellSeconds, onPlateau = end, s, 0, true
 	}
 	f.StopDate, f.Final = t, s
+	if f.PlateauEnd.After(f.StopDate) {
+		f.PlateauEnd = f.StopDate
+	}
+	if f.FirstProduction.IsZero() {
+		return nil, fmt.Errorf("%w: the field produces nothing from %s: %s", ErrForecast, wells.Start.Format(time.DateOnly), f.Stop)
+	}
 	return f, nil
+}
+
+// addMonths is t plus m calendar months, on the same day of the month or
+// the month's last day when it is shorter (31 January plus a month is 29
+// February in a leap year).
+func addMonths(t time.Time, m int) time.Time {
+	y, mo, d := t.Date()
+	first := time.Date(y, mo+time.Month(m), 1, t.Hour(), t.Minute(), t.Second(), t.Nanosecond(), t.Location())
+	last := first.AddDate(0, 1, -1).Day()
+	return time.Date(first.Year(), first.Month(), min(d, last), t.Hour(), t.Minute(), t.Second(), t.Nanosecond(), t.Location())
+}
+
+// yearLength is the length of calendar year y, seconds.
+func yearLength(y int) float64 {
+	return time.Date(y+1, 1, 1, 0, 0, 0, 0, time.UTC).Sub(time.Date(y, 1, 1, 0, 0, 0, 0, time.UTC)).Seconds()
+}
+
+// add returns s + o, field by field.
+func (s Streams) add(o Streams) Streams {
+	return Streams{s.WetGas + o.WetGas, s.SeparatorGas + o.SeparatorGas, s.Condensate + o.Condensate, s.SalesGas + o.SalesGas,
+		s.SalesEnergy + o.SalesEnergy, s.NGL + o.NGL, s.Fuel + o.Fuel, s.Removed + o.Removed, s.Injected + o.Injected}
 }
 
 // plateauStep finds the withdrawal from s that yields sales standard m³

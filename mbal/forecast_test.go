@@ -246,3 +246,79 @@ func TestForecastBadInput(t *testing.T) {
 		t.Error("a depletion accepted an injection")
 	}
 }
+
+// The calendar years add up whatever the reporting step, a start in
+// mid-year included: the substeps end on 1 January.
+func TestForecastYearsStepIndependent(t *testing.T) {
+	m, _, _ := forecastModel(t)
+	w := fcWells
+	w.Start = fcDay(2030, 7, 15)
+	var runs []*Forecast
+	for _, months := range []int{1, 12} {
+		o := fcOptions()
+		o.StepMonths = months
+		f, err := RunForecast(m, w, o)
+		if err != nil {
+			t.Fatal(err)
+		}
+		runs = append(runs, f)
+	}
+	a, b := runs[0], runs[1]
+	if len(a.Years) != len(b.Years) {
+		t.Fatalf("%d and %d years", len(a.Years), len(b.Years))
+	}
+	for i := range a.Years {
+		ya, yb := a.Years[i], b.Years[i]
+		if ya.Year != yb.Year || math.Abs(ya.Volumes.Condensate-yb.Volumes.Condensate) > 1e-6*math.Max(ya.Volumes.Condensate, 1) ||
+			math.Abs(ya.End.P-yb.End.P) > 1e-6*ya.End.P || ya.Wells != yb.Wells || math.Abs(ya.ProducingFraction-yb.ProducingFraction) > 1e-12 {
+			t.Errorf("year %d: monthly steps give %+v, yearly %+v", ya.Year, ya, yb)
+		}
+	}
+	if y := a.Years[0]; math.Abs(y.ProducingFraction-(365-195)/365.0) > 1e-9 { // 15 July to 31 December 2030: 170 of 365 days
+		t.Errorf("2030 produced %.6f of the year, want 170/365", y.ProducingFraction)
+	}
+	var sum float64
+	for _, y := range a.Years {
+		sum += y.Volumes.WetGas
+	}
+	if math.Abs(sum/a.Final.Cum.WetGas-1) > 1e-12 {
+		t.Errorf("the years add up to %.9g sm3 of wet gas, the forecast to %.9g", sum, a.Final.Cum.WetGas)
+	}
+}
+
+// No well yet: nothing produces, and the first production is the day the
+// first wells start.
+func TestForecastLateWells(t *testing.T) {
+	m, _, _ := forecastModel(t)
+	w := fcWells
+	w.Count = 0
+	f, err := RunForecast(m, w, fcOptions())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !f.FirstProduction.Equal(w.Add[0].Date) {
+		t.Errorf("first production %s, want %s", f.FirstProduction, w.Add[0].Date)
+	}
+	for _, y := range f.Years {
+		if y.Year < 2032 && (y.ProducingFraction != 0 || y.WellYears != 0 || y.Volumes.WetGas != 0) {
+			t.Errorf("%d: %+v before any well", y.Year, y)
+		}
+	}
+	w.Add = nil
+	w.Count, w.MinPwf = 4, 0.999*m.Initial().P
+	if _, err := RunForecast(m, w, fcOptions()); err == nil {
+		t.Error("wells that cannot flow produced a forecast")
+	}
+}
+
+// Steps end on the same day of the month, or on its last day: a start on
+// 31 January has steps to 29 February (2032 is a leap year), 31 March, 30
+// April.
+func TestAddMonths(t *testing.T) {
+	s := fcDay(2032, 1, 31)
+	for k, want := range []time.Time{fcDay(2032, 2, 29), fcDay(2032, 3, 31), fcDay(2032, 4, 30)} {
+		if got := addMonths(s, k+1); !got.Equal(want) {
+			t.Errorf("31 January + %d months = %s, want %s", k+1, got.Format(time.DateOnly), want.Format(time.DateOnly))
+		}
+	}
+}

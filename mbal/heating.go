@@ -261,7 +261,8 @@ func checkGas(comps []eos.Component, y []float64) (float64, error) {
 // GrossHeatingValue returns the ideal gross heating value of a gas of
 // components comps and mole fractions y, J/mol of ideal gas at 60 °F,
 // 14.696 psia: Σ yᵢ Hᵢ with Hᵢ from ComponentHeatingValue (GPA 2172). y
-// must sum to 1 within 1e-6; it is used as given, not normalised. Errors
+// must sum to 1 within 1e-6; it is used as given, not normalised. A
+// component of zero mole fraction needs no heating value. Errors
 // wrap ErrBadGas (the composition) or ErrNoProperty (a component without a
 // heating value).
 //
@@ -273,6 +274,9 @@ func GrossHeatingValue(comps []eos.Component, y []float64) (idealPerMol float64,
 		return 0, err
 	}
 	for i, c := range comps {
+		if y[i] == 0 {
+			continue // absent (removed by the plant, say): its heating value does not matter
+		}
 		h, err := ComponentHeatingValue(c)
 		if err != nil {
 			return 0, err

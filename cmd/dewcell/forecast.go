@@ -40,20 +40,9 @@ type forecastResult struct {
 	rec   *mbal.Recovery
 	model *mbal.DepletionModel
 	fc    *mbal.Forecast
-	years []yearVolumes
 	sales *salesGas
 	std   units.Conditions
 	cash  *mbal.CashFlowResult // nil without [economics]
-}
-
-// yearVolumes are the volumes of one calendar year of a forecast.
-type yearVolumes struct {
-	Year              int
-	Volumes           mbal.Streams // produced in the year
-	WellYears         float64
-	ProducingFraction float64
-	EndPressure       float64
-	Wells             int
 }
 
 // forecastRun forecasts the study's field: the recovery tabulated on a
@@ -111,7 +100,6 @@ func forecastRun(o *options, st *study.Study, atDew bool) (*forecastResult, erro
 		return nil, fmt.Errorf("the forecast: %w", err)
 	}
 	out := &forecastResult{res: res, rec: rec, model: model, fc: fc, sales: sales, std: st.StandardConditions(o.sys)}
-	out.years = yearsOf(fc)
 	if st.Economics != nil {
 		if out.cash, err = cashFlowOf(st, out); err != nil {
 			return nil, err
@@ -137,7 +125,7 @@ func cashFlowOf(st *study.Study, fr *forecastResult) (*mbal.CashFlowResult, erro
 		me.Capex = append(me.Capex, mbal.Capex{Date: c.Date, Amount: c.Amount, What: c.What})
 	}
 	var ys []mbal.YearVolumes
-	for _, y := range fr.years {
+	for _, y := range fr.fc.Years {
 		v := y.Volumes
 		if math.IsNaN(v.SalesEnergy) {
 			v.SalesEnergy = 0 // unknown, and not priced: the gas sells by volume
@@ -151,47 +139,40 @@ func cashFlowOf(st *study.Study, fr *forecastResult) (*mbal.CashFlowResult, erro
 	}
 	last := fr.fc.StopDate.Add(-time.Nanosecond).Year()
 	cf, err := mbal.CashFlow(me, ys, last)
-	if err != nil {
+	var ee *mbal.EconomicsError
+	switch {
+	case errors.As(err, &ee):
+		return nil, cli.Exit(fmt.Sprintf("%s: %s: %s (production runs from %s to %s, when %s)", st.File, economicsKey(ee.Field), ee.Why,
+			fr.fc.FirstProduction.Format(time.DateOnly), fr.fc.StopDate.Format(time.DateOnly), fr.fc.Stop), exitUsage)
+	case err != nil:
 		return nil, cli.Exit(fmt.Sprintf("%s: [economics]: %v", st.File, cause(err)), exitUsage)
 	}
 	return cf, nil
 }
 
-// yearsOf sums a forecast's steps by calendar year; a step that spans two
-// years is shared between them in proportion to its days.
-func yearsOf(fc *mbal.Forecast) []yearVolumes {
-	var ys []yearVolumes
-	at := func(y int) *yearVolumes {
-		if n := len(ys); n == 0 || ys[n-1].Year != y {
-			ys = append(ys, yearVolumes{Year: y})
+// economicsKey is the study's key of a field of the cash-flow model:
+// "Capex[0].Date" is economics.capex[1].date, "OpexPerWell"
+// economics.opex_per_well.
+func economicsKey(field string) string {
+	var i int
+	var rest string
+	if n, _ := fmt.Sscanf(field, "Capex[%d]", &i); n == 1 {
+		if j := strings.Index(field, "]"); j >= 0 {
+			rest = strings.ToLower(field[j+1:])
 		}
-		return &ys[len(ys)-1]
+		return fmt.Sprintf("economics.capex[%d]%s", i+1, rest)
 	}
-	for _, s := range fc.Steps {
-		for t := s.Start; t.Before(s.End); {
-			next := time.Date(t.Year()+1, 1, 1, 0, 0, 0, 0, t.Location())
-			if next.After(s.End) {
-				next = s.End
-			}
-			sec := next.Sub(t).Seconds()
-			total := s.End.Sub(s.Start).Seconds()
-			y := at(t.Year())
-			r := s.Rates
-			y.Volumes.WetGas += r.WetGas * sec
-			y.Volumes.SeparatorGas += r.SeparatorGas * sec
-			y.Volumes.Condensate += r.Condensate * sec
-			y.Volumes.SalesGas += r.SalesGas * sec
-			y.Volumes.SalesEnergy += r.SalesEnergy * sec
-			y.Volumes.NGL += r.NGL * sec
-			y.Volumes.Fuel += r.Fuel * sec
-			y.Volumes.Removed += r.Removed * sec
-			y.WellYears += s.WellYears * sec / total
-			y.ProducingFraction += sec / yearSeconds(t.Year())
-			y.EndPressure, y.Wells = s.State.P, s.Wells
-			t = next
+	if strings.HasPrefix(field, "years") || field == "abandonYear" {
+		return "the forecast's yearly volumes (" + field + ")" // not an input: a fault of the forecast
+	}
+	var b strings.Builder
+	for k, r := range field {
+		if k > 0 && r >= 'A' && r <= 'Z' {
+			b.WriteByte('_')
 		}
+		b.WriteRune(r)
 	}
-	return ys
+	return "economics." + strings.ToLower(b.String())
 }
 
 func yearSeconds(y int) float64 {
@@ -218,7 +199,7 @@ func plantOf(st *study.Study, sys units.System) (mbal.Plant, mbal.GasProcessor, 
 		if err != nil {
 			return mbal.Processed{}, err
 		}
-		out := mbal.Processed{SalesGas: r.Sales * vsc, NGL: r.NGLVolume, Fuel: r.Fuel * vsc, Removed: r.Removed * vsc}
+		out := mbal.Processed{SalesGas: r.Sales * vsc, NGL: r.NGLVolume, Fuel: r.Fuel * vsc, Removed: r.Removed * vsc, SalesComposition: r.SalesComposition}
 		if r.Sales > 0 {
 			hv, err := mbal.GrossHeatingValue(comps, r.SalesComposition)
 			switch {
@@ -288,7 +269,7 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 	r := &Report{
 		Name:    "forecast",
 		Section: "Production forecast",
-		Title:   fmt.Sprintf("Production forecast of %s: depletion with %d wells and a plateau of %s sales gas", fluidName(st), st.Wells.Count, rateText(grU, st.Production.PlateauRate)),
+		Title:   fmt.Sprintf("Production forecast of %s: depletion with %s and a plateau of %s sales gas", fluidName(st), wellsText(st.Wells), rateText(grU, st.Production.PlateauRate)),
 	}
 	date := func(t time.Time) string { return t.Format(time.DateOnly) }
 	plateau := "never reached"
@@ -296,7 +277,7 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 		plateau = date(fc.PlateauEnd)
 	}
 	r.Fields = []Field{
-		{Column: Column{Name: "start", Label: "First production"}, Value: date(st.Wells.Start)},
+		{Column: Column{Name: "start", Label: "First production"}, Value: date(fc.FirstProduction)},
 		{Column: Column{Name: "plateau_rate", Label: "Plateau, sales gas", Unit: grU}, Value: grU.FromSI(st.Production.PlateauRate)},
 		{Column: Column{Name: "plateau_end", Label: "End of the plateau"}, Value: plateau},
 		{Column: Column{Name: "stop_date", Label: "End of production"}, Value: date(fc.StopDate)},
@@ -374,8 +355,8 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 			{Name: "ngl", Label: "NGL", Unit: lU},
 			{Name: "fuel", Unit: gU},
 			{Name: "removed", Label: "Gas removed", Unit: gU},
-			{Name: "sales_gas_rate", Label: "Sales gas, average rate", Unit: grU},
-			{Name: "condensate_rate", Label: "Condensate, average rate", Unit: lrU},
+			{Name: "sales_gas_rate", Label: "Sales gas, average rate while producing", Unit: grU},
+			{Name: "condensate_rate", Label: "Condensate, average rate while producing", Unit: lrU},
 			{Name: "cgr", Label: "CGR", Unit: surfaceUnitsOf(sys).cgr.Unit},
 			{Name: "cum_wet_gas", Unit: gU},
 			{Name: "cum_sales_gas", Unit: gU},
@@ -385,15 +366,15 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 			{Name: "condensate_recovery", Unit: units.Percent, Format: report.Fixed(2)},
 		}}
 	var cum mbal.Streams
-	for _, y := range res.years {
+	for _, y := range fc.Years {
 		v := y.Volumes
-		sec := yearSeconds(y.Year)
+		sec := yearSeconds(y.Year) * y.ProducingFraction // the average over the time the field produced
 		cum.WetGas, cum.SalesGas, cum.Condensate, cum.NGL = cum.WetGas+v.WetGas, cum.SalesGas+v.SalesGas, cum.Condensate+v.Condensate, cum.NGL+v.NGL
 		cgr := any(nil)
 		if v.SeparatorGas > 0 {
 			cgr = cgrU.of(v.Condensate / v.SeparatorGas)
 		}
-		years.Rows = append(years.Rows, []any{y.Year, y.Wells, pU.FromSI(y.EndPressure), gU.FromSI(v.WetGas), gU.FromSI(v.SalesGas), sys.Unit(units.Energy).FromSI(v.SalesEnergy), lU.FromSI(v.Condensate),
+		years.Rows = append(years.Rows, []any{y.Year, y.Wells, pU.FromSI(y.End.P), gU.FromSI(v.WetGas), gU.FromSI(v.SalesGas), sys.Unit(units.Energy).FromSI(v.SalesEnergy), lU.FromSI(v.Condensate),
 			lU.FromSI(v.NGL), gU.FromSI(v.Fuel), gU.FromSI(v.Removed), grU.FromSI(v.SalesGas / sec), lrU.FromSI(v.Condensate / sec), cgr,
 			gU.FromSI(cum.WetGas), gU.FromSI(cum.SalesGas), lU.FromSI(cum.Condensate), lU.FromSI(cum.NGL),
 			units.Percent.FromSI(cum.WetGas / ip.WetGas), units.Percent.FromSI(cum.Condensate / ip.Condensate)})
@@ -406,6 +387,28 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 	r.Note(fmt.Sprintf("the reservoir is the step-converged depletion of recover, tabulated at %d pressures from %s to %s; the cumulative withdrawal is integrated in daily steps",
 		len(res.rec.Steps), pressureNote(sys, res.res.Pi), pressureNote(sys, res.res.Abandonment)))
 	return r
+}
+
+// wellsText says how many wells produce: "6 wells", "6 wells, 8 from 2023-01-01".
+func wellsText(w *study.Wells) string {
+	plural := func(n int) string {
+		if n == 1 {
+			return "1 well"
+		}
+		return fmt.Sprintf("%d wells", n)
+	}
+	n, out := w.Count, ""
+	if n > 0 {
+		out = plural(n)
+	}
+	for _, a := range w.Add {
+		n += a.Count
+		if out != "" {
+			out += ", "
+		}
+		out += fmt.Sprintf("%s from %s", plural(n), a.Date.Format(time.DateOnly))
+	}
+	return out
 }
 
 // kjPerMol labels heating values per mole.
@@ -445,6 +448,9 @@ func forecastFigures(sys units.System, res *forecastResult) []*report.Figure {
 	cg := report.Series{Label: "Sales gas", Style: report.Line}
 	co := report.Series{Label: "Condensate", Style: report.Line}
 	cn := report.Series{Label: "NGL", Style: report.Line}
+	if len(fc.Steps) == 0 {
+		return nil
+	}
 	start := decimalYear(fc.Steps[0].Start)
 	pr.X, pr.Y = append(pr.X, start), append(pr.Y, pU.FromSI(res.model.Initial().P))
 	for _, sr := range []*report.Series{&cw, &cg, &co, &cn} {
@@ -502,7 +508,14 @@ func cashFlowReport(r *Report, st *study.Study, sys units.System, res *forecastR
 		Field{Column: Column{Name: "npv", Label: fmt.Sprintf("NPV at %s %% a year (%s, to 1 January %d)", report.Sig(100*e.DiscountRate, 3), conv, first), Symbol: cur, Format: money}, Value: cf.NPV},
 		Field{Column: Column{Name: "undiscounted_profit", Label: "Undiscounted profit", Symbol: cur, Format: money}, Value: cf.UndiscountedProfit})
 	irr, known := cf.IRR, cf.IRRKnown
-	if !known {
+	if known {
+		if _, ok := profitableBelow(cf, e); !ok {
+			// The one root has the NPV rising through it: money is made at
+			// every rate above it, lost below; not a rate of return.
+			known = false
+			cf.IRRWhy = fmt.Sprintf("the NPV is zero at %s %% a year but rises through it: the cash flow begins positive and turns negative only at the end, so no rate of return measures it", report.Sig(100*cf.IRR, 4))
+		}
+	} else {
 		if rr, ok := profitableBelow(cf, e); ok {
 			irr, known = rr, true
 			r.Note(fmt.Sprintf("the net cash flow changes sign more than once (%s), so NPV = 0 at more than one rate; the IRR given is the rate above which NPV turns negative",
@@ -534,7 +547,7 @@ func cashFlowReport(r *Report, st *study.Study, sys units.System, res *forecastR
 	show := func(s string) string { return strings.Replace(s, "1e3 ", "10^3 ", 1) }
 	r.Fields = append(r.Fields,
 		Field{Column: Column{Name: "unit_cost_per_" + key(gasUnit), Label: "Unit cost per sales gas (capex, opex, abandonment)", Symbol: cur + "/" + show(gasUnit), Format: report.Fixed(2)}, Value: cf.UnitCostPerSalesGas * gasPer},
-		Field{Column: Column{Name: "unit_cost_per_" + key(eUnit), Label: "Unit cost per energy sold", Symbol: cur + "/" + eUnit, Format: report.Fixed(2)}, Value: cf.UnitCostPerEnergy * ePer},
+		Field{Column: Column{Name: "unit_cost_per_" + key(eUnit), Label: "Unit cost per energy sold", Symbol: cur + "/" + eUnit, Format: report.Fixed(2)}, Value: energyKnown(res, cf.UnitCostPerEnergy*ePer)},
 		Field{Column: Column{Name: "unit_technical_cost_per_" + key(boe), Label: fmt.Sprintf("Unit technical cost per oil equivalent (gas at %s scf/bbl)", report.Sig(cf.GasPerOilEquivalent*units.M3PerBbl/units.M3PerFt3, 4)), Symbol: cur + "/" + boe, Format: report.Fixed(2)}, Value: cf.UnitTechnicalCost * boePer})
 	t := Table{Name: "cash_flow", Title: fmt.Sprintf("yearly cash flow, %s (discounted to 1 January %d, %s)", cur, first, conv),
 		Columns: []Column{
@@ -570,6 +583,15 @@ func cashFlowReport(r *Report, st *study.Study, sys units.System, res *forecastR
 		r.Note("the forecast reaches its end while the field still produces: the cash flow stops there, with the abandonment cost in its last year")
 	}
 	r.Note("no tax beyond the royalty; the economics are a screening estimate at constant prices and costs")
+}
+
+// energyKnown is v, or NaN (left out) when the sales gas's energy is not
+// known.
+func energyKnown(res *forecastResult, v float64) float64 {
+	if math.IsNaN(res.fc.Final.Cum.SalesEnergy) {
+		return math.NaN()
+	}
+	return v
 }
 
 // profitableBelow picks, among the several rates at which the NPV of cf is

@@ -159,3 +159,21 @@ func TestForecastUnknownHeatingValue(t *testing.T) {
 		t.Errorf("heating value %g, unknown %q: want it unknown, saying why", sg.hv, sg.unknown)
 	}
 }
+
+// A cash flow that is positive from its first year and turns negative only
+// through the abandonment cost has an NPV rising through its one root: no
+// rate of return measures it, and the forecast says so instead of giving
+// that root as the IRR (a lending rather than a borrowing cash flow, a
+// pitfall of the IRR the finance textbooks give; from memory).
+func TestForecastIRRRisingRoot(t *testing.T) {
+	text := strings.Replace(string(mustRead(t, exampleStudy)), `date = "2018-07-01"
+amount = "260e6 USD"`, `date = "2020-07-01"
+amount = "1e6 USD"`, 1)
+	doc := runJSON(t, "forecast", writeStudy(t, text))
+	if _, ok := doc["irr"]; ok {
+		t.Errorf("irr %v given for a cash flow that begins positive", doc["irr"])
+	}
+	if note, _ := doc["irr_note"].(string); !strings.Contains(note, "rises through it") {
+		t.Errorf("irr_note %q", doc["irr_note"])
+	}
+}

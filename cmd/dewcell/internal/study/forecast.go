@@ -207,6 +207,9 @@ func (r *reader) wells(s *Study, f *fileWells) {
 	}
 	w.Exponent, _ = r.between("wells.deliverability_exponent", f.Exponent, "the exponent n of q = C (pR^2 - pwf^2)^n, from 0.5 (turbulent) to 1 (laminar flow)", true, 0.5, 1, false, false)
 	w.MinimumFlowingPressure = r.positivePressure("wells.minimum_flowing_pressure", f.MinimumFlowingP, true)
+	if pi := s.Reservoir.InitialPressure; r.err == nil && pi > 0 && w.MinimumFlowingPressure >= pi {
+		r.failf("wells.minimum_flowing_pressure", "%s is not below reservoir.initial_pressure: the wells could never flow", textOf(f.MinimumFlowingP))
+	}
 	if bf, ok := r.between("wells.condensate_bank_factor", f.CondensateBankMult, "a productivity multiplier below the dew point", false, 0, 1, true, false); ok {
 		w.BankFactor = bf
 	}
@@ -270,6 +273,13 @@ func (r *reader) production(s *Study, f *fileProduction) {
 	}
 	if s.Wells != nil && r.err == nil && !p.End.After(s.Wells.Start) {
 		r.failf("production.end", "%s is not after wells.start (%s)", p.End.Format(dateLayout), s.Wells.Start.Format(dateLayout))
+	}
+	if s.Wells != nil && r.err == nil {
+		for i, a := range s.Wells.Add {
+			if !a.Date.Before(p.End) {
+				r.failf(fmt.Sprintf("wells.add[%d].date", i+1), "%s is not before production.end (%s): the wells would never produce", a.Date.Format(dateLayout), p.End.Format(dateLayout))
+			}
+		}
 	}
 	s.Production = p
 }

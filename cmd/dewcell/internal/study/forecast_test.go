@@ -146,6 +146,8 @@ func TestForecastSectionErrors(t *testing.T) {
 		{"capex after the end", with(`date = "2026-07-01"`, `date = "2061-07-01"`), "economics.capex[1].date", "not before production.end"},
 		{"currency not a code", with(`currency = "USD"`, `currency = "dollars"`), "economics.currency", "three-letter"},
 		{"unknown key", with(`uptime = 0.95`, "uptime = 0.95\nplateau = 3"), "production.plateau", ""},
+		{"minimum flowing above the initial pressure", with(`minimum_flowing_pressure = "1000 psia"`, `minimum_flowing_pressure = "5300 psia"`), "wells.minimum_flowing_pressure", "could never flow"},
+		{"wells added after the end", with(`date = "2029-01-01"`, `date = "2061-01-01"`), "wells.add[1].date", "not before production.end"},
 	} {
 		_, err := Parse("forecast.toml", []byte(c.text))
 		var se *Error

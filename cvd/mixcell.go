@@ -1,0 +1,137 @@
+package cvd
+
+import (
+	"fmt"
+	"math"
+
+	"dewcell/eos"
+)
+
+// Cell is a compositional cell: moles of fluid at a fixed temperature in a
+// pore volume that shrinks linearly with the fall of pressure,
+// V(p) = V0 [1 − c (P0 − p)]. It takes injected moles, is flashed at a
+// pressure, and gives up the mobile fluid that no longer fits its pore
+// volume there. A reservoir model strings cells together (a swept volume as
+// cells in series, an unswept one beside it) at one common pressure.
+//
+// A Cell reuses one flasher and starts each two-phase flash from the
+// K-values of its last one; it is not safe for concurrent use.
+type Cell struct {
+	fl        *eos.Fluid
+	t, v0, p0 float64
+	c         float64 // pore compressibility, 1/Pa
+	f         *eos.Flasher
+	res       eos.FlashResult
+	k         []float64
+	hasK      bool
+	z         []float64
+}
+
+// NewCell is a cell of fluid fl at temperature t (K) whose pore volume is v0
+// (m³) at pressure p0 (Pa), with pore compressibility c (1/Pa).
+func NewCell(fl *eos.Fluid, t, v0, p0, c float64, s *eos.Settings) (*Cell, error) {
+	if !(t > 0) || !(v0 > 0) || !(p0 > 0) || c < 0 || math.IsInf(v0, 0) {
+		return nil, fmt.Errorf("%w: a cell needs a temperature, a pore volume and a pressure above 0 and a compressibility of 0 or more (got %g K, %g m³, %g Pa, %g 1/Pa)", ErrBadOptions, t, v0, p0, c)
+	}
+	n := fl.N()
+	return &Cell{fl: fl, t: t, v0: v0, p0: p0, c: c, f: eos.NewFlasher(fl, s), k: make([]float64, n), z: make([]float64, n)}, nil
+}
+
+// PoreVolume is the cell's pore volume at p, m³.
+func (c *Cell) PoreVolume(p float64) float64 { return c.v0 * (1 - c.c*(c.p0-p)) }
+
+// CellFlash is the cell's contents flashed at a pressure.
+type CellFlash struct {
+	P      float64
+	Total  float64 // moles
+	Volume float64 // of the fluid, m³
+	Phases int
+	// Beta is the vapour mole fraction; X and Y the liquid and vapour
+	// compositions (both the contents in one phase); VL and VV the phases'
+	// molar volumes, m³/mol (VV the fluid's in one phase).
+	Beta   float64
+	X, Y   []float64
+	VL, VV float64
+	// Dropout is the liquid volume over the pore volume.
+	Dropout float64
+}
+
+// Flash flashes the moles n at p.
+func (c *Cell) Flash(p float64, n []float64) (CellFlash, error) {
+	total := 0.0
+	for _, v := range n {
+		if v < 0 || math.IsNaN(v) {
+			return CellFlash{}, fmt.Errorf("%w: a cell holds %g mol of a component", ErrBadOptions, v)
+		}
+		total += v
+	}
+	if !(total > 0) {
+		return CellFlash{}, fmt.Errorf("%w: the cell is empty", ErrBadOptions)
+	}
+	for i, v := range n {
+		c.z[i] = v / total
+	}
+	var err error
+	if c.hasK {
+		err = c.f.FlashFrom(&c.res, c.t, p, c.z, c.k)
+	} else {
+		err = c.f.Flash(&c.res, c.t, p, c.z)
+	}
+	if err != nil {
+		return CellFlash{}, &eos.StateError{What: "flash of a reservoir cell", T: c.t, P: p, Err: err}
+	}
+	c.hasK = c.res.Phases == 2
+	if c.hasK {
+		for i := range c.k {
+			c.k[i] = c.res.Y[i] / c.res.X[i]
+			if !(c.k[i] > 0) || math.IsInf(c.k[i], 0) {
+				c.hasK = false
+			}
+		}
+	}
+	out := CellFlash{P: p, Total: total, Phases: c.res.Phases}
+	if c.res.Phases == 2 {
+		out.Beta, out.VL, out.VV = c.res.Beta, c.res.L.V, c.res.V.V
+		out.X, out.Y = append([]float64(nil), c.res.X...), append([]float64(nil), c.res.Y...)
+		out.Volume = total * (out.Beta*out.VV + (1-out.Beta)*out.VL)
+		out.Dropout = total * (1 - out.Beta) * out.VL / c.PoreVolume(p)
+	} else {
+		ph := c.res.V
+		if c.res.Single == eos.Liquid {
+			ph = c.res.L
+		}
+		out.Beta, out.VV = 1, ph.V
+		out.Y = append([]float64(nil), c.z...)
+		out.X = out.Y
+		out.Volume = total * ph.V
+	}
+	return out, nil
+}
+
+// Excess is the fluid that no longer fits the pore volume once the moles n
+// are at p: the excess volume taken as the mobile phase (the gas; the one
+// phase when single phase), moles by component. The liquid stays: a
+// condensate below its critical saturation does not flow. It is zero when
+// the fluid fits.
+func (c *Cell) Excess(p float64, n []float64) ([]float64, CellFlash, error) {
+	fs, err := c.Flash(p, n)
+	if err != nil {
+		return nil, fs, err
+	}
+	out := make([]float64, len(n))
+	ex := fs.Volume - c.PoreVolume(p)
+	if !(ex > 0) {
+		return out, fs, nil
+	}
+	moles := ex / fs.VV
+	if gas := fs.Total * fs.Beta; moles > gas {
+		moles = gas // all the gas: a liquid-filled cell gives no more
+	}
+	for i := range out {
+		out[i] = moles * fs.Y[i]
+		if out[i] > n[i] {
+			out[i] = n[i]
+		}
+	}
+	return out, fs, nil
+}
