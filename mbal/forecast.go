@@ -383,7 +383,7 @@ type Forecast struct {
 	// FirstProduction is the first day a well produced (zero when none
 	// did).
 	FirstProduction time.Time
-	Stop  StopReason
+	Stop            StopReason
 	// StopDate is when production ends; PlateauEnd when the sales-gas
 	// target was last met (zero when it never was).
 	StopDate, PlateauEnd time.Time
