@@ -114,12 +114,19 @@ func (c *Cell) Flash(p float64, n []float64) (CellFlash, error) {
 // condensate below its critical saturation does not flow. It is zero when
 // the fluid fits.
 func (c *Cell) Excess(p float64, n []float64) ([]float64, CellFlash, error) {
+	return c.ExcessIn(p, n, c.PoreVolume(p))
+}
+
+// ExcessIn is Excess in a pore volume of pv m³ at p instead of the cell's
+// own: a cell whose volume changes otherwise than with pressure (the part
+// of a swept volume that water has not reached).
+func (c *Cell) ExcessIn(p float64, n []float64, pv float64) ([]float64, CellFlash, error) {
 	fs, err := c.Flash(p, n)
 	if err != nil {
 		return nil, fs, err
 	}
 	out := make([]float64, len(n))
-	ex := fs.Volume - c.PoreVolume(p)
+	ex := fs.Volume - pv
 	if !(ex > 0) {
 		return out, fs, nil
 	}

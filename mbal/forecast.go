@@ -43,19 +43,20 @@ type Streams struct {
 	Fuel         float64 // gas burnt in the plant
 	Removed      float64 // gas taken out by the plant (CO2, H2S, ...)
 	Injected     float64 // gas injected (zero for a depletion)
+	Water        float64 // water injected, m³
 }
 
 // sub returns s − o, field by field.
 func (s Streams) sub(o Streams) Streams {
 	return Streams{s.WetGas - o.WetGas, s.SeparatorGas - o.SeparatorGas, s.Condensate - o.Condensate, s.SalesGas - o.SalesGas,
-		s.SalesEnergy - o.SalesEnergy, s.NGL - o.NGL, s.Fuel - o.Fuel, s.Removed - o.Removed, s.Injected - o.Injected}
+		s.SalesEnergy - o.SalesEnergy, s.NGL - o.NGL, s.Fuel - o.Fuel, s.Removed - o.Removed, s.Injected - o.Injected, s.Water - o.Water}
 }
 
 // lerp returns s + f (o − s).
 func (s Streams) lerp(o Streams, f float64) Streams {
 	d := o.sub(s)
 	return Streams{s.WetGas + f*d.WetGas, s.SeparatorGas + f*d.SeparatorGas, s.Condensate + f*d.Condensate, s.SalesGas + f*d.SalesGas,
-		s.SalesEnergy + f*d.SalesEnergy, s.NGL + f*d.NGL, s.Fuel + f*d.Fuel, s.Removed + f*d.Removed, s.Injected + f*d.Injected}
+		s.SalesEnergy + f*d.SalesEnergy, s.NGL + f*d.NGL, s.Fuel + f*d.Fuel, s.Removed + f*d.Removed, s.Injected + f*d.Injected, s.Water + f*d.Water}
 }
 
 // ReservoirState is the reservoir after some production: what a reservoir
@@ -576,7 +577,7 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 		st := ForecastStep{Start: stepStart, End: end, Wells: wells.CountAt(end.Add(-time.Nanosecond)), State: s, OnPlateau: onPlateau, WellYears: wellSeconds / secondsPerYear}
 		if d := end.Sub(stepStart).Seconds(); d > 0 {
 			dv := s.Cum.sub(stepState.Cum)
-			st.Rates = Streams{dv.WetGas / d, dv.SeparatorGas / d, dv.Condensate / d, dv.SalesGas / d, dv.SalesEnergy / d, dv.NGL / d, dv.Fuel / d, dv.Removed / d, dv.Injected / d}
+			st.Rates = Streams{dv.WetGas / d, dv.SeparatorGas / d, dv.Condensate / d, dv.SalesGas / d, dv.SalesEnergy / d, dv.NGL / d, dv.Fuel / d, dv.Removed / d, dv.Injected / d, dv.Water / d}
 		}
 		st.Deliverability = fieldDeliverability(s, st.Wells)
 		if end.After(stepStart) {
@@ -612,7 +613,7 @@ func yearLength(y int) float64 {
 // add returns s + o, field by field.
 func (s Streams) add(o Streams) Streams {
 	return Streams{s.WetGas + o.WetGas, s.SeparatorGas + o.SeparatorGas, s.Condensate + o.Condensate, s.SalesGas + o.SalesGas,
-		s.SalesEnergy + o.SalesEnergy, s.NGL + o.NGL, s.Fuel + o.Fuel, s.Removed + o.Removed, s.Injected + o.Injected}
+		s.SalesEnergy + o.SalesEnergy, s.NGL + o.NGL, s.Fuel + o.Fuel, s.Removed + o.Removed, s.Injected + o.Injected, s.Water + o.Water}
 }
 
 // plateauStep finds the withdrawal from s that yields sales standard m³
