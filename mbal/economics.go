@@ -155,11 +155,15 @@ type YearVolumes struct {
 	// ProducingFraction is the fraction of the year the field produced,
 	// from 0 to 1, on which the fixed opex is charged.
 	ProducingFraction float64
+	// OtherOpex is a cost of the year beyond the opex of Economics, in the
+	// currency: the compression of gas cycled or bought, the pumping of
+	// water injected, by a scenario's own unit costs.
+	OtherOpex float64
 }
 
 func (y YearVolumes) hasVolumes() bool {
 	return y.SalesGas > 0 || y.SalesEnergy > 0 || y.Condensate > 0 || y.NGL > 0 ||
-		y.WellYears > 0 || y.ProducingFraction > 0
+		y.WellYears > 0 || y.ProducingFraction > 0 || y.OtherOpex > 0
 }
 
 // CashFlowYear is one row of the cash-flow table, in the currency of the
@@ -174,7 +178,7 @@ type CashFlowYear struct {
 	Revenue           float64 // gas + condensate + NGL revenue
 	Royalty           float64 // Economics.Royalty × Revenue
 	// Opex is OpexFixed × ProducingFraction + OpexPerWell × WellYears +
-	// OpexGas × SalesGas + OpexCondensate × Condensate.
+	// OpexGas × SalesGas + OpexCondensate × Condensate + OtherOpex.
 	Opex        float64
 	Capex       float64 // the capital costs dated in the year
 	Abandonment float64 // AbandonmentCost in the last year of the table, else 0
@@ -421,7 +425,7 @@ func CashFlow(e Economics, years []YearVolumes, abandonYear int) (*CashFlowResul
 		row.Revenue = row.GasRevenue + row.CondensateRevenue + row.NGLRevenue
 		row.Royalty = e.Royalty * row.Revenue
 		row.Opex = e.OpexFixed*v.ProducingFraction + e.OpexPerWell*v.WellYears +
-			e.OpexGas*v.SalesGas + e.OpexCondensate*v.Condensate
+			e.OpexGas*v.SalesGas + e.OpexCondensate*v.Condensate + v.OtherOpex
 		row.Net = row.Revenue - row.Royalty - row.Opex - row.Capex - row.Abandonment
 		if math.IsNaN(row.Net) || math.IsInf(row.Net, 0) {
 			return nil, bad("years", "give a cash flow in %d too large to add up: check the prices, costs and volumes", row.Year)
@@ -582,6 +586,7 @@ func (e Economics) checkYear(i int, y YearVolumes, years []YearVolumes) error {
 		{"Condensate", y.Condensate, "m³"},
 		{"NGL", y.NGL, "m³"},
 		{"WellYears", y.WellYears, "well-years"},
+		{"OtherOpex", y.OtherOpex, "currency"},
 	} {
 		if !(f.v >= 0) || math.IsInf(f.v, 0) {
 			return bad(f.field, "= %g in %d, want at least 0 and finite (%s)", f.v, y.Year, f.unit)

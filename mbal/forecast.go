@@ -317,6 +317,9 @@ type ForecastOptions struct {
 	End     time.Time
 	// StepMonths is the reporting step, in calendar months (1 to 12).
 	StepMonths int
+	// Inject is gas injected besides what the model returns itself (bought
+	// gas of a cycling scenario), standard m³/s.
+	Inject float64
 	// Substep is the integration step; 0 means one day. The rate is
 	// integrated with the classical Runge–Kutta method on it, whatever the
 	// reporting step.
@@ -409,6 +412,8 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 		return nil, fmt.Errorf("%w: minimum flowing pressure %g Pa, want above 0", ErrForecast, wells.MinPwf)
 	case wells.BankFactor < 0 || wells.BankFactor > 1:
 		return nil, fmt.Errorf("%w: condensate bank factor %g, want (0, 1]", ErrForecast, wells.BankFactor)
+	case o.Inject < 0 || math.IsNaN(o.Inject):
+		return nil, fmt.Errorf("%w: injection %g, want 0 or more", ErrForecast, o.Inject)
 	case !(o.Plateau > 0) || !(o.Uptime > 0 && o.Uptime <= 1) || o.Minimum < 0 || o.Minimum >= o.Plateau:
 		return nil, fmt.Errorf("%w: plateau %g, uptime %g, minimum %g: want a plateau above 0, an uptime in (0, 1] and a minimum below the plateau", ErrForecast, o.Plateau, o.Uptime, o.Minimum)
 	case o.StepMonths < 1 || o.StepMonths > 12:
@@ -447,12 +452,15 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 	var wellSeconds float64
 	onPlateau := true
 	var now time.Time // the start of the substep, for a TimedModel
-	advance := func(s ReservoirState, dw float64) (ReservoirState, error) {
+	var sub float64 // the substep's length, s, for the injection of a stage
+	advanceFor := func(s ReservoirState, dw, sec float64) (ReservoirState, error) {
+		inj := o.Inject * sec
 		if tm, ok := m.(TimedModel); ok {
-			return tm.AdvanceAt(s, math.Max(dw, 0), 0, now)
+			return tm.AdvanceAt(s, math.Max(dw, 0), inj, now)
 		}
-		return m.Advance(s, math.Max(dw, 0), 0)
+		return m.Advance(s, math.Max(dw, 0), inj)
 	}
+	advance := func(s ReservoirState, dw float64) (ReservoirState, error) { return advanceFor(s, dw, sub) }
 	year := func(t time.Time) *ForecastYear {
 		if n := len(f.Years); n > 0 && f.Years[n-1].Year == t.Year() {
 			return &f.Years[n-1]
@@ -475,7 +483,7 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 			}
 			n := wells.CountAt(t)
 			sec := dt.Seconds()
-			now = t
+			now, sub = t, sec
 			q1, _, p1 := rate(s, n)
 			var dw float64
 			var next ReservoirState
@@ -496,12 +504,12 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 				}
 			}
 			if !held {
-				s2, err := advance(s, q1*sec/2)
+				s2, err := advanceFor(s, q1*sec/2, sec/2)
 				if err != nil {
 					return nil, err
 				}
 				q2, _, _ := rate(s2, n)
-				s3, err := advance(s, q2*sec/2)
+				s3, err := advanceFor(s, q2*sec/2, sec/2)
 				if err != nil {
 					return nil, err
 				}
@@ -546,7 +554,7 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 					}
 					if frac < 1 {
 						var err error
-						if next, err = advance(s, dw*frac); err != nil {
+						if next, err = advanceFor(s, dw*frac, sec*frac); err != nil {
 							return nil, err
 						}
 					}

@@ -13,6 +13,7 @@ import (
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/cvd"
+	"dewcell/eos"
 	"dewcell/mbal"
 )
 
@@ -56,11 +57,46 @@ func forecastRun(o *options, st *study.Study, atDew bool) (*forecastResult, erro
 		return nil, cli.Exit(fmt.Sprintf("%s has no [production] section: the forecast needs the field's plateau and horizon, such as "+
 			`[production] plateau_rate = "45 MMscf/d", uptime = 0.95, minimum_rate = "2 MMscf/d", end = "2060-01-01", step = "1 month"`, st.File), exitUsage)
 	}
-	res, err := reservoirOf(o, st, "forecast", true)
+	fs, err := forecastSetupOf(o, st, "forecast", atDew, st.Plant)
 	if err != nil {
 		return nil, err
 	}
-	if _, err := startAtDewPoint(o, st, &res, "forecast", atDew); err != nil {
+	rec, model, err := depletionModelOf(st, o.sys, fs)
+	if err != nil {
+		return nil, err
+	}
+	p := st.Production
+	fc, err := mbal.RunForecast(model, wellsOf(st.Wells), mbal.ForecastOptions{Plateau: p.PlateauRate, Uptime: p.Uptime, Minimum: p.MinimumRate, End: p.End, StepMonths: p.StepMonths})
+	if err != nil {
+		return nil, fmt.Errorf("the forecast: %w", err)
+	}
+	out := &forecastResult{res: fs.res, rec: rec, model: model, fc: fc, sales: fs.sales, std: st.StandardConditions(o.sys)}
+	if st.Economics != nil {
+		if out.cash, err = cashFlowOf(st, out); err != nil {
+			return nil, err
+		}
+	}
+	return out, nil
+}
+
+// forecastSetup is what every forecast of a study shares: the reservoir,
+// its dew point, the separator train, the gas plant and its sales gas at
+// discovery.
+type forecastSetup struct {
+	res   mbal.Reservoir
+	sat   eos.Saturation
+	tr    cvd.Train
+	plant mbal.Plant
+	proc  mbal.GasProcessor
+	sales *salesGas
+}
+
+func forecastSetupOf(o *options, st *study.Study, what string, atDew bool, plant *study.Plant) (*forecastSetup, error) {
+	res, err := reservoirOf(o, st, what, true)
+	if err != nil {
+		return nil, err
+	}
+	if _, err := startAtDewPoint(o, st, &res, what, atDew); err != nil {
 		return nil, err
 	}
 	if len(st.Separator) == 0 {
@@ -70,48 +106,50 @@ func forecastRun(o *options, st *study.Study, atDew bool) (*forecastResult, erro
 	if err != nil {
 		return nil, err
 	}
-	tr := trainOf(st, o.sys)
-	grid := mbal.DepletionGrid(res.Pi, res.Abandonment, sat.P, forecastGridSteps)
-	rec, err := mbal.Recover(st.Fluid, st.Z, res, tr, mbal.RecoverOptions{Pressures: grid, SkipMaxSaturation: true})
-	if err != nil {
-		return nil, reservoirError(st, o.sys, "depletion recovery for the forecast", err)
-	}
-	pl, proc, err := plantOf(st, o.sys)
-	if err != nil {
+	fs := &forecastSetup{res: res, sat: sat, tr: trainOf(st, o.sys)}
+	if fs.plant, fs.proc, err = plantOf(st, plant, o.sys); err != nil {
 		return nil, err
 	}
-	sales, err := salesGasOf(st, o.sys, tr, pl)
-	if err != nil {
+	if fs.sales, err = salesGasOf(st, o.sys, fs.tr, fs.plant); err != nil {
 		return nil, err
 	}
-	model, err := mbal.NewDepletionModel(st.Fluid, rec, tr, proc, nil)
+	return fs, nil
+}
+
+// depletionModelOf is the depletion of the study tabulated for a forecast.
+func depletionModelOf(st *study.Study, sys units.System, fs *forecastSetup) (*mbal.Recovery, *mbal.DepletionModel, error) {
+	res := fs.res
+	grid := mbal.DepletionGrid(res.Pi, res.Abandonment, fs.sat.P, forecastGridSteps)
+	rec, err := mbal.Recover(st.Fluid, st.Z, res, fs.tr, mbal.RecoverOptions{Pressures: grid, SkipMaxSaturation: true})
 	if err != nil {
-		return nil, fmt.Errorf("the depletion as the forecast's reservoir: %w", err)
+		return nil, nil, reservoirError(st, sys, "depletion recovery for the forecast", err)
 	}
-	w := st.Wells
+	model, err := mbal.NewDepletionModel(st.Fluid, rec, fs.tr, fs.proc, nil)
+	if err != nil {
+		return nil, nil, fmt.Errorf("the depletion as the forecast's reservoir: %w", err)
+	}
+	return rec, model, nil
+}
+
+// wellsOf is [wells] as the forecast takes them.
+func wellsOf(w *study.Wells) mbal.Wells {
 	wells := mbal.Wells{Count: w.Count, Start: w.Start, TestRate: w.TestRate, TestPR: w.TestReservoirPressure, TestPwf: w.TestFlowingPressure,
 		Exponent: w.Exponent, MinPwf: w.MinimumFlowingPressure, BankFactor: w.BankFactor}
 	for _, a := range w.Add {
 		wells.Add = append(wells.Add, mbal.WellAdd{Date: a.Date, Count: a.Count})
 	}
-	p := st.Production
-	fc, err := mbal.RunForecast(model, wells, mbal.ForecastOptions{Plateau: p.PlateauRate, Uptime: p.Uptime, Minimum: p.MinimumRate, End: p.End, StepMonths: p.StepMonths})
-	if err != nil {
-		return nil, fmt.Errorf("the forecast: %w", err)
-	}
-	out := &forecastResult{res: res, rec: rec, model: model, fc: fc, sales: sales, std: st.StandardConditions(o.sys)}
-	if st.Economics != nil {
-		if out.cash, err = cashFlowOf(st, out); err != nil {
-			return nil, err
-		}
-	}
-	return out, nil
+	return wells
 }
 
 // cashFlowOf is the yearly cash flow of the forecast fr with the study's
 // [economics]; the abandonment cost falls in the last year of production.
 func cashFlowOf(st *study.Study, fr *forecastResult) (*mbal.CashFlowResult, error) {
-	e := st.Economics
+	return cashFlowFor(st.File, st.Economics, fr.fc, fr.sales, nil, nil)
+}
+
+// cashFlowFor is the yearly cash flow of the forecast fc with economics e,
+// extra capital costs and a cost of each year beyond e's opex (nil: none).
+func cashFlowFor(file string, e *study.Economics, fc *mbal.Forecast, sales *salesGas, extra []mbal.Capex, other func(mbal.ForecastYear) float64) (*mbal.CashFlowResult, error) {
 	me := mbal.Economics{Currency: e.Currency, GasPrice: e.GasPrice, CondensatePrice: e.CondensatePrice, NGLPrice: e.NGLPrice,
 		Royalty: e.Royalty, DiscountRate: e.DiscountRate, OpexFixed: e.OpexFixed, OpexPerWell: e.OpexPerWell,
 		OpexGas: e.OpexGas, OpexCondensate: e.OpexCondensate, AbandonmentCost: e.AbandonmentCost}
@@ -124,28 +162,33 @@ func cashFlowOf(st *study.Study, fr *forecastResult) (*mbal.CashFlowResult, erro
 	for _, c := range e.Capex {
 		me.Capex = append(me.Capex, mbal.Capex{Date: c.Date, Amount: c.Amount, What: c.What})
 	}
+	me.Capex = append(me.Capex, extra...)
 	var ys []mbal.YearVolumes
-	for _, y := range fr.fc.Years {
+	for _, y := range fc.Years {
 		v := y.Volumes
 		if math.IsNaN(v.SalesEnergy) {
 			v.SalesEnergy = 0 // unknown, and not priced: the gas sells by volume
 		}
-		ys = append(ys, mbal.YearVolumes{Year: y.Year, SalesGas: v.SalesGas, SalesEnergy: v.SalesEnergy, Condensate: v.Condensate, NGL: v.NGL,
-			WellYears: y.WellYears, ProducingFraction: y.ProducingFraction})
+		yv := mbal.YearVolumes{Year: y.Year, SalesGas: v.SalesGas, SalesEnergy: v.SalesEnergy, Condensate: v.Condensate, NGL: v.NGL,
+			WellYears: y.WellYears, ProducingFraction: y.ProducingFraction}
+		if other != nil {
+			yv.OtherOpex = other(y)
+		}
+		ys = append(ys, yv)
 	}
-	if e.GasPerEnergy && math.IsNaN(fr.fc.Final.Cum.SalesEnergy) {
+	if e.GasPerEnergy && math.IsNaN(fc.Final.Cum.SalesEnergy) {
 		return nil, cli.Exit(fmt.Sprintf("%s: economics.gas_price is per energy, but the sales gas's heating value is unknown (%s): give the price per volume, such as \"3.6 %s/Mscf\"",
-			st.File, fr.sales.unknown, e.Currency), exitUsage)
+			file, sales.unknown, e.Currency), exitUsage)
 	}
-	last := fr.fc.StopDate.Add(-time.Nanosecond).Year()
+	last := fc.StopDate.Add(-time.Nanosecond).Year()
 	cf, err := mbal.CashFlow(me, ys, last)
 	var ee *mbal.EconomicsError
 	switch {
 	case errors.As(err, &ee):
-		return nil, cli.Exit(fmt.Sprintf("%s: %s: %s (production runs from %s to %s, when %s)", st.File, economicsKey(ee.Field), ee.Why,
-			fr.fc.FirstProduction.Format(time.DateOnly), fr.fc.StopDate.Format(time.DateOnly), fr.fc.Stop), exitUsage)
+		return nil, cli.Exit(fmt.Sprintf("%s: %s: %s (production runs from %s to %s, when %s)", file, economicsKey(ee.Field), ee.Why,
+			fc.FirstProduction.Format(time.DateOnly), fc.StopDate.Format(time.DateOnly), fc.Stop), exitUsage)
 	case err != nil:
-		return nil, cli.Exit(fmt.Sprintf("%s: [economics]: %v", st.File, cause(err)), exitUsage)
+		return nil, cli.Exit(fmt.Sprintf("%s: [economics]: %v", file, cause(err)), exitUsage)
 	}
 	return cf, nil
 }
@@ -183,10 +226,10 @@ func yearSeconds(y int) float64 {
 // sells the separator gas as it is) as the forecast uses it: the sales gas,
 // its energy by the gross heating value of its composition, the NGL, fuel
 // and gas removed, in standard volumes at the study's conditions.
-func plantOf(st *study.Study, sys units.System) (mbal.Plant, mbal.GasProcessor, error) {
+func plantOf(st *study.Study, plant *study.Plant, sys units.System) (mbal.Plant, mbal.GasProcessor, error) {
 	comps := st.Fluid.Components()
 	var pl mbal.Plant
-	if p := st.Plant; p != nil {
+	if p := plant; p != nil {
 		pl = mbal.Plant{Remove: p.Remove, NGL: p.NGL, Fuel: p.Fuel}
 	}
 	if err := pl.Check(comps); err != nil {

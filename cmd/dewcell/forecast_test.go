@@ -140,7 +140,7 @@ func TestForecastUnknownHeatingValue(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	_, proc, err := plantOf(st, units.Field)
+	_, proc, err := plantOf(st, st.Plant, units.Field)
 	if err != nil {
 		t.Fatal(err)
 	}
