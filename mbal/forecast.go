@@ -452,7 +452,7 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 	var wellSeconds float64
 	onPlateau := true
 	var now time.Time // the start of the substep, for a TimedModel
-	var sub float64 // the substep's length, s, for the injection of a stage
+	var sub float64   // the substep's length, s, for the injection of a stage
 	advanceFor := func(s ReservoirState, dw, sec float64) (ReservoirState, error) {
 		inj := o.Inject * sec
 		if tm, ok := m.(TimedModel); ok {
