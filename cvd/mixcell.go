@@ -34,7 +34,9 @@ func NewCell(fl *eos.Fluid, t, v0, p0, c float64, s *eos.Settings) (*Cell, error
 		return nil, fmt.Errorf("%w: a cell needs a temperature, a pore volume and a pressure above 0 and a compressibility of 0 or more (got %g K, %g m³, %g Pa, %g 1/Pa)", ErrBadOptions, t, v0, p0, c)
 	}
 	n := fl.N()
-	return &Cell{fl: fl, t: t, v0: v0, p0: p0, c: c, f: eos.NewFlasher(fl, s), k: make([]float64, n), z: make([]float64, n)}, nil
+	f := eos.NewFlasher(fl, s)
+	f.NameSinglePhases(false) // the cell wants volumes, not names: no critical point for every new composition
+	return &Cell{fl: fl, t: t, v0: v0, p0: p0, c: c, f: f, k: make([]float64, n), z: make([]float64, n)}, nil
 }
 
 // PoreVolume is the cell's pore volume at p, m³.
@@ -96,14 +98,10 @@ func (c *Cell) Flash(p float64, n []float64) (CellFlash, error) {
 		out.Volume = total * (out.Beta*out.VV + (1-out.Beta)*out.VL)
 		out.Dropout = total * (1 - out.Beta) * out.VL / c.PoreVolume(p)
 	} else {
-		ph := c.res.V
-		if c.res.Single == eos.Liquid {
-			ph = c.res.L
-		}
-		out.Beta, out.VV = 1, ph.V
+		out.Beta, out.VV = 1, c.res.V.V // one phase: its properties, named or not
 		out.Y = append([]float64(nil), c.z...)
 		out.X = out.Y
-		out.Volume = total * ph.V
+		out.Volume = total * out.VV
 	}
 	return out, nil
 }

@@ -14,6 +14,14 @@ func NewFlasher(fl *Fluid, s *Settings) *Flasher { return &Flasher{w: newWork(fl
 // Fluid returns the fluid the Flasher was made for.
 func (f *Flasher) Fluid() *Fluid { return f.w.fl }
 
+// NameSinglePhases sets whether a single-phase result is named liquid or
+// vapour (the default, on). Naming a phase needs the critical point of its
+// composition (label.go), about a millisecond for each new composition; a
+// caller that only wants the phase's volume, such as a reservoir cell whose
+// contents change at every step, turns it off: Single is then Vapour and
+// Beta 1 for every single phase, whose properties are the same either way.
+func (f *Flasher) NameSinglePhases(on bool) { f.w.noLabel = !on }
+
 // Flash writes into dst the equilibrium of feed z (mole fractions summing to 1)
 // at t (K) and p (Pa), following Michelsen (1982a, 1982b):
 //
@@ -796,7 +804,11 @@ func (w *work) single(dst *FlashResult, t, p float64, z []float64, iter int) {
 	copy(dst.Y, z)
 	pp := w.fl.props(&w.feed, t, p, z)
 	dst.Phases, dst.Iter, dst.Resid, dst.ThreePhase = 1, iter, 0, false
-	dst.Single = w.singleLabel(t, w.feed.vEOS, z)
+	if w.noLabel {
+		dst.Single = Vapour
+	} else {
+		dst.Single = w.singleLabel(t, w.feed.vEOS, z)
+	}
 	dst.L, dst.V = pp, pp
 	if dst.Single == Liquid {
 		dst.Beta = 0

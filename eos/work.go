@@ -6,11 +6,12 @@ import "math"
 // solvers of one fluid: every slice is sized once, so the iterations allocate
 // nothing.
 type work struct {
-	fl  *Fluid
-	n   int
-	tol float64
-	max int
-	ts  tstate
+	fl      *Fluid
+	n       int
+	tol     float64
+	max     int
+	noLabel bool // single phases are not named (Flasher.NameSinglePhases)
+	ts      tstate
 
 	feed, pa, pb phase // feed; liquid (or trial) and vapour phases
 

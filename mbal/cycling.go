@@ -227,7 +227,7 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 		// The produced moles are a small difference of large volumes: the
 		// flashes' convergence leaves them noisy at about 1e-9 of the
 		// withdrawal, or 1e-13 of the moles in place.
-		if math.Abs(g2-dn) <= math.Max(1e-8*dn, 1e-13*total) {
+		if math.Abs(g2-dn) <= math.Max(1e-7*dn, 1e-13*total) {
 			break
 		}
 		if it == 60 {

@@ -148,8 +148,10 @@ func (m *WaterModel) trial(st *waterState, p, dw float64) (waterTrial, error) {
 	phiOld := st.water / (swept * (1 - m.sgr))
 	phi := tr.water / (swept * (1 - m.sgr))
 	if phi >= 1 {
+		// Flood-out: the water fills what it can; none is taken back when
+		// the pore volume shrinks with the pressure.
 		phi, tr.flooded = 1, true
-		tr.water = swept * (1 - m.sgr)
+		tr.water = math.Max(st.water, swept*(1-m.sgr))
 	}
 	if phi > phiOld && phiOld < 1 {
 		// The hydrocarbons of the newly flooded volume: their residual
@@ -252,7 +254,7 @@ func (m *WaterModel) Advance(s ReservoirState, withdraw, inject float64) (Reserv
 				break
 			}
 			v := tr.volume / tr.produced
-			if math.Abs(v-vm) <= 1e-12*v {
+			if math.Abs(v-vm) <= 1e-10*v {
 				break
 			}
 			vm = v
@@ -283,7 +285,7 @@ func (m *WaterModel) Advance(s ReservoirState, withdraw, inject float64) (Reserv
 			exhausted = true
 			break
 		}
-		if math.Abs(g2-dn) <= math.Max(1e-8*dn, 1e-13*total) {
+		if math.Abs(g2-dn) <= math.Max(1e-7*dn, 1e-13*total) {
 			break
 		}
 		if it == 60 {

@@ -144,6 +144,7 @@ func newApp(stdout, stderr io.Writer) *cli.App {
 			compareCommand(),
 			checkCommand(),
 			forecastCommand(),
+			maintainCommand(),
 			tuneCommand(),
 			reportCommand(),
 			demoCommand(),
