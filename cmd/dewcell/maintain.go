@@ -559,7 +559,7 @@ func maintainFigures(sys units.System, mr *maintainResult) []*report.Figure {
 	if len(mr.sens) > 0 {
 		tor := &report.Figure{Name: "maintain-sensitivity", Title: "Sensitivity of the gain over depletion",
 			Caption: fmt.Sprintf("Incremental NPV over depletion with each input %s %% lower and higher; the labels name the scenario and input.", report.Sig(100*mr.change, 3)),
-			X: report.Axis{Label: "Input", Min: 0.3, Max: float64(len(mr.sens)) + 0.7}, Y: report.Axis{Label: "Incremental NPV [10^6 " + mr.currency + "]"}}
+			X:       report.Axis{Label: "Input", Min: 0.3, Max: float64(len(mr.sens)) + 0.7}, Y: report.Axis{Label: "Incremental NPV [10^6 " + mr.currency + "]"}}
 		low := report.Series{Label: "Input lower", Style: report.Bars}
 		high := report.Series{Label: "Input higher", Style: report.Points}
 		rows := append([]sensitivityRow(nil), mr.sens...)
