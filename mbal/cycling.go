@@ -75,6 +75,10 @@ type cyclingState struct {
 	// slope is the produced moles per Pa of the last withdrawal's pressure
 	// search (negative), the next one's first guess.
 	slope float64
+	// gas is the composition of each cell's mobile phase at the end of the
+	// last withdrawal: with the end composition of the next, the
+	// trapezoidal rule for what leaves the cell over it.
+	gas [][]float64
 }
 
 // NewCyclingModel builds the cycling of fl (feed z) in reservoir r, the
@@ -130,6 +134,7 @@ func NewCyclingModel(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, proc
 			nm[i] = f * ip.Moles * z[i]
 		}
 		st.moles = append(st.moles, nm)
+		st.gas = append(st.gas, append([]float64(nil), z...))
 	}
 	// The returned gas at the start: the plant's sales gas of the feed.
 	sr, err := sep.Separate(z)
@@ -186,8 +191,11 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 		inj[i] = injMoles * st.inject[i]
 	}
 	// The common pressure at which the producers give dn.
+	var gasEnd [][]float64
 	run := func(p float64) (float64, [][]float64, []float64, error) {
-		return m.chain(st.moles, inj, p)
+		g, moles, out, gs, err := m.chain(st.moles, st.gas, inj, p)
+		gasEnd = gs
+		return g, moles, out, err
 	}
 	total := 0.0
 	for _, c := range st.moles {
@@ -246,8 +254,11 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 		}
 	}
 	ns, err := m.after(s, st, moles, out, inj, p2, blowdown, exhausted)
-	if err == nil && slope < 0 && !math.IsInf(slope, 0) {
-		ns.x.(*cyclingState).slope = slope
+	if err == nil {
+		if slope < 0 && !math.IsInf(slope, 0) {
+			ns.x.(*cyclingState).slope = slope
+		}
+		ns.x.(*cyclingState).gas = gasEnd
 	}
 	return ns, err
 }
@@ -256,7 +267,7 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 // and passes each cell's excess downstream: the unswept cell's and the
 // last swept cell's own go to the producers. It returns the moles the
 // producers give, the cells' moles after, and the produced stream.
-func (m *CyclingModel) chain(n [][]float64, inj []float64, p float64) (float64, [][]float64, []float64, error) {
+func (m *CyclingModel) chain(n, gas0 [][]float64, inj []float64, p float64) (float64, [][]float64, []float64, [][]float64, error) {
 	swept := m.o.Cells
 	moles := make([][]float64, len(n))
 	for k := range n {
@@ -265,11 +276,32 @@ func (m *CyclingModel) chain(n [][]float64, inj []float64, p float64) (float64, 
 	for i := range inj {
 		moles[0][i] += inj[i]
 	}
+	gasEnd := make([][]float64, len(n))
+	// excess is what cell k gives up: the moles that no longer fit, of the
+	// mean of its mobile phase's composition at the start and at the end of
+	// the withdrawal (the trapezoidal rule: removing the gas of a cell at
+	// its pressure leaves the phases' compositions as they are, so the end
+	// composition is the flash's).
+	excess := func(k int) ([]float64, error) {
+		ex, fs, err := m.cells[k].Excess(p, moles[k])
+		if err != nil {
+			return nil, err
+		}
+		gasEnd[k] = fs.Y
+		total := 0.0
+		for _, v := range ex {
+			total += v
+		}
+		for i := range ex {
+			ex[i] = math.Min(total*(gas0[k][i]+fs.Y[i])/2, moles[k][i])
+		}
+		return ex, nil
+	}
 	toProducer := make([]float64, m.n)
 	if len(moles) > swept { // the unswept cell expands into the producers' cell
-		ex, _, err := m.cells[swept].Excess(p, moles[swept])
+		ex, err := excess(swept)
 		if err != nil {
-			return 0, nil, nil, err
+			return 0, nil, nil, nil, err
 		}
 		for i := range ex {
 			moles[swept][i] -= ex[i]
@@ -283,9 +315,9 @@ func (m *CyclingModel) chain(n [][]float64, inj []float64, p float64) (float64, 
 				moles[k][i] += toProducer[i]
 			}
 		}
-		ex, _, err := m.cells[k].Excess(p, moles[k])
+		ex, err := excess(k)
 		if err != nil {
-			return 0, nil, nil, err
+			return 0, nil, nil, nil, err
 		}
 		for i := range ex {
 			moles[k][i] -= ex[i]
@@ -302,7 +334,7 @@ func (m *CyclingModel) chain(n [][]float64, inj []float64, p float64) (float64, 
 	for _, v := range out {
 		total += v
 	}
-	return total, moles, out, nil
+	return total, moles, out, gasEnd, nil
 }
 
 // after is the state once the producers have given out (moles) at p.
@@ -314,7 +346,7 @@ func (m *CyclingModel) after(s ReservoirState, st *cyclingState, moles [][]float
 	for _, v := range inj {
 		injMoles += v
 	}
-	next := &cyclingState{moles: moles, inject: st.inject, returnPerMole: st.returnPerMole, blowdown: blowdown, slope: st.slope,
+	next := &cyclingState{moles: moles, inject: st.inject, returnPerMole: st.returnPerMole, blowdown: blowdown, slope: st.slope, gas: st.gas,
 		produced: append([]float64(nil), st.produced...), injected: append([]float64(nil), st.injected...)}
 	for i := range out {
 		next.produced[i] += out[i]
