@@ -15,7 +15,7 @@ import (
 
 // demoTables are the results demo writes, each as JSON and its first
 // table as CSV.
-var demoTables = []string{"fluid", "saturation", "envelope", "check", "comparison", "tuning", "comparison_after", "depletion", "expansion", "separator", "in_place", "recovery", "forecast", "history"}
+var demoTables = []string{"fluid", "saturation", "envelope", "check", "comparison", "tuning", "comparison_after", "depletion", "expansion", "separator", "in_place", "recovery", "forecast", "maintain", "history"}
 
 // demoFigures are the figures demo draws, each as SVG and PNG.
 var demoFigures = []string{"phase-envelope",
@@ -25,6 +25,7 @@ var demoFigures = []string{"phase-envelope",
 	"cvd-liquid-dropout", "cvd-gas-composition", "cce-relative-volume", "cce-liquid-volume",
 	"recovery", "condensate-saturation",
 	"forecast-gas-rate", "forecast-condensate-rate", "forecast-pressure", "forecast-cumulative-gas", "forecast-cumulative-liquid", "forecast-cash-flow",
+	"maintain-condensate-rate", "maintain-condensate-cumulative", "maintain-pressure", "maintain-cgr", "maintain-npv", "maintain-sensitivity",
 	"history-p-over-z"}
 
 // demoParts are the further tables demo writes as CSV, by result.
@@ -36,6 +37,7 @@ var demoParts = map[string][]string{
 	"in_place":   {"summary"},
 	"recovery":   {"summary"},
 	"forecast":   {"steps", "summary", "cash-flow"},
+	"maintain":   {"summary", "years-depletion", "years-cycling", "years-water-injection", "sensitivity"},
 	"history":    {"summary"},
 	"expansion":  {"summary"},
 	"saturation": nil, // the summary is its only table

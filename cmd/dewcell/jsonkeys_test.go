@@ -52,6 +52,7 @@ var jsonKeyCases = []struct {
 	{"tune", []string{"tune", "../../examples/sablewick.toml"}},
 	{"forecast", []string{"forecast", "../../examples/sablewick.toml"}},
 	{"forecast-metric", []string{"forecast", "../../examples/sablewick.toml", "--units", "metric"}},
+	{"maintain", []string{"maintain", "../../examples/sablewick.toml"}},
 	{"demo", []string{"demo"}},
 }
 

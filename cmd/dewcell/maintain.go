@@ -310,7 +310,7 @@ func maintainReport(st *study.Study, sys units.System, mr *maintainResult) *Repo
 			{Name: "water_injected", Unit: lU},
 			{Name: "stop_date", Label: "End of production"},
 			{Name: "min_pressure", Label: "Lowest pressure", Unit: pU},
-			{Name: "mass_balance_error", Label: "Component balance error", Format: report.Format{Scientific: true}},
+			{Name: "mass_balance_error", Label: "Component balance error", Format: report.Format{Scientific: true}, Verbose: true},
 			{Name: "incremental_condensate", Unit: lU},
 			{Name: "incremental_sales_gas", Unit: gU},
 			{Name: "incremental_npv", Label: "Incremental NPV", Symbol: cur, Format: money},

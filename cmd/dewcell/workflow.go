@@ -139,6 +139,15 @@ func workflow(o *options, st *study.Study, atDew bool) (out []*Report, err error
 			return nil, err
 		}
 		add(forecastReport(st, sys, fr))
+		if len(st.Scenarios) == 0 {
+			skipped("pressure maintenance", fmt.Sprintf("%s has no [[scenario]]", st.File))
+		} else {
+			mr, err := maintainRun(o, st, atDew, 0.2)
+			if err != nil {
+				return nil, err
+			}
+			add(maintainReport(st, sys, mr))
+		}
 	}
 	if len(st.History) == 0 {
 		skipped("material balance on production history", fmt.Sprintf("%s has no [[history]]", st.File))
