@@ -202,3 +202,29 @@ func TestCyclingRecoversMoreCondensate(t *testing.T) {
 		t.Errorf("component balance off by %.3g", e)
 	}
 }
+
+// A costly model integrated by the midpoint rule on monthly substeps
+// stops at the abandonment pressure, not with months of nothing after it.
+func TestCyclingStopsAtAbandonment(t *testing.T) {
+	_, c, res := forecastModel(t)
+	m, err := NewCyclingModel(c.Fluid, c.Z, res, rTrain, passThrough(rTrain.StandardConditions().IdealGasVolume()), CyclingOptions{ReturnFraction: 0.5, Sweep: 0.8, Cells: 3, End: fcDay(2036, 1, 1)}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	o := fcOptions()
+	o.Minimum, o.End, o.Substep, o.Midpoint = 0, fcDay(2200, 1, 1), 30*24*time.Hour, true
+	w := fcWells
+	w.MinPwf = 0.5 * res.Abandonment // the wells can flow below the abandonment pressure
+	f, err := RunForecast(m, w, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if f.Stop != StopAbandonment {
+		t.Errorf("stop %v on %s, want the abandonment pressure", f.Stop, f.StopDate.Format(time.DateOnly))
+	}
+	for _, s := range f.Steps[len(f.Steps)-3:] {
+		if !(s.Rates.WetGas > 0) {
+			t.Errorf("step to %s produces nothing before the stop", s.End.Format(time.DateOnly))
+		}
+	}
+}

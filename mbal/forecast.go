@@ -536,6 +536,9 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 				}
 				q2, _, _ := rate(s2, n)
 				dw = sec * q2
+				if s2.Exhausted {
+					dw = sec * q1 // the model ends within the substep: withdraw up to its end
+				}
 				if next, err = advance(s, dw); err != nil {
 					return nil, err
 				}
@@ -556,6 +559,9 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 				}
 				q4, _, _ := rate(s4, n)
 				dw = sec * (q1 + 2*q2 + 2*q3 + q4) / 6
+				if s2.Exhausted || s3.Exhausted || s4.Exhausted {
+					dw = sec * q1 // the model ends within the substep: withdraw up to its end
+				}
 				if next, err = advance(s, dw); err != nil {
 					return nil, err
 				}
