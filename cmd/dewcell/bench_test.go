@@ -10,6 +10,8 @@ import (
 	"strings"
 	"testing"
 
+	"dewcell/cmd/dewcell/internal/study"
+	"dewcell/cmd/dewcell/internal/units"
 	"dewcell/examples"
 )
 
@@ -83,6 +85,29 @@ func BenchmarkForecastCommand(b *testing.B) {
 	for b.Loop() {
 		if code := run([]string{"dewcell", "forecast", "--format", "json", exampleStudy}, io.Discard, io.Discard); code != 0 {
 			b.Fatalf("exit %d", code)
+		}
+	}
+}
+
+// BenchmarkScenarios: the example's three scenarios (depletion, gas
+// cycling in ten cells, water injection) forecast with monthly steps and
+// their economics, without the sensitivity runs.
+func BenchmarkScenarios(b *testing.B) {
+	text := strings.Replace(string(examples.Study), "cells = 6 ", "cells = 10 ", 1)
+	st, err := study.Parse(filepath.Join("..", "..", "examples", examples.StudyName), []byte(text))
+	if err != nil {
+		b.Fatal(err)
+	}
+	if st.Scenarios[1].Cells != 10 {
+		b.Fatalf("%d cells", st.Scenarios[1].Cells)
+	}
+	o := &options{sys: units.Field, stderr: io.Discard}
+	b.ReportAllocs()
+	for b.Loop() {
+		for _, sc := range st.Scenarios {
+			if _, _, err := runScenario(o, st, sc, false, nil); err != nil {
+				b.Fatal(err)
+			}
 		}
 	}
 }
