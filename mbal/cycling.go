@@ -55,6 +55,9 @@ type CyclingModel struct {
 	o     CyclingOptions
 	vsc   float64
 	pa    float64 // abandonment pressure
+	// lastDropout is the largest liquid dropout of a cell at the last
+	// pressure the chain was flashed at: the state's, once it converged.
+	lastDropout float64
 	dew   float64
 	init  ReservoirState
 }
@@ -79,6 +82,9 @@ type cyclingState struct {
 	// last withdrawal: with the end composition of the next, the
 	// trapezoidal rule for what leaves the cell over it.
 	gas [][]float64
+	// dropout is the largest liquid dropout of a cell, a fraction of its
+	// pore volume.
+	dropout float64
 }
 
 // NewCyclingModel builds the cycling of fl (feed z) in reservoir r, the
@@ -259,6 +265,7 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 			ns.x.(*cyclingState).slope = slope
 		}
 		ns.x.(*cyclingState).gas = gasEnd
+		ns.x.(*cyclingState).dropout = m.lastDropout
 	}
 	return ns, err
 }
@@ -277,6 +284,7 @@ func (m *CyclingModel) chain(n, gas0 [][]float64, inj []float64, p float64) (flo
 		moles[0][i] += inj[i]
 	}
 	gasEnd := make([][]float64, len(n))
+	m.lastDropout = 0
 	// excess is what cell k gives up: the moles that no longer fit, of the
 	// mean of its mobile phase's composition at the start and at the end of
 	// the withdrawal (the trapezoidal rule: removing the gas of a cell at
@@ -288,6 +296,7 @@ func (m *CyclingModel) chain(n, gas0 [][]float64, inj []float64, p float64) (flo
 			return nil, err
 		}
 		gasEnd[k] = fs.Y
+		m.lastDropout = math.Max(m.lastDropout, fs.Dropout)
 		total := 0.0
 		for _, v := range ex {
 			total += v
@@ -447,4 +456,14 @@ func (m *CyclingModel) BalanceError(s ReservoirState) float64 {
 		worst = math.Max(worst, math.Abs(in0+st.injected[i]-st.produced[i]-now)/scale)
 	}
 	return worst
+}
+
+// Dropout is the largest liquid dropout of a cell in s (the liquid volume
+// over the cell's pore volume).
+func (m *CyclingModel) Dropout(s ReservoirState) float64 {
+	st, ok := s.x.(*cyclingState)
+	if !ok {
+		return math.NaN()
+	}
+	return st.dropout
 }
