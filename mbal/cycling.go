@@ -58,8 +58,8 @@ type CyclingModel struct {
 	// lastDropout is the largest liquid dropout of a cell at the last
 	// pressure the chain was flashed at: the state's, once it converged.
 	lastDropout float64
-	dew   float64
-	init  ReservoirState
+	dew         float64
+	init        ReservoirState
 }
 
 // cyclingState is what a ReservoirState of a CyclingModel keeps.
