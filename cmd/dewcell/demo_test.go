@@ -25,7 +25,7 @@ var demoFigures = []string{"phase-envelope",
 	"cvd-liquid-dropout", "cvd-gas-composition", "cce-relative-volume", "cce-liquid-volume",
 	"recovery", "condensate-saturation",
 	"forecast-gas-rate", "forecast-condensate-rate", "forecast-pressure", "forecast-cumulative-gas", "forecast-cumulative-liquid", "forecast-cash-flow",
-	"maintain-condensate-rate", "maintain-condensate-cumulative", "maintain-pressure", "maintain-cgr", "maintain-npv", "maintain-sensitivity",
+	"maintain-condensate-rate", "maintain-condensate-cumulative", "maintain-pressure", "maintain-cgr", "maintain-npv", "maintain-sensitivity-cycling", "maintain-sensitivity-water-injection",
 	"history-p-over-z"}
 
 // demoParts are the further tables demo writes as CSV, by result.

@@ -461,6 +461,20 @@ func scenarioIRR(cf *mbal.CashFlowResult, e *study.Economics) (float64, bool) {
 	return turningRate(net, e)
 }
 
+// fileStem is a name as part of a file or key name: lower case, anything
+// but letters and digits a dash.
+func fileStem(name string) string {
+	return strings.Trim(strings.Map(func(r rune) rune {
+		switch {
+		case r >= 'a' && r <= 'z', r >= '0' && r <= '9':
+			return r
+		case r >= 'A' && r <= 'Z':
+			return r + 'a' - 'A'
+		}
+		return '-'
+	}, name), "-")
+}
+
 // scenarioYears is a scenario's forecast per calendar year.
 func scenarioYears(sys units.System, run scenarioRun) Table {
 	pU := sys.Unit(units.Pressure)
@@ -556,21 +570,31 @@ func maintainFigures(sys units.System, mr *maintainResult) []*report.Figure {
 		npv.Lines = []report.RefLine{{Value: 0}}
 		out = append(out, npv)
 	}
-	if len(mr.sens) > 0 {
-		tor := &report.Figure{Name: "maintain-sensitivity", Title: "Sensitivity of the gain over depletion",
-			Caption: fmt.Sprintf("Incremental NPV over depletion with each input %s %% lower and higher; the labels name the scenario and input.", report.Sig(100*mr.change, 3)),
-			X:       report.Axis{Label: "Input", Min: 0.3, Max: float64(len(mr.sens)) + 0.7}, Y: report.Axis{Label: "Incremental NPV [10^6 " + mr.currency + "]"}}
-		low := report.Series{Label: "Input lower", Style: report.Bars}
-		high := report.Series{Label: "Input higher", Style: report.Points}
-		rows := append([]sensitivityRow(nil), mr.sens...)
+	// A tornado per scenario: the span of its gain over depletion as each
+	// input moves, widest first, about the gain as given.
+	var order []string
+	by := map[string][]sensitivityRow{}
+	for _, row := range mr.sens {
+		if by[row.scenario] == nil {
+			order = append(order, row.scenario)
+		}
+		by[row.scenario] = append(by[row.scenario], row)
+	}
+	for _, name := range order {
+		rows := by[name]
 		sort.SliceStable(rows, func(i, j int) bool { return math.Abs(rows[i].high-rows[i].low) > math.Abs(rows[j].high-rows[j].low) })
+		tor := &report.Figure{Name: "maintain-sensitivity-" + fileStem(name), Title: "Sensitivity of the gain of " + name,
+			Caption: fmt.Sprintf("Incremental NPV of %s over depletion as each input goes from %s %% lower to %s %% higher (widest first); the dotted line is the gain as given.",
+				name, report.Sig(100*mr.change, 3), report.Sig(100*mr.change, 3)),
+			X: report.Axis{Label: "Input (labelled)", Min: 0.3, Max: float64(len(rows)) + 0.7}, Y: report.Axis{Label: "Incremental NPV [10^6 " + mr.currency + "]"}}
+		span := report.Series{Label: "Input lower to higher", Style: report.Ranges}
 		for i, row := range rows {
 			x := float64(i + 1)
-			low.X, low.Y = append(low.X, x), append(low.Y, row.low/1e6)
-			high.X, high.Y = append(high.X, x), append(high.Y, row.high/1e6)
-			tor.Marks = append(tor.Marks, report.Mark{Label: row.scenario + ": " + row.input, X: x, Y: row.base / 1e6})
+			span.X, span.Y = append(span.X, x, x), append(span.Y, row.low/1e6, row.high/1e6)
+			tor.Marks = append(tor.Marks, report.Mark{Label: row.input, X: x, Y: math.Max(row.low, row.high) / 1e6})
 		}
-		tor.Series = []report.Series{low, high}
+		tor.Series = []report.Series{span}
+		tor.Lines = []report.RefLine{{Label: "as given", Value: rows[0].base / 1e6}}
 		out = append(out, tor)
 	}
 	return out

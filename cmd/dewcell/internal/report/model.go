@@ -319,6 +319,10 @@ const (
 	// Bars draws a filled bar from zero to each point, centred on its x,
 	// 0.8 of the closest spacing of the points wide: yearly amounts.
 	Bars
+	// Ranges draws a filled bar between each pair of points (points 2k and
+	// 2k+1, of the same x): the span of a result over its inputs' range, a
+	// tornado chart standing up.
+	Ranges
 )
 
 // A Series is one curve of a figure.

@@ -95,13 +95,13 @@ func newScene(f *report.Figure) (*scene, error) {
 				out.x[j], out.y[j] = math.NaN(), math.NaN()
 			}
 		}
-		if sr.Style == report.Bars {
+		if sr.Style == report.Bars || sr.Style == report.Ranges {
 			// The bars' sides and their feet at zero are in the ranges.
 			w := barWidth(out.x)
 			for j := range out.x {
 				if !math.IsNaN(out.x[j]) {
 					xs = append(xs, out.x[j]-w/2, out.x[j]+w/2)
-					if drawable(0, &s.y) {
+					if drawable(0, &s.y) && sr.Style == report.Bars {
 						ys = append(ys, 0)
 					}
 				}

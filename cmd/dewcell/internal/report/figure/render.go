@@ -151,7 +151,7 @@ func (r refLines) Plot(c draw.Canvas, p *plot.Plot) {
 type seriesPlot struct{ s *series }
 
 func (sp seriesPlot) Plot(c draw.Canvas, p *plot.Plot) {
-	if sp.s.style == report.Bars {
+	if sp.s.style == report.Bars || sp.s.style == report.Ranges {
 		sp.bars(c, p)
 		return
 	}
@@ -181,12 +181,18 @@ func (sp seriesPlot) bars(c draw.Canvas, p *plot.Plot) {
 	w := barWidth(sp.s.x)
 	col := palette[sp.s.index%len(palette)]
 	clamp := func(v, lo, hi vg.Length) vg.Length { return max(lo, min(hi, v)) }
+	ranges := sp.s.style == report.Ranges
 	for i, x := range sp.s.x {
-		if math.IsNaN(x) {
+		if math.IsNaN(x) || ranges && (i%2 == 1 || i+1 >= len(sp.s.x) || math.IsNaN(sp.s.y[i+1])) {
 			continue
 		}
+		from := 0.0
+		to := sp.s.y[i]
+		if ranges {
+			from, to = sp.s.y[i], sp.s.y[i+1]
+		}
 		x0, x1 := clamp(trX(x-w/2), c.Min.X, c.Max.X), clamp(trX(x+w/2), c.Min.X, c.Max.X)
-		y0, y1 := clamp(trY(0), c.Min.Y, c.Max.Y), clamp(trY(sp.s.y[i]), c.Min.Y, c.Max.Y)
+		y0, y1 := clamp(trY(from), c.Min.Y, c.Max.Y), clamp(trY(to), c.Min.Y, c.Max.Y)
 		if x1 <= x0 || y0 == y1 {
 			continue
 		}

@@ -100,7 +100,7 @@ func seriesLook(i int, st report.Style) (draw.LineStyle, draw.GlyphStyle) {
 	case report.Dashed:
 		line.Dashes = dashDashes[round%len(dashDashes)]
 		glyph.Shape = nil
-	case report.Bars: // the legend shows a filled square
+	case report.Bars, report.Ranges: // the legend shows a filled square
 		line.Width = 0
 		glyph.Shape = shape{kind: shapeSquare, filled: true}
 	default: // Line, and a style this package does not know
