@@ -49,25 +49,25 @@ type cellState struct {
 	s        []float64
 }
 
-// cell is the workspace of a depletion: the fluid, the flasher and scratch.
+// cell is the workspace of a depletion: the fluid, the compositional cell
+// that flashes its contents (Cell, shared with the reservoir models of
+// pressure maintenance) and scratch.
 type cell struct {
 	fl      *eos.Fluid
 	t       float64
 	o       *DepletionOptions
-	f       *eos.Flasher
-	res     eos.FlashResult
-	v0      float64 // cell volume at the start pressure, m³ per mole of initial fluid
-	start   float64 // Pa
-	zc      []float64
+	base    *Cell
+	res     *eos.FlashResult // the base's last flash
+	v0      float64          // cell volume at the start pressure, m³ per mole of initial fluid
+	start   float64          // Pa
+	zc      []float64        // the base's composition of the last flash
 	trial   []float64
 	sEnd    []float64
 	avg     []float64
 	guess   []float64
 	fPrev   []float64 // the iteration before in advance: s(b) − s_end
 	gPrev   []float64 // and s(b)
-	flashes int       // flashes made, for the benchmarks and tests
-	k       []float64 // K-values of the last two-phase flash, when hasK
-	hasK    bool
+	flashes int // flashes made, for the benchmarks and tests
 	// toOil is the fraction of each component of the feed that the
 	// separator train sends to the stock tank, and oil0 and gas0 the moles
 	// of stock-tank oil and surface gas per mole of feed; nil without a
@@ -78,8 +78,9 @@ type cell struct {
 
 func newCell(fl *eos.Fluid, t float64, o *DepletionOptions) *cell {
 	n := fl.N()
-	return &cell{fl: fl, t: t, o: o, f: eos.NewFlasher(fl, o.Settings), k: make([]float64, n),
-		zc: make([]float64, n), trial: make([]float64, n), sEnd: make([]float64, n), avg: make([]float64, n), guess: make([]float64, n), fPrev: make([]float64, n), gPrev: make([]float64, n)}
+	base := &Cell{fl: fl, t: t, f: eos.NewFlasher(fl, o.Settings), k: make([]float64, n), z: make([]float64, n)}
+	return &cell{fl: fl, t: t, o: o, base: base, res: &base.res,
+		zc: base.z, trial: make([]float64, n), sEnd: make([]float64, n), avg: make([]float64, n), guess: make([]float64, n), fPrev: make([]float64, n), gPrev: make([]float64, n)}
 }
 
 // volume is the cell volume at p: V_start [1 − c (p_start − p)].
@@ -94,37 +95,9 @@ func (c *cell) volume(p float64) (float64, error) {
 // flash flashes the moles n at p into c.res and returns their total and
 // volume.
 func (c *cell) flash(p float64, n []float64) (total, vol float64, err error) {
-	for _, v := range n {
-		total += v
-	}
-	for i, v := range n {
-		c.zc[i] = v / total
-	}
 	c.flashes++
-	// from the K-values of the last two-phase flash: the steps and the
-	// iterations of a step flash nearly the same contents at nearly the
-	// same pressure
-	if c.hasK {
-		err = c.f.FlashFrom(&c.res, c.t, p, c.zc, c.k)
-	} else {
-		err = c.f.Flash(&c.res, c.t, p, c.zc)
-	}
-	if err != nil {
+	if total, vol, err = c.base.flashInto(p, n); err != nil {
 		return 0, 0, &eos.StateError{What: "flash of the cell", T: c.t, P: p, Err: err}
-	}
-	c.hasK = c.res.Phases == 2
-	if c.hasK {
-		for i := range c.k {
-			c.k[i] = c.res.Y[i] / c.res.X[i]
-			if !(c.k[i] > 0) || math.IsInf(c.k[i], 0) {
-				c.hasK = false
-			}
-		}
-	}
-	if c.res.Phases == 2 {
-		vol = total * (c.res.Beta*c.res.V.V + (1-c.res.Beta)*c.res.L.V)
-	} else {
-		vol = total * c.single().V
 	}
 	return total, vol, nil
 }

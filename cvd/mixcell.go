@@ -58,6 +58,43 @@ type CellFlash struct {
 	Dropout float64
 }
 
+// flashInto flashes the moles n at p into c.res and returns their total
+// and volume; the error is the flasher's. A two-phase flash starts from the
+// K-values of the last one: the steps of a depletion, and the iterations
+// of a step, flash nearly the same contents at nearly the same pressure.
+// The depletion cell (cell.go) and Flash share it.
+func (c *Cell) flashInto(p float64, n []float64) (total, vol float64, err error) {
+	for _, v := range n {
+		total += v
+	}
+	for i, v := range n {
+		c.z[i] = v / total
+	}
+	if c.hasK {
+		err = c.f.FlashFrom(&c.res, c.t, p, c.z, c.k)
+	} else {
+		err = c.f.Flash(&c.res, c.t, p, c.z)
+	}
+	if err != nil {
+		return 0, 0, err
+	}
+	c.hasK = c.res.Phases == 2
+	if c.hasK {
+		for i := range c.k {
+			c.k[i] = c.res.Y[i] / c.res.X[i]
+			if !(c.k[i] > 0) || math.IsInf(c.k[i], 0) {
+				c.hasK = false
+			}
+		}
+	}
+	if c.res.Phases == 2 {
+		vol = total * (c.res.Beta*c.res.V.V + (1-c.res.Beta)*c.res.L.V)
+	} else {
+		vol = total * c.res.V.V // one phase: L and V hold its properties alike
+	}
+	return total, vol, nil
+}
+
 // Flash flashes the moles n at p.
 func (c *Cell) Flash(p float64, n []float64) (CellFlash, error) {
 	total := 0.0
@@ -70,38 +107,19 @@ func (c *Cell) Flash(p float64, n []float64) (CellFlash, error) {
 	if !(total > 0) {
 		return CellFlash{}, fmt.Errorf("%w: the cell is empty", ErrBadOptions)
 	}
-	for i, v := range n {
-		c.z[i] = v / total
-	}
-	var err error
-	if c.hasK {
-		err = c.f.FlashFrom(&c.res, c.t, p, c.z, c.k)
-	} else {
-		err = c.f.Flash(&c.res, c.t, p, c.z)
-	}
+	total, vol, err := c.flashInto(p, n)
 	if err != nil {
 		return CellFlash{}, &eos.StateError{What: "flash of a reservoir cell", T: c.t, P: p, Err: err}
 	}
-	c.hasK = c.res.Phases == 2
-	if c.hasK {
-		for i := range c.k {
-			c.k[i] = c.res.Y[i] / c.res.X[i]
-			if !(c.k[i] > 0) || math.IsInf(c.k[i], 0) {
-				c.hasK = false
-			}
-		}
-	}
-	out := CellFlash{P: p, Total: total, Phases: c.res.Phases}
+	out := CellFlash{P: p, Total: total, Phases: c.res.Phases, Volume: vol}
 	if c.res.Phases == 2 {
 		out.Beta, out.VL, out.VV = c.res.Beta, c.res.L.V, c.res.V.V
 		out.X, out.Y = append([]float64(nil), c.res.X...), append([]float64(nil), c.res.Y...)
-		out.Volume = total * (out.Beta*out.VV + (1-out.Beta)*out.VL)
 		out.Dropout = total * (1 - out.Beta) * out.VL / c.PoreVolume(p)
 	} else {
 		out.Beta, out.VV = 1, c.res.V.V // one phase: its properties, named or not
 		out.Y = append([]float64(nil), c.z...)
 		out.X = out.Y
-		out.Volume = total * out.VV
 	}
 	return out, nil
 }
