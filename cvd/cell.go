@@ -67,7 +67,7 @@ type cell struct {
 	guess   []float64
 	fPrev   []float64 // the iteration before in advance: s(b) − s_end
 	gPrev   []float64 // and s(b)
-	flashes int // flashes made, for the benchmarks and tests
+	flashes int       // flashes made, for the benchmarks and tests
 	// toOil is the fraction of each component of the feed that the
 	// separator train sends to the stock tank, and oil0 and gas0 the moles
 	// of stock-tank oil and surface gas per mole of feed; nil without a
