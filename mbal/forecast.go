@@ -100,6 +100,14 @@ type Processed struct {
 	SalesComposition                          []float64
 }
 
+// A ProductiveModel is a ReservoirModel that shuts in part of the wells in
+// some states (the producers a water front has reached): the field's
+// deliverability is multiplied by ProductivityFactor, 0 to 1.
+type ProductiveModel interface {
+	ReservoirModel
+	ProductivityFactor(s ReservoirState) float64
+}
+
 // A TimedModel is a ReservoirModel whose response depends on the date (a
 // scheduled change of operation, such as the end of gas cycling): the
 // forecast calls AdvanceAt with the date the withdrawal starts.
@@ -360,6 +368,7 @@ const (
 	StopMinimumRate                   // the sales-gas rate fell below the minimum
 	StopAbandonment                   // the reservoir reached the abandonment pressure
 	StopNoWells                       // no well can flow: the pressure is at the minimum flowing pressure
+	StopShutIn                        // the model has shut in every producer (the water front has reached them)
 )
 
 func (s StopReason) String() string {
@@ -372,6 +381,8 @@ func (s StopReason) String() string {
 		return "the reservoir reached the abandonment pressure"
 	case StopNoWells:
 		return "the wells cannot flow at the minimum flowing pressure"
+	case StopShutIn:
+		return "the producers are shut in: the water has reached them"
 	}
 	return fmt.Sprintf("StopReason(%d)", int(s))
 }
@@ -455,7 +466,11 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 	// rate is the wet-gas rate at state s with n wells, and the field's
 	// deliverability.
 	fieldDeliverability := func(s ReservoirState, n int) float64 {
-		return float64(n) * wells.Deliverability(s.P, dew > 0 && s.P < dew) * o.Uptime
+		q := float64(n) * wells.Deliverability(s.P, dew > 0 && s.P < dew) * o.Uptime
+		if pm, ok := m.(ProductiveModel); ok {
+			q *= pm.ProductivityFactor(s)
+		}
+		return q
 	}
 	rate := func(s ReservoirState, n int) (q, deliv float64, plateau bool) {
 		if s.Exhausted {
@@ -582,6 +597,9 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 				// The wells can no longer flow: the reservoir is at (or
 				// within a hair of) their minimum flowing pressure.
 				frac, f.Stop, stop = 0, StopNoWells, true
+				if pm, ok := m.(ProductiveModel); ok && pm.ProductivityFactor(s) == 0 {
+					f.Stop = StopShutIn
+				}
 			}
 			sales0 := q1 * s.SalesPerWet
 			if !stop && o.Minimum > 0 && n > 0 {

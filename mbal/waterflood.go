@@ -337,6 +337,39 @@ func (m *WaterModel) Advance(s ReservoirState, withdraw, inject float64) (Reserv
 	return ns, nil
 }
 
+// ProductivityFactor is the share of the wells still producing in s: all
+// of them until flood-out, then those outside the swept volume, taken as
+// the unswept share of it (1 − Sweep) of the wells.
+func (m *WaterModel) ProductivityFactor(s ReservoirState) float64 {
+	if m.Flooded(s) {
+		return 1 - m.o.Sweep
+	}
+	return 1
+}
+
+// TrappedStreams is what the moles trapped behind the front in s would
+// give at the surface: their wet-gas volume (standard m³) and stock-tank
+// condensate (m³).
+func (m *WaterModel) TrappedStreams(s ReservoirState) (wet, condensate float64, err error) {
+	tr := m.Trapped(s)
+	total := 0.0
+	for _, v := range tr {
+		total += v
+	}
+	if !(total > 0) {
+		return 0, 0, nil
+	}
+	z := make([]float64, len(tr))
+	for i, v := range tr {
+		z[i] = v / total
+	}
+	sr, err := m.sep.Separate(z)
+	if err != nil {
+		return 0, 0, err
+	}
+	return total * m.vsc, total * sr.OilVolume, nil
+}
+
 // Flooded reports whether the water has filled the swept volume in s.
 func (m *WaterModel) Flooded(s ReservoirState) bool {
 	st, ok := s.x.(*waterState)

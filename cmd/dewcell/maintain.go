@@ -51,6 +51,9 @@ type scenarioRun struct {
 	balance float64              // largest relative component-balance error (NaN when the model keeps none)
 	minP    float64
 	ip      *mbal.InPlace
+	// trappedGas and trappedCondensate are what water injection leaves
+	// behind its front, as wet gas and stock-tank condensate.
+	trappedGas, trappedCondensate float64
 }
 
 // maintainResult is every scenario and the sensitivity of each one's gain.
@@ -240,6 +243,11 @@ func runScenario(o *options, st *study.Study, sc study.Scenario, atDew bool, fs 
 	for _, s := range fc.Steps {
 		r.minP = math.Min(r.minP, s.State.P)
 	}
+	if wm, ok := model.(*mbal.WaterModel); ok {
+		if r.trappedGas, r.trappedCondensate, err = wm.TrappedStreams(fc.Final); err != nil {
+			return nil, nil, fmt.Errorf("scenario %s: the trapped gas through the separators: %w", sc.Name, err)
+		}
+	}
 	r.balance = balance(fc.Final)
 	for _, s := range fc.Steps { // the largest over all steps
 		r.balance = math.Max(r.balance, balance(s.State))
@@ -308,6 +316,8 @@ func maintainReport(st *study.Study, sys units.System, mr *maintainResult) *Repo
 			{Name: "ultimate_ngl", Label: "Ultimate NGL", Unit: lU},
 			{Name: "gas_injected", Unit: gU},
 			{Name: "water_injected", Unit: lU},
+			{Name: "trapped_gas", Label: "Wet gas trapped behind the water", Unit: gU},
+			{Name: "trapped_condensate", Label: "Condensate trapped behind the water", Unit: lU},
 			{Name: "stop_date", Label: "End of production"},
 			{Name: "min_pressure", Label: "Lowest pressure", Unit: pU},
 			{Name: "mass_balance_error", Label: "Component balance error", Format: report.Format{Scientific: true}, Verbose: true},
@@ -326,6 +336,7 @@ func maintainReport(st *study.Study, sys units.System, mr *maintainResult) *Repo
 		row := []any{run.sc.Name, run.sc.Kind, nil, nil,
 			units.Percent.FromSI(fin.Condensate / run.ip.Condensate), units.Percent.FromSI(fin.SalesGas / run.ip.SalesGas),
 			gU.FromSI(fin.SalesGas), lU.FromSI(fin.Condensate), lU.FromSI(fin.NGL), gU.FromSI(fin.Injected), lU.FromSI(fin.Water),
+			gU.FromSI(run.trappedGas), lU.FromSI(run.trappedCondensate),
 			run.fc.StopDate.Format(time.DateOnly), pU.FromSI(run.minP), run.balance, nil, nil, nil, nil}
 		if run.cash != nil {
 			row[2] = run.cash.NPV
@@ -338,11 +349,11 @@ func maintainReport(st *study.Study, sys units.System, mr *maintainResult) *Repo
 		}
 		if base != nil && i != mr.base {
 			b := base.fc.Final.Cum
-			row[14], row[15] = lU.FromSI(fin.Condensate-b.Condensate), gU.FromSI(fin.SalesGas-b.SalesGas)
+			row[16], row[17] = lU.FromSI(fin.Condensate-b.Condensate), gU.FromSI(fin.SalesGas-b.SalesGas)
 			if run.cash != nil && base.cash != nil {
-				row[16] = run.cash.NPV - base.cash.NPV
+				row[18] = run.cash.NPV - base.cash.NPV
 				if irr, ok := incrementalIRR(run.cash, base.cash, run.sc.Economics); ok {
-					row[17] = irr
+					row[19] = irr
 				}
 			}
 		}
@@ -491,7 +502,10 @@ func scenarioYears(sys units.System, run scenarioRun) Table {
 	t := Table{Name: "years_" + name, Title: fmt.Sprintf("scenario %s per calendar year", run.sc.Name),
 		Columns: []Column{{Name: "year"}, {Name: "wells"}, {Name: "pressure", Unit: pU},
 			{Name: "wet_gas", Unit: gU}, {Name: "sales_gas", Unit: gU}, {Name: "condensate", Unit: lU}, {Name: "ngl", Label: "NGL", Unit: lU},
-			{Name: "gas_injected", Unit: gU}, {Name: "water_injected", Unit: lU}, {Name: "net_cash_flow", Format: report.Format{Decimals: 0, MinDigits: 1}}}}
+			{Name: "gas_injected", Unit: gU}, {Name: "water_injected", Unit: lU},
+			{Name: "cum_sales_gas", Unit: gU}, {Name: "cum_condensate", Unit: lU}, {Name: "cum_gas_injected", Unit: gU}, {Name: "cum_water_injected", Unit: lU},
+			{Name: "net_cash_flow", Format: report.Format{Decimals: 0, MinDigits: 1}}}}
+	var cum mbal.Streams
 	net := map[int]float64{}
 	if run.cash != nil {
 		for _, y := range run.cash.Years {
@@ -504,8 +518,9 @@ func scenarioYears(sys units.System, run scenarioRun) Table {
 		if run.cash != nil {
 			n = net[y.Year]
 		}
+		cum.SalesGas, cum.Condensate, cum.Injected, cum.Water = cum.SalesGas+v.SalesGas, cum.Condensate+v.Condensate, cum.Injected+v.Injected, cum.Water+v.Water
 		t.Rows = append(t.Rows, []any{y.Year, y.Wells, pU.FromSI(y.End.P), gU.FromSI(v.WetGas), gU.FromSI(v.SalesGas), lU.FromSI(v.Condensate), lU.FromSI(v.NGL),
-			gU.FromSI(v.Injected), lU.FromSI(v.Water), n})
+			gU.FromSI(v.Injected), lU.FromSI(v.Water), gU.FromSI(cum.SalesGas), lU.FromSI(cum.Condensate), gU.FromSI(cum.Injected), lU.FromSI(cum.Water), n})
 	}
 	return t
 }
