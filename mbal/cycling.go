@@ -28,6 +28,12 @@ import (
 // removal of a laboratory CVD): the forecast's substeps keep that error
 // small.
 
+// maxPressureRise is how far above the initial pressure injection may
+// raise the reservoir's: beyond, the injection is taken for a mistake
+// (common practice, no published source: a reservoir is not pumped far
+// above its discovery pressure).
+const maxPressureRise = 1.2
+
 // CyclingOptions describe a gas-cycling scenario.
 type CyclingOptions struct {
 	// ReturnFraction is the share of the plant's outlet (sales) gas
@@ -156,7 +162,7 @@ func NewCyclingModel(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, proc
 	}
 	st.inject = append([]float64(nil), pr.SalesComposition...)
 	st.returnPerMole = o.ReturnFraction * pr.SalesGas / m.vsc
-	m.init = ReservoirState{P: r.Pi, SalesPerWet: (pr.SalesGas - st.returnPerMole*m.vsc) / (m.vsc), x: st}
+	m.init = ReservoirState{P: r.Pi, OutletPerWet: pr.SalesGas / m.vsc, x: st}
 	return m, nil
 }
 
@@ -188,9 +194,9 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 	}
 	blowdown := st.blowdown || !m.o.End.IsZero() && !at.IsZero() && !at.Before(m.o.End)
 	dn := withdraw / m.vsc
-	injMoles := inject / m.vsc
+	injMoles := 0.0 // blowdown: nothing is injected, bought gas neither
 	if !blowdown {
-		injMoles += st.returnPerMole * dn
+		injMoles = inject/m.vsc + st.returnPerMole*dn
 	}
 	inj := make([]float64, m.n)
 	for i := range inj {
@@ -258,6 +264,9 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 		if p2 <= 0 {
 			p2 = p1 / 2
 		}
+	}
+	if p2 > maxPressureRise*m.init.P {
+		return ReservoirState{}, fmt.Errorf("%w: the injection raises the reservoir pressure to %.4g Pa, %.0f %% above the initial: inject less (the bought gas)", ErrForecast, p2, 100*(p2/m.init.P-1))
 	}
 	ns, err := m.after(s, st, moles, out, inj, p2, blowdown, exhausted)
 	if err == nil {
@@ -361,7 +370,7 @@ func (m *CyclingModel) after(s ReservoirState, st *cyclingState, moles [][]float
 		next.produced[i] += out[i]
 		next.injected[i] += inj[i]
 	}
-	ns := ReservoirState{P: p, Cum: s.Cum, SalesPerWet: s.SalesPerWet, Exhausted: exhausted, x: next}
+	ns := ReservoirState{P: p, Cum: s.Cum, OutletPerWet: s.OutletPerWet, Exhausted: exhausted, x: next}
 	if dn > 0 {
 		z := make([]float64, m.n)
 		for i, v := range out {
@@ -389,6 +398,7 @@ func (m *CyclingModel) after(s ReservoirState, st *cyclingState, moles [][]float
 		ns.Cum.SeparatorGas += gas * m.vsc
 		ns.Cum.Condensate += dn * sr.OilVolume
 		ns.Cum.SalesGas += market
+		ns.Cum.Returned += returned
 		ns.Cum.SalesEnergy += energy
 		ns.Cum.NGL += pr.NGL
 		ns.Cum.Fuel += pr.Fuel
@@ -397,11 +407,7 @@ func (m *CyclingModel) after(s ReservoirState, st *cyclingState, moles [][]float
 			next.inject = append([]float64(nil), pr.SalesComposition...)
 		}
 		next.returnPerMole = m.o.ReturnFraction * pr.SalesGas / m.vsc / dn
-		if blowdown {
-			ns.SalesPerWet = pr.SalesGas / (dn * m.vsc)
-		} else {
-			ns.SalesPerWet = (1 - m.o.ReturnFraction) * pr.SalesGas / (dn * m.vsc)
-		}
+		ns.OutletPerWet = pr.SalesGas / (dn * m.vsc) // sold and returned alike
 		if m.o.StopCGR > 0 && gas > 0 && dn*sr.OilVolume/(gas*m.vsc) < m.o.StopCGR {
 			next.blowdown = true
 		}

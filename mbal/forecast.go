@@ -44,19 +44,22 @@ type Streams struct {
 	Removed      float64 // gas taken out by the plant (CO2, H2S, ...)
 	Injected     float64 // gas injected (zero for a depletion)
 	Water        float64 // water injected, m³
+	// Returned is the plant's outlet gas sent back to the reservoir (part
+	// of Injected): the plant's outlet is SalesGas + Returned.
+	Returned float64
 }
 
 // sub returns s − o, field by field.
 func (s Streams) sub(o Streams) Streams {
 	return Streams{s.WetGas - o.WetGas, s.SeparatorGas - o.SeparatorGas, s.Condensate - o.Condensate, s.SalesGas - o.SalesGas,
-		s.SalesEnergy - o.SalesEnergy, s.NGL - o.NGL, s.Fuel - o.Fuel, s.Removed - o.Removed, s.Injected - o.Injected, s.Water - o.Water}
+		s.SalesEnergy - o.SalesEnergy, s.NGL - o.NGL, s.Fuel - o.Fuel, s.Removed - o.Removed, s.Injected - o.Injected, s.Water - o.Water, s.Returned - o.Returned}
 }
 
 // lerp returns s + f (o − s).
 func (s Streams) lerp(o Streams, f float64) Streams {
 	d := o.sub(s)
 	return Streams{s.WetGas + f*d.WetGas, s.SeparatorGas + f*d.SeparatorGas, s.Condensate + f*d.Condensate, s.SalesGas + f*d.SalesGas,
-		s.SalesEnergy + f*d.SalesEnergy, s.NGL + f*d.NGL, s.Fuel + f*d.Fuel, s.Removed + f*d.Removed, s.Injected + f*d.Injected, s.Water + f*d.Water}
+		s.SalesEnergy + f*d.SalesEnergy, s.NGL + f*d.NGL, s.Fuel + f*d.Fuel, s.Removed + f*d.Removed, s.Injected + f*d.Injected, s.Water + f*d.Water, s.Returned + f*d.Returned}
 }
 
 // ReservoirState is the reservoir after some production: what a reservoir
@@ -65,10 +68,10 @@ func (s Streams) lerp(o Streams, f float64) Streams {
 type ReservoirState struct {
 	P   float64 // average reservoir pressure, Pa
 	Cum Streams // cumulative produced and injected
-	// SalesPerWet is the sales gas per standard m³ of wet gas of the stream
-	// produced at this state: what converts a sales-gas target into a
-	// withdrawal.
-	SalesPerWet float64
+	// OutletPerWet is the plant's outlet gas (sold, and returned to the
+	// reservoir while cycling) per standard m³ of wet gas of the stream
+	// produced at this state: what converts the plateau into a withdrawal.
+	OutletPerWet float64
 	// Exhausted says the model can give no more: the pressure has reached
 	// the abandonment pressure.
 	Exhausted bool
@@ -262,7 +265,7 @@ func (m *DepletionModel) state(w float64) ReservoirState {
 	last := len(m.w) - 1
 	if w >= m.w[last] {
 		st := ReservoirState{P: m.p[last], Cum: m.cum[last], at: m.w[last], Exhausted: true}
-		st.SalesPerWet = m.slope(last - 1)
+		st.OutletPerWet = m.slope(last - 1)
 		return st
 	}
 	k := sort.SearchFloat64s(m.w, w) // m.w[k-1] < w <= m.w[k]
@@ -270,7 +273,7 @@ func (m *DepletionModel) state(w float64) ReservoirState {
 		k = 1
 	}
 	f := (w - m.w[k-1]) / (m.w[k] - m.w[k-1])
-	st := ReservoirState{P: m.pOfW.Predict(w), Cum: m.cum[k-1].lerp(m.cum[k], f), at: w, SalesPerWet: m.slope(k - 1)}
+	st := ReservoirState{P: m.pOfW.Predict(w), Cum: m.cum[k-1].lerp(m.cum[k], f), at: w, OutletPerWet: m.slope(k - 1)}
 	if w <= 0 {
 		st.P = m.p[0]
 	}
@@ -340,9 +343,12 @@ func (w Wells) CountAt(t time.Time) int {
 
 // ForecastOptions set the field's targets and the forecast's horizon.
 type ForecastOptions struct {
-	Plateau float64 // the field's sales-gas target, standard m³/s
+	// Plateau is the field's target of the plant's outlet gas, standard
+	// m³/s: the sales gas, and while cycling the gas returned as well (the
+	// plant's capacity).
+	Plateau float64
 	Uptime  float64 // fraction of the time the wells produce, (0, 1]
-	Minimum float64 // sales-gas rate below which the field stops, standard m³/s
+	Minimum float64 // the plant's outlet-gas rate below which the field stops, standard m³/s
 	End     time.Time
 	// StepMonths is the reporting step, in calendar months (1 to 12).
 	StepMonths int
@@ -478,8 +484,8 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 		}
 		deliv = fieldDeliverability(s, n)
 		target := math.Inf(1)
-		if s.SalesPerWet > 0 {
-			target = o.Plateau / s.SalesPerWet
+		if s.OutletPerWet > 0 {
+			target = o.Plateau / s.OutletPerWet
 		}
 		if target <= deliv {
 			return target, deliv, true
@@ -593,7 +599,7 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 					frac = math.Min(1, (next.Cum.WetGas-s.Cum.WetGas)/dw)
 				}
 				f.Stop, stop = StopAbandonment, true
-			case n > 0 && !s.Exhausted && q1*math.Max(s.SalesPerWet, 1e-300) <= 1e-9*o.Plateau:
+			case n > 0 && !s.Exhausted && q1 <= 1e-9*o.Plateau:
 				// The wells can no longer flow: the reservoir is at (or
 				// within a hair of) their minimum flowing pressure.
 				frac, f.Stop, stop = 0, StopNoWells, true
@@ -601,12 +607,12 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 					f.Stop = StopShutIn
 				}
 			}
-			sales0 := q1 * s.SalesPerWet
+			sales0 := q1 * s.OutletPerWet
 			if !stop && o.Minimum > 0 && n > 0 {
 				// The sales rate at the end of the substep; the field stops
 				// where it crosses the minimum, interpolated in time.
 				qe, _, _ := rate(next, wells.CountAt(t.Add(dt)))
-				sales1 := qe * next.SalesPerWet
+				sales1 := qe * next.OutletPerWet
 				if sales1 < o.Minimum {
 					frac = 1
 					if sales0 > sales1 {
@@ -645,7 +651,7 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 		st := ForecastStep{Start: stepStart, End: end, Wells: wells.CountAt(end.Add(-time.Nanosecond)), State: s, OnPlateau: onPlateau, WellYears: wellSeconds / secondsPerYear}
 		if d := end.Sub(stepStart).Seconds(); d > 0 {
 			dv := s.Cum.sub(stepState.Cum)
-			st.Rates = Streams{dv.WetGas / d, dv.SeparatorGas / d, dv.Condensate / d, dv.SalesGas / d, dv.SalesEnergy / d, dv.NGL / d, dv.Fuel / d, dv.Removed / d, dv.Injected / d, dv.Water / d}
+			st.Rates = Streams{dv.WetGas / d, dv.SeparatorGas / d, dv.Condensate / d, dv.SalesGas / d, dv.SalesEnergy / d, dv.NGL / d, dv.Fuel / d, dv.Removed / d, dv.Injected / d, dv.Water / d, dv.Returned / d}
 		}
 		st.Deliverability = fieldDeliverability(s, st.Wells)
 		if end.After(stepStart) {
@@ -681,7 +687,7 @@ func yearLength(y int) float64 {
 // add returns s + o, field by field.
 func (s Streams) add(o Streams) Streams {
 	return Streams{s.WetGas + o.WetGas, s.SeparatorGas + o.SeparatorGas, s.Condensate + o.Condensate, s.SalesGas + o.SalesGas,
-		s.SalesEnergy + o.SalesEnergy, s.NGL + o.NGL, s.Fuel + o.Fuel, s.Removed + o.Removed, s.Injected + o.Injected, s.Water + o.Water}
+		s.SalesEnergy + o.SalesEnergy, s.NGL + o.NGL, s.Fuel + o.Fuel, s.Removed + o.Removed, s.Injected + o.Injected, s.Water + o.Water, s.Returned + o.Returned}
 }
 
 // plateauStep finds the withdrawal from s that yields sales standard m³
@@ -689,22 +695,22 @@ func (s Streams) add(o Streams) Streams {
 // the derivative; ok is false when it does not converge to 1e-9 of the
 // target in 20 iterations (the caller then integrates the rate instead).
 func plateauStep(advance func(ReservoirState, float64) (ReservoirState, error), s ReservoirState, sales float64) (dw float64, next ReservoirState, ok bool, err error) {
-	if !(s.SalesPerWet > 0) {
+	if !(s.OutletPerWet > 0) {
 		return 0, s, false, nil
 	}
-	dw = sales / s.SalesPerWet
+	dw = sales / s.OutletPerWet
 	for range 20 {
 		if next, err = advance(s, dw); err != nil {
 			return 0, s, false, err
 		}
-		miss := next.Cum.SalesGas - s.Cum.SalesGas - sales
+		miss := next.Cum.SalesGas + next.Cum.Returned - s.Cum.SalesGas - s.Cum.Returned - sales
 		if math.Abs(miss) <= 1e-9*sales {
 			return dw, next, true, nil
 		}
 		if next.Exhausted && miss < 0 {
 			return dw, next, true, nil // the model ends within the substep
 		}
-		slope := next.SalesPerWet
+		slope := next.OutletPerWet
 		if !(slope > 0) {
 			return 0, s, false, nil
 		}

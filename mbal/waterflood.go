@@ -96,7 +96,7 @@ func NewWaterModel(fl *eos.Fluid, z []float64, r Reservoir, tr cvd.Train, proc G
 	}
 	st.vm = ip.V
 	m.init = ReservoirState{P: r.Pi, x: st}
-	m.init.SalesPerWet, err = m.salesPerWet(z)
+	m.init.OutletPerWet, err = m.salesPerWet(z)
 	if err != nil {
 		return nil, err
 	}
@@ -153,14 +153,19 @@ func (m *WaterModel) trial(st *waterState, p, dw float64) (waterTrial, error) {
 		phi, tr.flooded = 1, true
 		tr.water = math.Max(st.water, swept*(1-m.sgr))
 	}
+	displaced := 0.0 // moles the front pushes to the producers
 	if phi > phiOld && phiOld < 1 {
-		// The hydrocarbons of the newly flooded volume: their residual
-		// share moves behind the front, at the contents' composition.
-		frac := (phi - phiOld) / (1 - phiOld) * m.sgr // of the moles ahead
+		// The hydrocarbons of the newly flooded volume, all phases alike:
+		// their residual share stays behind the front, the rest is pushed
+		// to the producers (the front displaces the liquid with the gas, so
+		// none piles up ahead of it).
+		share := (phi - phiOld) / (1 - phiOld) // of the moles ahead
 		for i := range tr.ahead {
-			moved := frac * tr.ahead[i]
+			moved := share * tr.ahead[i]
 			tr.ahead[i] -= moved
-			tr.behind[i] += moved
+			tr.behind[i] += m.sgr * moved
+			tr.out[i] += (1 - m.sgr) * moved
+			displaced += (1 - m.sgr) * moved
 		}
 	}
 	parts := []struct {
@@ -172,7 +177,11 @@ func (m *WaterModel) trial(st *waterState, p, dw float64) (waterTrial, error) {
 		{m.behind, tr.behind, phi * swept * m.sgr},
 		{m.un, tr.un, (1 - m.o.Sweep) * m.hcpv(p)},
 	}
-	for _, pt := range parts {
+	// The displaced moles take their reservoir volume at the contents'
+	// molar volume ahead of the front (the last produced stream's when
+	// nothing is left ahead).
+	vAhead := st.vm
+	for k, pt := range parts {
 		total := 0.0
 		for _, v := range pt.n {
 			total += v
@@ -192,6 +201,9 @@ func (m *WaterModel) trial(st *waterState, p, dw float64) (waterTrial, error) {
 		if err != nil {
 			return tr, err
 		}
+		if k == 0 && fs.Total > 0 {
+			vAhead = fs.Volume / fs.Total
+		}
 		for i, v := range ex {
 			pt.n[i] -= v
 			tr.out[i] += v
@@ -204,6 +216,7 @@ func (m *WaterModel) trial(st *waterState, p, dw float64) (waterTrial, error) {
 		}
 		tr.volume += exMoles * fs.VV
 	}
+	tr.volume += displaced * vAhead
 	tr.produced = 0
 	for _, v := range tr.out {
 		tr.produced += v
@@ -304,7 +317,7 @@ func (m *WaterModel) Advance(s ReservoirState, withdraw, inject float64) (Reserv
 		}
 	}
 	next := &waterState{ahead: tr.ahead, behind: tr.behind, un: tr.un, water: tr.water, flooded: tr.flooded, produced: append([]float64(nil), st.produced...), slope: slope, vm: vm}
-	ns := ReservoirState{P: p2, Cum: s.Cum, SalesPerWet: s.SalesPerWet, Exhausted: exhausted, x: next}
+	ns := ReservoirState{P: p2, Cum: s.Cum, OutletPerWet: s.OutletPerWet, Exhausted: exhausted, x: next}
 	if tr.produced > 0 {
 		z := make([]float64, m.n)
 		for i, v := range tr.out {
@@ -330,7 +343,7 @@ func (m *WaterModel) Advance(s ReservoirState, withdraw, inject float64) (Reserv
 		ns.Cum.NGL += pr.NGL
 		ns.Cum.Fuel += pr.Fuel
 		ns.Cum.Removed += pr.Removed
-		ns.SalesPerWet = pr.SalesGas / (tr.produced * m.vsc)
+		ns.OutletPerWet = pr.SalesGas / (tr.produced * m.vsc)
 	}
 	ns.Cum.Water += tr.water - st.water
 	ns.at = ns.Cum.WetGas

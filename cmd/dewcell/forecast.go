@@ -264,6 +264,9 @@ type salesGas struct {
 	composition []float64
 	hv, z       float64
 	unknown     string // why the heating value is unknown, "" when it is known
+	// perMole is the sales gas, moles, of a mole of the reservoir fluid
+	// through the separators and the plant.
+	perMole float64
 }
 
 func salesGasOf(st *study.Study, sys units.System, tr cvd.Train, pl mbal.Plant) (*salesGas, error) {
@@ -290,7 +293,7 @@ func salesGasOf(st *study.Study, sys units.System, tr cvd.Train, pl mbal.Plant) 
 	}
 	std := st.StandardConditions(sys)
 	pp, _ := st.Fluid.Props(std.T, std.P, r.SalesComposition)
-	return &salesGas{composition: r.SalesComposition, hv: hv, z: pp.Z, unknown: unknown}, nil
+	return &salesGas{composition: r.SalesComposition, hv: hv, z: pp.Z, unknown: unknown, perMole: sr.GasMoles * r.Sales}, nil
 }
 
 // decimalYear is t as a year with its fraction, for the figures' time

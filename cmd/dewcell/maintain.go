@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"math"
+	"reflect"
 	"sort"
 	"strings"
 	"time"
@@ -54,6 +55,10 @@ type scenarioRun struct {
 	// trappedGas and trappedCondensate are what water injection leaves
 	// behind its front, as wet gas and stock-tank condensate.
 	trappedGas, trappedCondensate float64
+	// salesInPlace is the sales gas the fluid in place would make through
+	// the separators and the plant, standard m³: the base of the sales-gas
+	// recovery.
+	salesInPlace float64
 }
 
 // maintainResult is every scenario and the sensitivity of each one's gain.
@@ -136,8 +141,8 @@ func maintainRun(o *options, st *study.Study, atDew bool, change float64) (*main
 			return sc.Kind == study.ScenarioWater && sc.InjectionCost > 0
 		}, false},
 		{"sweep efficiency", func(sc *study.Scenario, f float64) bool {
-			sc.Sweep = math.Min(1, sc.Sweep*f)
-			return sc.Kind != study.ScenarioDepletion
+			sc.Sweep *= f
+			return sc.Kind != study.ScenarioDepletion && sc.Sweep <= 1 // a sweep beyond the whole volume has no meaning
 		}, true},
 		{"residual gas saturation", func(sc *study.Scenario, f float64) bool {
 			sc.Sgr *= f
@@ -196,7 +201,7 @@ func maintainRun(o *options, st *study.Study, atDew bool, change float64) (*main
 // is the shared setup when known (nil: made here).
 func runScenario(o *options, st *study.Study, sc study.Scenario, atDew bool, fs *forecastSetup) (*scenarioRun, *forecastSetup, error) {
 	var err error
-	if fs == nil || sc.Plant != st.Plant {
+	if fs == nil || !reflect.DeepEqual(sc.Plant, st.Plant) {
 		if fs, err = forecastSetupOf(o, st, "scenario "+sc.Name, atDew, sc.Plant); err != nil {
 			return nil, nil, err
 		}
@@ -239,7 +244,10 @@ func runScenario(o *options, st *study.Study, sc study.Scenario, atDew bool, fs 
 	if err != nil {
 		return nil, nil, err
 	}
-	r := &scenarioRun{sc: sc, fc: fc, ip: ip, minP: fs.res.Pi}
+	r := &scenarioRun{sc: sc, fc: fc, ip: ip, minP: fs.res.Pi, salesInPlace: ip.SalesGas}
+	if fs.sales != nil && fs.sales.perMole > 0 {
+		r.salesInPlace = ip.Moles * fs.sales.perMole * fs.setupVsc()
+	}
 	for _, s := range fc.Steps {
 		r.minP = math.Min(r.minP, s.State.P)
 	}
@@ -283,7 +291,9 @@ func scenarioCash(st *study.Study, sc study.Scenario, fc *mbal.Forecast, fs *for
 	}
 	other := func(y mbal.ForecastYear) float64 {
 		v := y.Volumes
-		cost := sc.CompressionCost*v.Injected + sc.InjectionCost*v.Water
+		// The plant treats the gas it returns as it treats the gas it
+		// sells (economics.opex_gas); compression costs every m³ injected.
+		cost := sc.CompressionCost*v.Injected + sc.InjectionCost*v.Water + e.OpexGas*v.Returned
 		if sc.MakeupGas > 0 && !math.IsNaN(gasPerVolume) {
 			bought := sc.MakeupGas * y.ProducingFraction * yearSeconds(y.Year)
 			cost += gasPerVolume * bought // its compression is in v.Injected
@@ -303,7 +313,7 @@ func maintainReport(st *study.Study, sys units.System, mr *maintainResult) *Repo
 	money := report.Format{Decimals: 0, MinDigits: 1}
 	cur := mr.currency
 	r := &Report{Name: "maintain", Section: "Pressure maintenance",
-		Title: fmt.Sprintf("Pressure maintenance of %s: %d scenarios against depletion", fluidName(st), len(mr.runs))}
+		Title: fmt.Sprintf("Pressure maintenance of %s: %s", fluidName(st), scenariosText(mr))}
 	t := Table{Name: "scenarios", Title: "scenarios side by side (incremental values against depletion)",
 		Columns: []Column{
 			{Name: "name"}, {Name: "kind"},
@@ -334,7 +344,7 @@ func maintainReport(st *study.Study, sys units.System, mr *maintainResult) *Repo
 	for i, run := range mr.runs {
 		fin := run.fc.Final.Cum
 		row := []any{run.sc.Name, run.sc.Kind, nil, nil,
-			units.Percent.FromSI(fin.Condensate / run.ip.Condensate), units.Percent.FromSI(fin.SalesGas / run.ip.SalesGas),
+			units.Percent.FromSI(fin.Condensate / run.ip.Condensate), units.Percent.FromSI(fin.SalesGas / run.salesInPlace),
 			gU.FromSI(fin.SalesGas), lU.FromSI(fin.Condensate), lU.FromSI(fin.NGL), gU.FromSI(fin.Injected), lU.FromSI(fin.Water),
 			gU.FromSI(run.trappedGas), lU.FromSI(run.trappedCondensate),
 			run.fc.StopDate.Format(time.DateOnly), pU.FromSI(run.minP), run.balance, nil, nil, nil, nil}
@@ -360,6 +370,11 @@ func maintainReport(st *study.Study, sys units.System, mr *maintainResult) *Repo
 		t.Rows = append(t.Rows, row)
 	}
 	r.Tables = append(r.Tables, t)
+	for i, row := range t.Rows {
+		if i != mr.base && base != nil && row[18] != nil && row[19] == nil {
+			r.Note(fmt.Sprintf("%s has no IRR of its incremental investment: its cash flow less depletion's does not turn from investment to return (it begins positive, or changes sign more than once)", mr.runs[i].sc.Name))
+		}
+	}
 	switch {
 	case best >= 0 && base != nil && base.cash != nil:
 		w := mr.runs[best]
@@ -392,6 +407,21 @@ func maintainReport(st *study.Study, sys units.System, mr *maintainResult) *Repo
 	r.Note("the scenarios with cells (gas cycling, water injection) are integrated in monthly steps; each withdrawal flashes every cell at the common pressure")
 	r.Note("injecting gas at high pressure, or cycling it, follows the local codes for pressure equipment and operations; the economics are screening estimates at constant prices and costs")
 	return r
+}
+
+// scenariosText counts the scenarios, against depletion when there is one.
+func scenariosText(mr *maintainResult) string {
+	n := len(mr.runs)
+	if mr.base < 0 {
+		if n == 1 {
+			return "1 scenario"
+		}
+		return fmt.Sprintf("%d scenarios", n)
+	}
+	if n == 2 {
+		return "1 scenario against depletion"
+	}
+	return fmt.Sprintf("%d scenarios against depletion", n-1)
 }
 
 // verdictText says which scenario pays best and by how much.

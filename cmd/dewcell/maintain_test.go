@@ -89,3 +89,36 @@ func TestMaintainUsageErrors(t *testing.T) {
 		{[]string{exampleStudy, "--sensitivity", "1.5"}, []string{"--sensitivity", "between 0 and 1"}},
 	})
 }
+
+// Edge cases of a second reading: cycling that returns all the plant's gas
+// (only condensate and NGL are sold) runs, bought gas stops with cycling,
+// and water injection below full voidage replacement converges.
+func TestMaintainEdgeCases(t *testing.T) {
+	text := string(mustRead(t, exampleStudy))
+	for _, r := range [][2]string{
+		{"return_fraction = 0.85 ", "return_fraction = 1.0 \nmakeup_gas = \"5 MMscf/d\" "},
+		{"voidage_replacement = 1.0", "voidage_replacement = 0.5"},
+	} {
+		if !strings.Contains(text, r[0]) {
+			t.Fatalf("the example lacks %q", r[0])
+		}
+		text = strings.Replace(text, r[0], r[1], 1)
+	}
+	doc := runJSON(t, "maintain", writeStudy(t, text))
+	rows := doc["scenarios"].([]any)
+	cyc, wat := rows[1].(map[string]any), rows[2].(map[string]any)
+	if !(cyc["condensate_recovery_pct"].(float64) > rows[0].(map[string]any)["condensate_recovery_pct"].(float64)) {
+		t.Errorf("cycling all the gas: condensate recovery %v", cyc["condensate_recovery_pct"])
+	}
+	// Bought gas flows only while cycling: 8 years of 5 MMscf/d at most.
+	years := doc["years_cycling"].([]any)
+	for _, y := range years {
+		row := y.(map[string]any)
+		if row["year"].(float64) >= 2029 && row["gas_injected_mmscf"].(float64) != 0 {
+			t.Errorf("%v: %v MMscf injected after cycling ended", row["year"], row["gas_injected_mmscf"])
+		}
+	}
+	if e, _ := wat["mass_balance_error"].(float64); !(e < 1e-8) {
+		t.Errorf("water injection at voidage replacement 0.5: balance error %v", wat["mass_balance_error"])
+	}
+}

@@ -187,6 +187,19 @@ func (r *reader) scenarios(s *Study, fs *fileStudy, list []fileScenario, md toml
 		if r.err != nil {
 			return
 		}
+		// Scenarios are compared at the study's currency and discount
+		// rate: a scenario may change prices and costs, not those.
+		if e := f.Economics; e != nil {
+			for _, c := range []struct {
+				key string
+				v   value
+			}{{"currency", e.Currency}, {"discount_rate", e.DiscountRate}, {"discounting", e.Discounting}} {
+				if c.v.set {
+					r.failf(k+".economics."+c.key, "a scenario is compared with the others at the study's economics.%s: give it in [economics] only", c.key)
+					return
+				}
+			}
+		}
 		// The sections with the scenario's overrides, read as the study's
 		// are, with the scenario's keys in the messages.
 		t := &Study{File: s.File, Fluid: s.Fluid, Z: s.Z, specs: s.specs, groups: s.groups, Reservoir: s.Reservoir}

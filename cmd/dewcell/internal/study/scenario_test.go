@@ -96,6 +96,7 @@ func TestScenarioErrors(t *testing.T) {
 		{"bad override", with(`plateau_rate = "40 MMscf/d"`, `plateau_rate = "40 MMscf"`), "scenario[2].production.plateau_rate", "want a gas rate"},
 		{"override minimum above plateau", with(`plateau_rate = "40 MMscf/d"`, `plateau_rate = "1 MMscf/d"`), "scenario[2].production.minimum_rate", "not below"},
 		{"unknown scenario key", with(`cells = 10`, "cells = 10\ncell_count = 3"), "scenario.cell_count", ""},
+		{"scenario discount rate", with(`plateau_rate = "40 MMscf/d"`, "plateau_rate = \"40 MMscf/d\"\n[scenario.economics]\ndiscount_rate = 0.15"), "scenario[2].economics.discount_rate", "at the study's economics.discount_rate"},
 	} {
 		_, err := Parse("scenarios.toml", []byte(c.text))
 		var se *Error
