@@ -56,6 +56,10 @@ type TuneResult struct {
 // evaluations and a fall-back on Nelder–Mead with 1e-4.
 const TuneFDStep = 1e-6
 
+// ErrNoWeight: every quantity the report measures has weight zero: there is
+// nothing to fit.
+var ErrNoWeight = errors.New("every measured quantity has weight 0")
+
 // ErrTuneStart: the model at the starting parameters cannot be compared
 // with the report, so there is nothing to tune from.
 var ErrTuneStart = errors.New("the model at the starting parameters cannot be compared with the laboratory report")
@@ -87,6 +91,13 @@ func Tune(p TuneProblem) (*TuneResult, error) {
 	m := len(before.Residuals(nil, p.Weights))
 	if m == 0 {
 		return nil, fmt.Errorf("%w: %w", ErrTuneStart, ErrNoLabData)
+	}
+	weighed := false
+	for _, q := range before.Quantities {
+		weighed = weighed || Weight(p.Weights, q.Name) > 0
+	}
+	if !weighed {
+		return nil, fmt.Errorf("%w: %w", ErrTuneStart, ErrNoWeight)
 	}
 	buf := make([]float64, 0, m)
 	residuals := func(x, r []float64) error {

@@ -152,6 +152,9 @@ func checkReport(st *study.Study, sys units.System, lab cvd.LabReport, res *cvd.
 	case cvd.VerdictNotChecked:
 		r.Note("part of the laboratory CVD could not be checked (see the findings): the material balance needs every step's dropout, produced moles, z_gas and gas composition")
 	}
+	if res.DewZSource == cvd.DewZFromTwoPhase {
+		r.Note("the report gives no Z-factor at the saturation pressure: the cell volume comes from the steps' z_two_phase themselves, so the two-phase Z check tests the steps against each other only")
+	}
 	if res.DewZSource == cvd.DewZOptions {
 		r.Note(fmt.Sprintf("the laboratory report gives no Z-factor at the saturation pressure: the cell volume of the balance takes the model's, %.4f", res.DewZ))
 	}

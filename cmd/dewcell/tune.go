@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"os"
@@ -110,8 +111,19 @@ func tuneStudy(o *options, st *study.Study) (*cvd.TuneResult, error) {
 		fmt.Fprintf(o.stderr, "tune: iteration %d, objective %s (%s)\n", it, report.Sig(obj, 4), time.Since(start).Round(time.Millisecond))
 	}}
 	res, err := cvd.Tune(p)
-	if err != nil {
+	switch {
+	case errors.Is(err, cvd.ErrNoWeight):
+		return nil, cli.Exit(fmt.Sprintf("%s: [tune.weights] gives every quantity the laboratory measured a weight of 0: there is nothing to fit; give the quantities to fit a weight above 0", st.File), exitUsage)
+	case err != nil:
 		return nil, fmt.Errorf("tuning to the laboratory report: %w", err)
+	}
+	// "Before" is the study's own model, the one compare runs. The
+	// regression may start elsewhere: an interaction pair of unequal
+	// coefficients starts from their mean.
+	if own, err := cvd.Compare(st.Fluid, st.Z, lab, p.Compare); err == nil && own.Saturation.P != res.Before.Saturation.P {
+		o.note(fmt.Sprintf("the regression starts from a model other than the study's (an interaction pair whose coefficients differ starts from their mean): its first objective is %s, the study's %s",
+			report.Sig(res.ObjectiveBefore, 4), report.Sig(own.Objective(p.Weights), 4)))
+		res.Before, res.ObjectiveBefore = own, own.Objective(p.Weights)
 	}
 	return res, nil
 }
@@ -212,7 +224,15 @@ func tuneReport(st *study.Study, sys units.System, res *cvd.TuneResult) *Report 
 		}
 	}
 	if !fit.StdErrKnown {
-		r.Note("the standard errors of the parameters are unknown: the data do not determine every free parameter (fewer measurements than parameters, or parameters the fit cannot tell apart)")
+		atBound := false
+		for _, b := range fit.AtBound {
+			atBound = atBound || b != cvd.InsideBounds
+		}
+		if atBound {
+			r.Note("the standard errors of the parameters are unknown: a parameter at its bound is not free, and the others' are not computed")
+		} else {
+			r.Note("the standard errors of the parameters are unknown: the data do not determine every free parameter (fewer measurements than parameters, or parameters the fit cannot tell apart)")
+		}
 	}
 
 	// The tuned values of the components.
