@@ -132,3 +132,23 @@ func TestLabCommandErrors(t *testing.T) {
 		t.Error("the laboratory table was emptied")
 	}
 }
+
+// The statistics before tuning are those of the study's own model, the one
+// compare runs, even when the regression starts elsewhere (an interaction
+// pair of unequal coefficients starts from their mean); weights of zero for
+// every measured quantity leave nothing to fit.
+func TestTuneBeforeIsTheStudy(t *testing.T) {
+	text := string(mustRead(t, exampleStudy))
+	i, j := strings.Index(text, "[[tune.parameter]]"), strings.Index(text, "# [tune.weights]")
+	if i < 0 || j < i {
+		t.Fatal("the example's tuning sections are not where the test expects them")
+	}
+	pair := text[:i] + "[[tune.parameter]]\nproperty = \"interaction\"\npair = \"C1/C7+\"\nmin = 0.0\nmax = 0.2\n\n" + text[j:]
+	path := writeStudy(t, pair)
+	tn, cmp := runJSON(t, "tune", path), runJSON(t, "compare", path)
+	if a, b := num(t, tn, "saturation_pressure_model_before_psia"), num(t, cmp, "saturation_pressure_model_psia"); a != b {
+		t.Errorf("before tuning %.3f psia, compare %.3f psia: want the study's model", a, b)
+	}
+	zero := text[:j] + "[tune.weights]\nsaturation_pressure = 0\nliquid_dropout = 0\nproduced = 0\nz_gas = 0\nz_two_phase = 0\nrelative_volume = 0\nliquid_volume = 0\nz = 0\ndensity = 0\ngas_composition = 0\n" + text[j:]
+	checkBadInput(t, "tune", []badInputCase{{[]string{writeStudy(t, zero)}, []string{"weight of 0", "nothing to fit"}}})
+}
