@@ -797,11 +797,17 @@ func (r *reader) labCCE(p string, data []byte) *cvd.LabCCE {
 	if lc >= 0 {
 		out.LiquidBasis = t.cols[lc].basis
 	}
+	seen := map[float64]int{}
 	for i := range t.vals {
 		if cvd.IsMissing(t.vals[i][pc]) {
 			t.failCell(i, pc, "no pressure; every row needs its pressure")
 			return nil
 		}
+		if k, dup := seen[t.vals[i][pc]]; dup {
+			t.failCell(i, pc, "the pressure of row %d again: give each pressure of the expansion once", k+1)
+			return nil
+		}
+		seen[t.vals[i][pc]] = i
 		out.Points = append(out.Points, cvd.LabCCEPoint{
 			P:              t.vals[i][pc],
 			RelativeVolume: get(i, t.find("relative_volume")),

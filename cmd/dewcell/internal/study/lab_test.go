@@ -384,6 +384,8 @@ var labErrors = []struct {
 	{name: "viscosity zero", cvd: strings.Replace(fieldCVD, ",0.0246,", ",0,", 1), key: "lab.cvd", msg: "0 cP is out of range; want a gas viscosity above 0"},
 	{name: "CGR negative", cvd: strings.Replace(fieldCVD, ",71,", ",-71,", 1), key: "lab.cvd", msg: "-71 STB/MMscf is out of range; want a condensate-gas ratio of 0 or more"},
 	{name: "CGR without unit", cvd: strings.Replace(fieldCVD, "cgr [STB/MMscf]", "cgr", 1), key: "lab.cvd", msg: `a condensate-gas ratio needs its unit in brackets, such as "cgr [STB/MMscf]"`},
+	{name: "CCE pressure twice", cce: strings.Replace(fieldCCE, "5000,0.9034", "6000,0.9034", 1), key: "lab.cce",
+		msg: `lab/cce.csv, row 2 (line 3), column 1 "pressure [psia]": the pressure of row 1 again`},
 	{name: "unknown column", cvd: strings.Replace(fieldCVD, ",note", ",dew", 1), key: "lab.cvd",
 		msg: `column 17 "dew": unknown column "dew"; the columns of a CVD table are pressure, liquid_dropout, produced`},
 	{name: "unknown component", cvd: strings.Replace(fieldCVD, "gas_C2 [mol%]", "gas_C9 [mol%]", 1), key: "lab.cvd",
