@@ -72,6 +72,14 @@ func tunedStudyText(st *study.Study, src []byte, path string, x []float64, fl *e
 	doc := splitTOML(string(src))
 	doc.commentOut(func(table []string) bool { return len(table) > 0 && table[0] == "tune" },
 		"(tuned: the values found are set above; remove the '# ' to tune again)")
+	// A tuned pair replaces the study's own keys for the pairs it covers
+	// ("C1/C7-C11" under a tuned "C1/C7+"): left as they are, they would
+	// set the same coefficients twice.
+	for _, p := range st.Tune.Parameters {
+		if p.Property == study.TuneInteraction {
+			doc.commentOutPairs(st, p.A, p.B)
+		}
+	}
 	for _, s := range sets {
 		doc.set(s)
 	}
@@ -346,6 +354,35 @@ func (d *tomlDoc) insert(at int, line string, table []string) {
 	d.lines = append(d.lines[:at], append([]string{line}, d.lines[at:]...)...)
 	d.tables = append(d.tables[:at], append([][]string{table}, d.tables[at:]...)...)
 	d.header = append(d.header[:at], append([]bool{false}, d.header[at:]...)...)
+}
+
+// commentOutPairs turns into comments the keys of [fluid.interaction]
+// other than "a/b" that set a coefficient of the pairs a/b covers.
+func (d *tomlDoc) commentOutPairs(st *study.Study, a, b string) {
+	in := func(name string, group []int) bool {
+		for _, i := range st.Components(name) {
+			for _, j := range group {
+				if i == j {
+					return true
+				}
+			}
+		}
+		return false
+	}
+	ga, gb := st.Components(a), st.Components(b)
+	for i, l := range d.lines {
+		if !samePath(d.tables[i], []string{"fluid", "interaction"}) {
+			continue
+		}
+		k := lineKey(l)
+		x, y, ok := strings.Cut(k, "/")
+		if !ok || k == a+"/"+b || k == b+"/"+a {
+			continue
+		}
+		if in(x, ga) && in(y, gb) || in(x, gb) && in(y, ga) {
+			d.lines[i] = "# " + l + "   # (tuned: replaced by the tuned \"" + a + "/" + b + "\")"
+		}
+	}
 }
 
 // commentOut turns the tables that match into comments, the first header
