@@ -57,7 +57,7 @@ func TestMaintainExample(t *testing.T) {
 }
 
 // Cycling that returns nothing, in one cell sweeping the whole volume, is
-// depletion: recoveries within 0.2 % (the limiting case).
+// depletion: recoveries within 0.2 % (the limiting case of no return).
 func TestMaintainCyclingWithoutReturn(t *testing.T) {
 	text := string(mustRead(t, exampleStudy))
 	for _, r := range [][2]string{{"return_fraction = 0.85 ", "return_fraction = 0.0 "}, {"sweep_efficiency = 0.7 ", "sweep_efficiency = 1.0 "}, {"cells = 6 ", "cells = 1 "}} {
