@@ -536,10 +536,10 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 			var next ReservoirState
 			held := false
 			if p1 {
-				// On the plateau the substep sells the target exactly: the
-				// withdrawal that yields it, by Newton's method on the
-				// model's cumulative sales gas, if the wells can still
-				// deliver it at the substep's end.
+				// On the plateau the substep delivers the target exactly:
+				// the withdrawal that yields it, by Newton's method on the
+				// model's cumulative outlet gas (sold and returned), if the
+				// wells can still deliver it at the substep's end.
 				var err error
 				if dw, next, held, err = plateauStep(advance, s, o.Plateau*sec); err != nil {
 					return nil, err
@@ -609,8 +609,9 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 			}
 			sales0 := q1 * s.OutletPerWet
 			if !stop && o.Minimum > 0 && n > 0 {
-				// The sales rate at the end of the substep; the field stops
-				// where it crosses the minimum, interpolated in time.
+				// The outlet-gas rate at the end of the substep (the sales
+				// gas but while cycling); the field stops where it crosses
+				// the minimum, interpolated in time.
 				qe, _, _ := rate(next, wells.CountAt(t.Add(dt)))
 				sales1 := qe * next.OutletPerWet
 				if sales1 < o.Minimum {
@@ -691,8 +692,8 @@ func (s Streams) add(o Streams) Streams {
 }
 
 // plateauStep finds the withdrawal from s that yields sales standard m³
-// of sales gas, by Newton's method with the model's sales per wet gas as
-// the derivative; ok is false when it does not converge to 1e-9 of the
+// of the plant's outlet gas (sold and returned), by Newton's method with
+// the model's outlet per wet gas as the derivative; ok is false when it does not converge to 1e-9 of the
 // target in 20 iterations (the caller then integrates the rate instead).
 func plateauStep(advance func(ReservoirState, float64) (ReservoirState, error), s ReservoirState, sales float64) (dw float64, next ReservoirState, ok bool, err error) {
 	if !(s.OutletPerWet > 0) {
