@@ -442,7 +442,7 @@ type Forecast struct {
 // minimum rate and the model's exhaustion (abandonment pressure). At every
 // instant the wet-gas rate is the lesser of the wells' deliverability at
 // the reservoir pressure (times the uptime) and the withdrawal that yields
-// the sales-gas plateau at the current stream; the cumulative withdrawal is
+// the plateau of outlet gas (ForecastOptions.Plateau) at the current stream; the cumulative withdrawal is
 // integrated in time by the classical fourth-order Runge–Kutta method on
 // substeps of a day, so that the reporting step does not change the result.
 func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, error) {
