@@ -356,7 +356,19 @@ func (w *work) stableAt(p float64, z []float64, iter *int) bool {
 	w.prepareFeed(p, z)
 	liq, vap := w.stability(p, z, false)
 	*iter += liq.iter + vap.iter
-	return !liq.unstable && !vap.unstable
+	stable := !liq.unstable && !vap.unstable
+	if !stable {
+		// Kept for refine, which starts from this test's trial phase.
+		w.lastUnP, w.lastUnT = p, w.ts.t
+		w.lastUnZ = append(w.lastUnZ[:0], z...)
+		if liq.unstable && (!vap.unstable || liq.tm <= vap.tm) {
+			w.lastUnW = append(w.lastUnW[:0], w.wLiq...)
+		} else {
+			w.lastUnW = append(w.lastUnW[:0], w.wVap...)
+		}
+		w.lastUnIter = liq.iter + vap.iter
+	}
+	return stable
 }
 
 // refine converges a saturation point between pUn, where the feed is
@@ -389,7 +401,14 @@ func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op str
 		}
 		return true
 	}
-	unstableAt(pUn)
+	// The stability test at pUn is the search's last unstable one, whose
+	// trial phase stableAt kept (the tests start from Wilson's K-values
+	// every time, so running it again gives the same phase).
+	if w.lastUnP == pUn && w.lastUnT == w.ts.t && len(w.lastUnZ) == len(z) && sameVector(w.lastUnZ, z) {
+		copy(inc, w.lastUnW)
+	} else {
+		unstableAt(pUn)
+	}
 	for attempt := 0; attempt < 60; attempt++ {
 		if math.Max(pUn, pSt)/math.Min(pUn, pSt) < satBracket || attempt > 0 {
 			sat, it, ok := w.satNewton(t, z, pUn, inc, false)

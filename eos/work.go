@@ -15,11 +15,19 @@ type work struct {
 
 	feed, pa, pb phase // feed; liquid (or trial) and vapour phases
 
-	d, lnW, W, wn    []float64 // stability: ln z + ln φ(z), trial ln W, W, W normalised
-	wLiq, wVap       []float64 // trial mole numbers W where the trials stopped
-	bx, by, tw       []float64 // flash: the best split so far (liquid, vapour), a trial phase against it
-	lnBX, lnBY       []float64 // their logarithms, while the split is tested
-	inc              []float64 // saturation: the incipient phase Newton starts from
+	d, lnW, W, wn []float64 // stability: ln z + ln φ(z), trial ln W, W, W normalised
+	wLiq, wVap    []float64 // trial mole numbers W where the trials stopped
+	bx, by, tw    []float64 // flash: the best split so far (liquid, vapour), a trial phase against it
+	lnBX, lnBY    []float64 // their logarithms, while the split is tested
+	inc           []float64 // saturation: the incipient phase Newton starts from
+	// The last stability test that found the feed unstable (stableAt): its
+	// pressure, composition and the trial phase of lower tm, so that refine
+	// need not run the same test again at the bracket's unstable end.
+	lastUnP          float64
+	lastUnT          float64
+	lastUnZ          []float64
+	lastUnW          []float64
+	lastUnIter       int
 	lnK, lnK1, lnK2  []float64 // current and two previous ln K (GDEM)
 	lnKss            []float64 // the plain substitution step before a GDEM jump
 	K, x, y, r, g, s []float64
