@@ -134,6 +134,12 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 	var res trialResult
 	tmPrev := math.Inf(1)
 	newton := false
+	lnRef := w.lnRef // ln ref_i once: ref does not change during the trial
+	for i := 0; i < n; i++ {
+		if z[i] > 0 {
+			lnRef[i] = math.Log(ref[i])
+		}
+	}
 	for it := 1; it <= w.max; it++ {
 		res.iter = it
 		sumW := 0.0
@@ -168,7 +174,7 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 		}
 		for i := 0; i < n; i++ {
 			if z[i] > 0 {
-				dd := w.lnW[i] - lnSum - math.Log(ref[i])
+				dd := w.lnW[i] - lnSum - lnRef[i]
 				dist += dd * dd
 			}
 		}
@@ -223,11 +229,15 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 		}
 		// Newton step in α = 2√W.
 		H := w.H[n*n : 2*n*n]
+		sq := w.sqW // √W_j once per step instead of once per element
+		for j := 0; j < n; j++ {
+			sq[j] = math.Sqrt(w.W[j])
+		}
 		for i := 0; i < n; i++ {
-			si := math.Sqrt(w.W[i])
+			si := sq[i]
 			w.g[i] = -si * w.r[i]
 			for j := 0; j < n; j++ {
-				H[i*n+j] = si * math.Sqrt(w.W[j]) * ph.dn[i*n+j] / sumW
+				H[i*n+j] = si * sq[j] * ph.dn[i*n+j] / sumW
 			}
 			H[i*n+i] += 1
 			if z[i] == 0 {

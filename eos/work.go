@@ -23,6 +23,9 @@ type work struct {
 	// The last stability test that found the feed unstable (stableAt): its
 	// pressure, composition and the trial phase of lower tm, so that refine
 	// need not run the same test again at the bracket's unstable end.
+	// trial's scratch: ln ref_i, constant through a trial, and √W_i of a
+	// Newton step
+	lnRef, sqW       []float64
 	lastUnP          float64
 	lastUnT          float64
 	lastUnZ          []float64
@@ -63,7 +66,7 @@ func newWork(fl *Fluid, s *Settings) *work {
 		bx: vec(), by: vec(), tw: vec(), lnBX: vec(), lnBY: vec(),
 		lnK: vec(), lnK1: vec(), lnK2: vec(), lnKss: vec(),
 		K: vec(), x: vec(), y: vec(), r: vec(), g: vec(), s: vec(),
-		v: vec(), l: vec(), sgn: vec(),
+		v: vec(), l: vec(), sgn: vec(), lnRef: vec(), sqW: vec(),
 		H:   make([]float64, max((n+2)*(n+2), 2*n*n)),
 		rhs: make([]float64, n+2),
 	}
