@@ -537,10 +537,14 @@ func (w *work) named(sat Saturation, z []float64, op string) (Saturation, error)
 func (w *work) trialMinimum(z []float64, sumW float64) bool {
 	n := w.n
 	H := w.H[:n*n]
+	sq := w.sqW
+	for j := 0; j < n; j++ {
+		sq[j] = math.Sqrt(w.W[j])
+	}
 	for i := 0; i < n; i++ {
-		si := math.Sqrt(w.W[i])
+		si := sq[i]
 		for j := 0; j < n; j++ {
-			H[i*n+j] = si * math.Sqrt(w.W[j]) * w.pa.dn[i*n+j] / sumW
+			H[i*n+j] = si * sq[j] * w.pa.dn[i*n+j] / sumW
 		}
 		H[i*n+i]++
 		w.g[i] = 0

@@ -56,9 +56,11 @@ func (w *work) prepareFeed(p float64, z []float64) {
 func (w *work) stability(p float64, z []float64, early bool) (liq, vap trialResult) {
 	t := w.ts.t
 	w.wilson(t, p)
+	lnz := w.lnZ // ln z_i, the same for both starts
 	for i, zi := range z {
 		if zi > 0 {
-			w.lnW[i] = math.Log(zi) - w.lnK[i]
+			lnz[i] = math.Log(zi)
+			w.lnW[i] = lnz[i] - w.lnK[i]
 		}
 	}
 	liq = w.trial(p, z, z, early)
@@ -69,7 +71,7 @@ func (w *work) stability(p float64, z []float64, early bool) (liq, vap trialResu
 	w.wilson(t, p)
 	for i, zi := range z {
 		if zi > 0 {
-			w.lnW[i] = math.Log(zi) + w.lnK[i]
+			w.lnW[i] = lnz[i] + w.lnK[i]
 		}
 	}
 	vap = w.trial(p, z, z, early)
@@ -260,9 +262,9 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 			if z[i] == 0 {
 				continue
 			}
-			a := 2*math.Sqrt(w.W[i]) + w.g[i]
+			a := 2*sq[i] + w.g[i]
 			if a <= 0 {
-				a = 1e-3 * 2 * math.Sqrt(w.W[i])
+				a = 1e-3 * 2 * sq[i]
 			}
 			w.lnW[i] = 2 * math.Log(a/2)
 		}

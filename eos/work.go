@@ -26,6 +26,7 @@ type work struct {
 	// trial's scratch: ln ref_i, constant through a trial, and √W_i of a
 	// Newton step
 	lnRef, sqW       []float64
+	lnZ              []float64 // stability's ln z_i, for both of its starts
 	lastUnP          float64
 	lastUnT          float64
 	lastUnZ          []float64
@@ -66,7 +67,7 @@ func newWork(fl *Fluid, s *Settings) *work {
 		bx: vec(), by: vec(), tw: vec(), lnBX: vec(), lnBY: vec(),
 		lnK: vec(), lnK1: vec(), lnK2: vec(), lnKss: vec(),
 		K: vec(), x: vec(), y: vec(), r: vec(), g: vec(), s: vec(),
-		v: vec(), l: vec(), sgn: vec(), lnRef: vec(), sqW: vec(),
+		v: vec(), l: vec(), sgn: vec(), lnRef: vec(), sqW: vec(), lnZ: vec(),
 		H:   make([]float64, max((n+2)*(n+2), 2*n*n)),
 		rhs: make([]float64, n+2),
 	}
