@@ -641,7 +641,7 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 			}
 			t, s = t.Add(part), next
 			y.End, y.Wells = s, wells.CountAt(t.Add(-time.Nanosecond))
-			y.ProducingFraction = y.producing.Seconds() / yearLength(y.Year)
+			y.ProducingFraction = y.producing.Seconds() / YearSeconds(y.Year)
 		}
 		if t.Equal(o.End) && !stop {
 			f.Stop, stop = StopHorizon, true
@@ -680,8 +680,8 @@ func addMonths(t time.Time, m int) time.Time {
 	return time.Date(first.Year(), first.Month(), min(d, last), t.Hour(), t.Minute(), t.Second(), t.Nanosecond(), t.Location())
 }
 
-// yearLength is the length of calendar year y, seconds.
-func yearLength(y int) float64 {
+// YearSeconds is the length of calendar year y, seconds.
+func YearSeconds(y int) float64 {
 	return time.Date(y+1, 1, 1, 0, 0, 0, 0, time.UTC).Sub(time.Date(y, 1, 1, 0, 0, 0, 0, time.UTC)).Seconds()
 }
 

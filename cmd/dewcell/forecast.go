@@ -218,10 +218,6 @@ func economicsKey(field string) string {
 	return "economics." + strings.ToLower(b.String())
 }
 
-func yearSeconds(y int) float64 {
-	return time.Date(y+1, 1, 1, 0, 0, 0, 0, time.UTC).Sub(time.Date(y, 1, 1, 0, 0, 0, 0, time.UTC)).Seconds()
-}
-
 // plantOf is the study's gas plant ([plant]; without it, a plant that
 // sells the separator gas as it is) as the forecast uses it: the sales gas,
 // its energy by the gross heating value of its composition, the NGL, fuel
@@ -301,7 +297,7 @@ func salesGasOf(st *study.Study, sys units.System, tr cvd.Train, pl mbal.Plant) 
 func decimalYear(t time.Time) float64 {
 	y := t.Year()
 	start := time.Date(y, 1, 1, 0, 0, 0, 0, t.Location())
-	return float64(y) + t.Sub(start).Seconds()/yearSeconds(y)
+	return float64(y) + t.Sub(start).Seconds()/mbal.YearSeconds(y)
 }
 
 // forecastReport shows the forecast res in sys.
@@ -414,7 +410,7 @@ func forecastReport(st *study.Study, sys units.System, res *forecastResult) *Rep
 	var cum mbal.Streams
 	for _, y := range fc.Years {
 		v := y.Volumes
-		sec := yearSeconds(y.Year) * y.ProducingFraction // the average over the time the field produced
+		sec := mbal.YearSeconds(y.Year) * y.ProducingFraction // the average over the time the field produced
 		cum.WetGas, cum.SalesGas, cum.Condensate, cum.NGL = cum.WetGas+v.WetGas, cum.SalesGas+v.SalesGas, cum.Condensate+v.Condensate, cum.NGL+v.NGL
 		cgr := any(nil)
 		if v.SeparatorGas > 0 {
@@ -553,20 +549,15 @@ func cashFlowReport(r *Report, st *study.Study, sys units.System, res *forecastR
 		Field{Column: Column{Name: "currency"}, Value: cur},
 		Field{Column: Column{Name: "npv", Label: fmt.Sprintf("NPV at %s %% a year (%s, to 1 January %d)", report.Sig(100*e.DiscountRate, 3), conv, first), Symbol: cur, Format: money}, Value: cf.NPV},
 		Field{Column: Column{Name: "undiscounted_profit", Label: "Undiscounted profit", Symbol: cur, Format: money}, Value: cf.UndiscountedProfit})
-	irr, known := cf.IRR, cf.IRRKnown
-	if known {
-		if _, ok := profitableBelow(cf, e); !ok {
-			// The one root has the NPV rising through it: money is made at
-			// every rate above it, lost below; not a rate of return.
-			known = false
-			cf.IRRWhy = fmt.Sprintf("the NPV is zero at %s %% a year but rises through it: the cash flow begins positive and turns negative only at the end, so no rate of return measures it", report.Sig(100*cf.IRR, 4))
-		}
-	} else {
-		if rr, ok := profitableBelow(cf, e); ok {
-			irr, known = rr, true
-			r.Note(fmt.Sprintf("the net cash flow changes sign more than once (%s), so NPV = 0 at more than one rate; the IRR given is the rate above which NPV turns negative",
-				cf.IRRWhy))
-		}
+	irr, known := rateOfReturn(cf, e)
+	switch {
+	case known && !cf.IRRKnown:
+		r.Note(fmt.Sprintf("the net cash flow changes sign more than once (%s), so NPV = 0 at more than one rate; the IRR given is the rate above which NPV turns negative",
+			cf.IRRWhy))
+	case !known && cf.IRRKnown:
+		// The one root has the NPV rising through it: money is made at
+		// every rate above it, lost below; not a rate of return.
+		cf.IRRWhy = fmt.Sprintf("the NPV is zero at %s %% a year but rises through it: the cash flow begins positive and turns negative only at the end, so no rate of return measures it", report.Sig(100*cf.IRR, 4))
 	}
 	if known {
 		r.Fields = append(r.Fields,
@@ -640,26 +631,47 @@ func energyKnown(res *forecastResult, v float64) float64 {
 	return v
 }
 
-// profitableBelow picks, among the several rates at which the NPV of cf is
-// zero, the highest one at which it turns from positive below to negative
-// above: the discount rate beyond which the project loses money, the IRR
-// of a conventional investment whose sign changes again only through a
-// final abandonment cost. ok is false when there is none.
-func profitableBelow(cf *mbal.CashFlowResult, e *study.Economics) (float64, bool) {
-	d := mbal.MidYear
-	if !e.MidYear {
-		d = mbal.EndOfYear
-	}
+// rateOfReturn is the IRR of cf as the report gives it: the rate at which
+// its NPV turns from positive to negative (turningRate).
+func rateOfReturn(cf *mbal.CashFlowResult, e *study.Economics) (float64, bool) {
 	net := make([]float64, len(cf.Years))
 	for i, y := range cf.Years {
 		net[i] = y.Net
 	}
+	return turningRate(net, e)
+}
+
+// turningRate is the highest discount rate at which the NPV of the yearly
+// net cash flows turns from positive below to negative above: the IRR of
+// an investment, also when the flows change sign again only at the end (an
+// abandonment cost). Rates from −99 % to 1000 % a year are searched on a
+// grid even in ln(1 + r), each bracket refined by bisection.
+func turningRate(flow []float64, e *study.Economics) (float64, bool) {
+	d := mbal.MidYear
+	if !e.MidYear {
+		d = mbal.EndOfYear
+	}
+	const steps = 4000
+	lo, hi := math.Log(1-0.99), math.Log(1+10.0)
+	rate := func(k int) float64 { return math.Exp(lo+(hi-lo)*float64(k)/steps) - 1 }
 	best, ok := 0.0, false
-	for _, r := range cf.IRRs {
-		h := 1e-6 * (1 + math.Abs(r))
-		if mbal.NPV(r-h, net, d) > 0 && mbal.NPV(r+h, net, d) < 0 && (!ok || r > best) {
-			best, ok = r, true
+	prev := mbal.NPV(rate(0), flow, d)
+	for k := 1; k <= steps; k++ {
+		r := rate(k)
+		v := mbal.NPV(r, flow, d)
+		if prev > 0 && v < 0 {
+			a, b := rate(k-1), r
+			for range 100 {
+				m := (a + b) / 2
+				if mbal.NPV(m, flow, d) > 0 {
+					a = m
+				} else {
+					b = m
+				}
+			}
+			best, ok = (a+b)/2, true
 		}
+		prev = v
 	}
 	return best, ok
 }

@@ -295,7 +295,7 @@ func scenarioCash(st *study.Study, sc study.Scenario, fc *mbal.Forecast, fs *for
 		// sells (economics.opex_gas); compression costs every m³ injected.
 		cost := sc.CompressionCost*v.Injected + sc.InjectionCost*v.Water + e.OpexGas*v.Returned
 		if sc.MakeupGas > 0 && !math.IsNaN(gasPerVolume) {
-			bought := sc.MakeupGas * y.ProducingFraction * yearSeconds(y.Year)
+			bought := sc.MakeupGas * y.ProducingFraction * mbal.YearSeconds(y.Year)
 			cost += gasPerVolume * bought // its compression is in v.Injected
 		}
 		return cost
@@ -350,7 +350,7 @@ func maintainReport(st *study.Study, sys units.System, mr *maintainResult) *Repo
 			run.fc.StopDate.Format(time.DateOnly), pU.FromSI(run.minP), run.balance, nil, nil, nil, nil}
 		if run.cash != nil {
 			row[2] = run.cash.NPV
-			if irr, ok := scenarioIRR(run.cash, run.sc.Economics); ok {
+			if irr, ok := rateOfReturn(run.cash, run.sc.Economics); ok {
 				row[3] = irr
 			}
 			if best < 0 || run.cash.NPV > mr.runs[best].cash.NPV {
@@ -458,77 +458,25 @@ func incrementalIRR(a, b *mbal.CashFlowResult, e *study.Economics) (float64, boo
 	return turningRate(flow, e)
 }
 
-// turningRate is the highest discount rate at which the NPV of the yearly
-// net cash flows turns from positive below to negative above: the IRR of
-// an investment, when the flows change sign again only at the end (an
-// abandonment cost). Rates from −99 % to 1000 % a year are searched on a
-// grid even in ln(1 + r), each bracket refined by bisection.
-func turningRate(flow []float64, e *study.Economics) (float64, bool) {
-	d := mbal.MidYear
-	if !e.MidYear {
-		d = mbal.EndOfYear
-	}
-	const steps = 4000
-	lo, hi := math.Log(1-0.99), math.Log(1+10.0)
-	rate := func(k int) float64 { return math.Exp(lo+(hi-lo)*float64(k)/steps) - 1 }
-	best, ok := 0.0, false
-	prev := mbal.NPV(rate(0), flow, d)
-	for k := 1; k <= steps; k++ {
-		r := rate(k)
-		v := mbal.NPV(r, flow, d)
-		if prev > 0 && v < 0 {
-			a, b := rate(k-1), r
-			for range 100 {
-				m := (a + b) / 2
-				if mbal.NPV(m, flow, d) > 0 {
-					a = m
-				} else {
-					b = m
-				}
-			}
-			best, ok = (a+b)/2, true
-		}
-		prev = v
-	}
-	return best, ok
-}
-
-// scenarioIRR is the IRR of a scenario's cash flow as the forecast gives it.
-func scenarioIRR(cf *mbal.CashFlowResult, e *study.Economics) (float64, bool) {
-	net := make([]float64, len(cf.Years))
-	for i, y := range cf.Years {
-		net[i] = y.Net
-	}
-	return turningRate(net, e)
-}
-
-// fileStem is a name as part of a file or key name: lower case, anything
-// but letters and digits a dash.
-func fileStem(name string) string {
-	return strings.Trim(strings.Map(func(r rune) rune {
+// nameStem is a name as part of a file or key name: lower case, with sep
+// for anything but letters and digits.
+func nameStem(name string, sep rune) string {
+	return strings.Map(func(r rune) rune {
 		switch {
 		case r >= 'a' && r <= 'z', r >= '0' && r <= '9':
 			return r
 		case r >= 'A' && r <= 'Z':
 			return r + 'a' - 'A'
 		}
-		return '-'
-	}, name), "-")
+		return sep
+	}, name)
 }
 
 // scenarioYears is a scenario's forecast per calendar year.
 func scenarioYears(sys units.System, run scenarioRun) Table {
 	pU := sys.Unit(units.Pressure)
 	gU, lU := sys.Unit(units.GasVolume), sys.Unit(units.LiquidVolume)
-	name := strings.Map(func(r rune) rune {
-		switch {
-		case r >= 'a' && r <= 'z', r >= '0' && r <= '9':
-			return r
-		case r >= 'A' && r <= 'Z':
-			return r + 'a' - 'A'
-		}
-		return '_'
-	}, run.sc.Name)
+	name := nameStem(run.sc.Name, '_')
 	t := Table{Name: "years_" + name, Title: fmt.Sprintf("scenario %s per calendar year", run.sc.Name),
 		Columns: []Column{{Name: "year"}, {Name: "wells"}, {Name: "pressure", Unit: pU},
 			{Name: "wet_gas", Unit: gU}, {Name: "sales_gas", Unit: gU}, {Name: "condensate", Unit: lU}, {Name: "ngl", Label: "NGL", Unit: lU},
@@ -585,7 +533,7 @@ func maintainFigures(sys units.System, mr *maintainResult) []*report.Figure {
 		p.X, p.Y = []float64{start}, []float64{pU.FromSI(mr.setup.res.Pi)}
 		var acc float64
 		for _, y := range run.fc.Years {
-			sec := yearSeconds(y.Year) * y.ProducingFraction
+			sec := mbal.YearSeconds(y.Year) * y.ProducingFraction
 			mid := float64(y.Year) + 0.5
 			if sec > 0 {
 				r.X, r.Y = append(r.X, mid), append(r.Y, lrU.FromSI(y.Volumes.Condensate/sec))
@@ -628,7 +576,7 @@ func maintainFigures(sys units.System, mr *maintainResult) []*report.Figure {
 	for _, name := range order {
 		rows := by[name]
 		sort.SliceStable(rows, func(i, j int) bool { return math.Abs(rows[i].high-rows[i].low) > math.Abs(rows[j].high-rows[j].low) })
-		tor := &report.Figure{Name: "maintain-sensitivity-" + fileStem(name), Title: "Sensitivity of the gain of " + name,
+		tor := &report.Figure{Name: "maintain-sensitivity-" + strings.Trim(nameStem(name, '-'), "-"), Title: "Sensitivity of the gain of " + name,
 			Caption: fmt.Sprintf("Incremental NPV of %s over depletion as each input goes from %s %% lower to %s %% higher (widest first); the dotted line is the gain as given.",
 				name, report.Sig(100*mr.change, 3), report.Sig(100*mr.change, 3)),
 			X: report.Axis{Label: "Input (labelled)", Min: 0.3, Max: float64(len(rows)) + 0.7}, Y: report.Axis{Label: "Incremental NPV [10^6 " + mr.currency + "]"}}
