@@ -34,55 +34,62 @@ type Component struct {
 	Shift float64 // Peneloux volume shift, dimensionless s = c/b
 }
 
-// Equation selects the Peng–Robinson alpha function.
+// Equation selects the cubic equation of state of a fluid.
 type Equation int
 
 const (
-	// PR78 uses the Robinson–Peng (1978) kappa for omega > 0.491 and the
-	// 1976 kappa below; the default.
+	// PR78 is Peng–Robinson with the Robinson–Peng (1978) kappa for
+	// omega > 0.491 and the 1976 kappa below; the default.
 	PR78 Equation = iota
-	// PR76 uses the original Peng–Robinson (1976) kappa for every component.
+	// PR76 is Peng–Robinson with the original (1976) kappa for every component.
 	PR76
+	// SRK is Soave–Redlich–Kwong (Soave 1972).
+	SRK
 )
 
 func (e Equation) String() string {
 	switch e {
-	case PR78:
-		return "PR78"
-	case PR76:
-		return "PR76"
+	case PR78, PR76, SRK:
+		return e.Cubic().Name()
 	}
 	return fmt.Sprintf("Equation(%d)", int(e))
 }
 
-// Kappa returns the Peng–Robinson alpha-function slope for acentric factor w.
+// Cubic returns the equation's constants (PR78Cubic, PR76Cubic, SRKCubic).
+func (e Equation) Cubic() Cubic {
+	switch e {
+	case PR76:
+		return PR76Cubic()
+	case SRK:
+		return SRKCubic()
+	}
+	return PR78Cubic()
+}
+
+// Kappa returns the alpha-function slope κ(ω) of the equation for acentric
+// factor w:
 //
 //	PR76: κ = 0.37464 + 1.54226 ω − 0.26992 ω²
 //	PR78: κ = 0.379642 + 1.48503 ω − 0.164423 ω² + 0.016666 ω³  for ω > 0.491
-//
-// The 0.491 switch follows the general-purpose PR78 implementations used for
-// the reference data in testdata/; Robinson and Peng write "ω > 0.49".
-func (e Equation) Kappa(w float64) float64 {
-	if e == PR78 && w > 0.491 {
-		return 0.379642 + w*(1.48503+w*(-0.164423+w*0.016666))
-	}
-	return 0.37464 + w*(1.54226-w*0.26992)
-}
+//	SRK:  κ = 0.480 + 1.574 ω − 0.176 ω²
+func (e Equation) Kappa(w float64) float64 { return e.Cubic().alpha.KappaOf(w) }
 
 // Options describe how NewFluid builds the equation of state.
 // The zero value means PR78 without volume translation.
 type Options struct {
-	Equation    Equation
-	VolumeShift bool // apply each component's Peneloux shift to volumes and densities
+	Equation    Equation // the cubic; Cubic, when set, replaces it
+	Cubic       *Cubic   // another cubic of the family (NewCubic); nil: Equation's
+	VolumeShift bool     // apply each component's Peneloux shift to volumes and densities
 }
 
-// A Fluid is a Peng–Robinson description of a fixed set of components with
+// A Fluid is a cubic-equation (Peng–Robinson by default) description of a fixed set of components with
 // their binary interaction coefficients. It is immutable after NewFluid and
 // safe for concurrent use; the solvers keep their scratch space elsewhere.
 type Fluid struct {
 	comps []Component
 	kij   []float64 // n×n row-major, symmetric, zero diagonal
 	opt   Options
+	cubic Cubic
 
 	n     int
 	ac    []float64 // Ωa R² Tc²/Pc, Pa·m⁶/mol²
@@ -111,13 +118,23 @@ func NewFluid(comps []Component, kij []float64, opt Options) (*Fluid, error) {
 	if n == 0 {
 		return nil, fmt.Errorf("%w: no components", ErrBadComponent)
 	}
-	if opt.Equation != PR76 && opt.Equation != PR78 {
+	if opt.Equation != PR76 && opt.Equation != PR78 && opt.Equation != SRK {
 		return nil, fmt.Errorf("unknown equation %v", opt.Equation)
+	}
+	cubic := opt.Equation.Cubic()
+	if opt.Cubic != nil {
+		if opt.Cubic.dd <= 0 || opt.Cubic.omegaB <= 0 {
+			return nil, errors.New("cubic equation not made by NewCubic or its constructors")
+		}
+		cubic = *opt.Cubic
+		cp := cubic
+		opt.Cubic = &cp
 	}
 	f := &Fluid{
 		comps: append([]Component(nil), comps...),
 		kij:   make([]float64, n*n),
 		opt:   opt,
+		cubic: cubic,
 		n:     n,
 		ac:    make([]float64, n),
 		kappa: make([]float64, n),
@@ -139,9 +156,9 @@ func NewFluid(comps []Component, kij []float64, opt Options) (*Fluid, error) {
 			return nil, fmt.Errorf("%w: component %q listed twice", ErrBadComponent, c.Name)
 		}
 		seen[c.Name] = true
-		f.ac[i] = OmegaA * R * R * c.Tc * c.Tc / c.Pc
-		f.b[i] = OmegaB * R * c.Tc / c.Pc
-		f.kappa[i] = opt.Equation.Kappa(c.Omega)
+		f.ac[i] = cubic.omegaAR2 * c.Tc * c.Tc / c.Pc
+		f.b[i] = cubic.omegaBR * c.Tc / c.Pc
+		f.kappa[i] = cubic.alpha.KappaOf(c.Omega)
 		if opt.VolumeShift {
 			f.c[i] = c.Shift * f.b[i]
 		}
@@ -222,6 +239,9 @@ func (f *Fluid) Kij(i, j int) float64 { return f.kij[i*f.n+j] }
 func (f *Fluid) CriticalVolume(i int) (vc float64, estimated bool) {
 	return f.vc[i], f.comps[i].Vc == 0
 }
+
+// Cubic returns the fluid's cubic equation of state.
+func (f *Fluid) Cubic() Cubic { return f.cubic }
 
 // Options returns the options the fluid was built with.
 func (f *Fluid) Options() Options { return f.opt }

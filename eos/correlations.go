@@ -296,6 +296,26 @@ func jhaveriYoungrenShift(m float64) float64 {
 	return 1 - 2.258/math.Pow(m, 0.1823)
 }
 
+// PenelouxSRKShift returns the dimensionless volume shift s = c/b of the
+// Soave–Redlich–Kwong equation for a component of acentric factor omega, by
+// Peneloux, Rauzy and Fréze (1982):
+//
+//	c = 0.40768 (R Tc/Pc) (0.29441 − Z_RA),  Z_RA = 0.29056 − 0.08775 ω,
+//
+// the Rackett compressibility Z_RA estimated from ω (Yamada and Gunn 1973),
+// so that s = 0.40768 (0.29441 − Z_RA)/Ω_b with the SRK Ω_b. The shifts of
+// the component library and of PseudoComponent are Peng–Robinson's: an SRK
+// fluid takes these instead.
+//
+// References: Péneloux, A., Rauzy, E. and Fréze, R. (1982). A consistent
+// correction for Redlich–Kwong–Soave volumes. Fluid Phase Equilib. 8, 7–23.
+// Yamada, T. and Gunn, R.D. (1973). Saturated liquid molar volumes. The
+// Rackett equation. J. Chem. Eng. Data 18(2), 234–236.
+func PenelouxSRKShift(omega float64) float64 {
+	zra := 0.29056 - 0.08775*omega
+	return 0.40768 * (0.29441 - zra) / srkOmegaB
+}
+
 // PseudoComponent returns a petroleum pseudo-component of molar mass m
 // (kg/mol) and specific gravity sg (60/60 °F) with the correlations chosen in
 // c (only c.Correlation and c.Acentric are used):

@@ -95,8 +95,8 @@ func (c *critWork) hessian(t, v float64, xs []float64) bool {
 		return false
 	}
 	vb := v - B
-	p1, p2 := v+delta1*B, v+delta2*B
-	dd := delta1 - delta2
+	p1, p2 := v+fl.cubic.d1*B, v+fl.cubic.d2*B
+	dd := fl.cubic.dd
 	f := math.Log(p1/p2) / (R * B * dd)
 	fV := -1 / (R * p1 * p2)
 	fVV := (1/(p2*p2) - 1/(p1*p1)) / (R * B * dd)

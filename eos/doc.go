@@ -1,5 +1,6 @@
-// Package eos implements the Peng–Robinson equation of state for mixtures of
-// defined components and petroleum pseudo-components: a component library,
+// Package eos implements two-constant cubic equations of state (Cubic:
+// Peng–Robinson 1976 and 1978, Soave–Redlich–Kwong, or another δ1, δ2 of the
+// family) for mixtures of defined components and petroleum pseudo-components: a component library,
 // plus-fraction characterization, binary interaction coefficients, fugacity
 // coefficients with analytic derivatives, Michelsen stability analysis,
 // two-phase PT flash, mixture critical points, saturation points and the
@@ -15,6 +16,8 @@
 //     Ind. Eng. Chem. Fundam. 15(1), 59–64. doi:10.1021/i160057a011
 //   - Robinson, D.B. and Peng, D.-Y. (1978). The characterization of the heptanes
 //     and heavier fractions for the GPA Peng–Robinson programs. GPA Research Report RR-28.
+//   - Soave, G. (1972). Equilibrium constants from a modified Redlich–Kwong
+//     equation of state. Chem. Eng. Sci. 27, 1197–1203.
 //   - Péneloux, A., Rauzy, E. and Fréze, R. (1982). A consistent correction for
 //     Redlich–Kwong–Soave volumes. Fluid Phase Equilib. 8, 7–23.
 //   - Michelsen, M.L. (1980). Calculation of phase envelopes and critical points

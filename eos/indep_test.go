@@ -72,6 +72,17 @@ func prConstants() (omegaA, omegaB float64) {
 
 var refOmegaA, refOmegaB = prConstants()
 
+// The Soave (1972) constants of the Soave–Redlich–Kwong equation,
+// P = RT/(v − b) − a/(v(v + b)): with the triple root at the critical point,
+// Ω_b = (2^(1/3) − 1)/3 and Ω_a = 1/(9 (2^(1/3) − 1)) (Soave prints 0.08664
+// and 0.42747), and κ = 0.480 + 1.574 ω − 0.176 ω².
+var (
+	srkRefOmegaB = (math.Cbrt(2) - 1) / 3
+	srkRefOmegaA = 1 / (9 * (math.Cbrt(2) - 1))
+)
+
+func srkRefKappa(w float64) float64 { return 0.480 + 1.574*w - 0.176*w*w }
+
 // Root selection of prRef.eval.
 const (
 	rootMin = iota // the root of lower Gibbs energy
@@ -81,6 +92,9 @@ const (
 
 // prRef is the independent Peng–Robinson model of one fluid.
 type prRef struct {
+	// The cubic: P = RT/(v − b) − a/((v + d1 b)(v + d2 b)); 1 ± √2 for
+	// Peng–Robinson, 1 and 0 for Soave–Redlich–Kwong.
+	d1, d2             float64
 	n                  int
 	names              []string
 	tc, b, c, m, kappa []float64
@@ -96,12 +110,18 @@ func newPRRef(fl *eos.Fluid) *prRef {
 	comps := fl.Components()
 	n := len(comps)
 	opt := fl.Options()
-	r := &prRef{n: n, t: math.NaN(), kij: make([]float64, n*n), aij: make([]float64, n*n), psi: make([]float64, n)}
+	r := &prRef{n: n, t: math.NaN(), kij: make([]float64, n*n), aij: make([]float64, n*n), psi: make([]float64, n),
+		d1: 1 + math.Sqrt2, d2: 1 - math.Sqrt2}
+	oa, ob, kappa := refOmegaA, refOmegaB, opt.Equation.Kappa
+	if opt.Equation == eos.SRK {
+		r.d1, r.d2 = 1, 0
+		oa, ob, kappa = srkRefOmegaA, srkRefOmegaB, srkRefKappa
+	}
 	for i, c := range comps {
 		r.names = append(r.names, c.Name)
 		r.tc = append(r.tc, c.Tc)
-		r.ac = append(r.ac, refOmegaA*rGas*rGas*c.Tc*c.Tc/c.Pc)
-		bi := refOmegaB * rGas * c.Tc / c.Pc
+		r.ac = append(r.ac, oa*rGas*rGas*c.Tc*c.Tc/c.Pc)
+		bi := ob * rGas * c.Tc / c.Pc
 		r.b = append(r.b, bi)
 		ci := 0.0
 		if opt.VolumeShift {
@@ -109,7 +129,7 @@ func newPRRef(fl *eos.Fluid) *prRef {
 		}
 		r.c = append(r.c, ci)
 		r.m = append(r.m, c.M)
-		r.kappa = append(r.kappa, opt.Equation.Kappa(c.Omega))
+		r.kappa = append(r.kappa, kappa(c.Omega))
 		for j := 0; j < n; j++ {
 			r.kij[i*n+j] = fl.Kij(i, j)
 		}
@@ -137,13 +157,25 @@ func (r *prRef) setT(t float64) {
 
 // prCubicRoots returns the roots above B of the Peng–Robinson cubic
 // f(Z) = Z³ − (1 − B) Z² + (A − 3B² − 2B) Z − (AB − B² − B³) in increasing
-// order. The stationary points of f split the real line into intervals on
+// order; cubicRootsOf those of any cubic in Z with f(B) < 0. The stationary points of f split the real line into intervals on
 // each of which f is monotone; every interval whose ends differ in sign holds
 // one root, found by Newton's method kept inside the shrinking bracket
 // (bisection where a step leaves it). f(B) = −2B² < 0, so there is always a
 // root above B.
 func prCubicRoots(A, B float64) (roots [3]float64, nr int) {
-	c2, c1, c0 := -(1 - B), A-3*B*B-2*B, -(A*B - B*B - B*B*B)
+	return cubicRootsOf(-(1 - B), A-3*B*B-2*B, -(A*B - B*B - B*B*B), B)
+}
+
+// cubicRoots returns the roots above B of the cubic in Z of the equation
+// P = RT/(v − b) − a/((v + d1 b)(v + d2 b)), multiplied out from
+// Z = v P/(RT): Z³ + ((d1 + d2 − 1)B − 1) Z² + (A + d1 d2 B² − (d1 + d2)(B + B²)) Z
+// − (AB + d1 d2 (B² + B³)) = 0.
+func (r *prRef) cubicRoots(A, B float64) (roots [3]float64, nr int) {
+	u, w := r.d1+r.d2, r.d1*r.d2
+	return cubicRootsOf((u-1)*B-1, A+w*B*B-u*(B+B*B), -(A*B + w*(B*B+B*B*B)), B)
+}
+
+func cubicRootsOf(c2, c1, c0, B float64) (roots [3]float64, nr int) {
 	f := func(z float64) (float64, float64) {
 		return ((z+c2)*z+c1)*z + c0, (3*z+2*c2)*z + c1
 	}
@@ -225,10 +257,10 @@ func (r *prRef) eval(t, p float64, x []float64, root int, lnphi []float64) (z fl
 	rt := rGas * t
 	A := am * p / (rt * rt)
 	B := bm * p / rt
-	roots, nr := prCubicRoots(A, B)
-	k := A / (2 * math.Sqrt2 * B)
+	roots, nr := r.cubicRoots(A, B)
+	k := A / ((r.d1 - r.d2) * B)
 	mixLnPhi := func(z float64) float64 {
-		return z - 1 - math.Log(z-B) - k*math.Log((z+(1+math.Sqrt2)*B)/(z+(1-math.Sqrt2)*B))
+		return z - 1 - math.Log(z-B) - k*math.Log((z+r.d1*B)/(z+r.d2*B))
 	}
 	z = roots[nr-1]
 	if nr > 1 {
@@ -243,7 +275,7 @@ func (r *prRef) eval(t, p float64, x []float64, root int, lnphi []float64) (z fl
 		}
 	}
 	lzb := math.Log(z - B)
-	lr := math.Log((z + (1+math.Sqrt2)*B) / (z + (1-math.Sqrt2)*B))
+	lr := math.Log((z + r.d1*B) / (z + r.d2*B))
 	for i := 0; i < n; i++ {
 		bi := r.b[i] / bm
 		lnphi[i] = bi*(z-1) - lzb - k*(2*r.psi[i]/am-bi)*lr

@@ -19,9 +19,10 @@ import "math"
 // Reference: Li, C.C. (1971). Critical temperature estimation for simple
 // mixtures. Can. J. Chem. Eng. 49, 709–710.
 
-// pureCriticalVolumeRatio is v_c/b of any pure fluid in the Peng–Robinson
-// equation: Z_c/Ω_b with Z_c = 0.3074013087 (METHODS C1).
-const pureCriticalVolumeRatio = 0.3074013087 / OmegaB
+// pureCriticalVolumeRatio is v_c/b of any pure fluid of the fluid's cubic:
+// Z_c/Ω_b (3.951 for Peng–Robinson with Z_c = 0.3074013087, METHODS C1;
+// 3.847 for Soave–Redlich–Kwong).
+func (f *Fluid) pureCriticalVolumeRatio() float64 { return f.cubic.zc / f.cubic.omegaB }
 
 // critCache holds the critical point of the last composition a work
 // labelled, so that repeated single-phase results of one feed (an
@@ -54,7 +55,7 @@ func (w *work) critical(x []float64) (tc, vc float64) {
 	for i, xi := range x {
 		bm += xi * w.fl.b[i]
 	}
-	return w.fl.liTc(x), pureCriticalVolumeRatio * bm
+	return w.fl.liTc(x), w.fl.pureCriticalVolumeRatio() * bm
 }
 
 // singleLabel names a single phase of composition x at t (K) with
@@ -70,7 +71,7 @@ func (w *work) singleLabel(t, v float64, x []float64) Phase {
 	for i, xi := range x {
 		if xi > 0 {
 			tmax = math.Max(tmax, w.fl.tc[i])
-			vmax = math.Max(vmax, pureCriticalVolumeRatio*w.fl.b[i])
+			vmax = math.Max(vmax, w.fl.pureCriticalVolumeRatio()*w.fl.b[i])
 		}
 	}
 	if t >= tmax || v >= vmax {

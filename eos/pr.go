@@ -2,21 +2,18 @@ package eos
 
 import "math"
 
-// Peng–Robinson mixture thermodynamics in the reduced residual Helmholtz form of
+// Cubic-equation mixture thermodynamics in the reduced residual Helmholtz form of
 // Michelsen and Mollerup (2007, ch. 3): for n moles in volume V,
 //
 //	F(n, T, V) = A_res/(R T) = −n g(V, B) − D(T)/T · f(V, B)
 //	g = ln(1 − B/V),  f = ln[(V + δ1 B)/(V + δ2 B)] / (R B (δ1 − δ2))
-//	B = Σ n_i b_i,  D = Σ_i Σ_j n_i n_j a_ij,  δ1,2 = 1 ± √2
+//	B = Σ n_i b_i,  D = Σ_i Σ_j n_i n_j a_ij,
 //
+// δ1, δ2 those of the fluid's Cubic (1 ± √2 for Peng–Robinson, 1 and 0 for
+// Soave–Redlich–Kwong),
 // from which ln φ_i = ∂F/∂n_i − ln Z, and the composition, pressure and
 // temperature derivatives of ln φ follow by the chain rule. Every evaluation
 // here is for one mole (n = 1), so "∂ ln φ_i/∂n_j" means n ∂ ln φ_i/∂n_j.
-
-const (
-	delta1 = 1 + math.Sqrt2
-	delta2 = 1 - math.Sqrt2
-)
 
 // tstate caches the temperature-dependent attraction parameters of a fluid.
 type tstate struct {
@@ -125,10 +122,12 @@ func (f *Fluid) evalPhase(ph *phase, ts *tstate, p float64, x []float64, rc root
 	z, label := f.chooseRoot(A, B, x, ts, rc)
 	ph.z, ph.label = z, label
 
-	// Classical closed form for ln φ (Peng and Robinson 1976, eq. 18 written for mixtures).
+	// Classical closed form for ln φ (Peng and Robinson 1976, eq. 18 written
+	// for mixtures and for any δ1, δ2).
+	cb := &f.cubic
 	lnZB := math.Log(z - B)
-	lnR := math.Log((z + delta1*B) / (z + delta2*B))
-	k := A / (2 * math.Sqrt2 * B) * lnR
+	lnR := math.Log((z + cb.d1*B) / (z + cb.d2*B))
+	k := A / (cb.dd * B) * lnR
 	cshift := 0.0
 	mix := 0.0
 	for i := 0; i < n; i++ {
@@ -157,9 +156,9 @@ func (f *Fluid) derivs(ph *phase, ts *tstate, x []float64, want deriv) {
 	v, am, bm, p := ph.vEOS, ph.am, ph.bm, ph.p
 	D := am
 	vb := v - bm
-	p1 := v + delta1*bm
-	p2 := v + delta2*bm
-	dd := delta1 - delta2
+	p1 := v + f.cubic.d1*bm
+	p2 := v + f.cubic.d2*bm
+	dd := f.cubic.dd
 	fv := math.Log(p1/p2) / (R * bm * dd)
 	gV := bm / (v * vb)
 	gB := -1 / vb
@@ -237,9 +236,10 @@ func (f *Fluid) derivs(ph *phase, ts *tstate, x []float64, want deriv) {
 	}
 }
 
-// chooseRoot solves the PR cubic in Z and picks a root.
+// chooseRoot solves the cubic in Z and picks a root.
 func (f *Fluid) chooseRoot(A, B float64, x []float64, ts *tstate, rc rootChoice) (float64, Phase) {
-	r, nr := cubicRoots(-(1 - B), A-3*B*B-2*B, -(A*B - B*B - B*B*B))
+	cb := &f.cubic
+	r, nr := cubicRoots(cb.coefficients(A, B))
 	// keep roots above B
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for k := 0; k < nr; k++ {
@@ -263,7 +263,7 @@ func (f *Fluid) chooseRoot(A, B float64, x []float64, ts *tstate, rc rootChoice)
 	}
 	// (g_V − g_L)/RT for the same composition (METHODS 1.5).
 	dg := (hi - lo) - math.Log((hi-B)/(lo-B)) -
-		A/(2*math.Sqrt2*B)*math.Log((hi+delta1*B)*(lo+delta2*B)/((hi+delta2*B)*(lo+delta1*B)))
+		A/(cb.dd*B)*math.Log((hi+cb.d1*B)*(lo+cb.d2*B)/((hi+cb.d2*B)*(lo+cb.d1*B)))
 	if dg > 0 {
 		return lo, Liquid
 	}

@@ -6,7 +6,7 @@ import (
 )
 
 // PureSaturationPressure returns the vapour pressure (Pa) of component c at
-// t (K) on the Peng–Robinson equation eq: the pressure where the liquid and
+// t (K) on the cubic equation eq: the pressure where the liquid and
 // vapour roots have equal fugacity. Newton's method on ln P uses
 //
 //	d(ln φ_L − ln φ_V)/d ln P = Z_L − Z_V,
@@ -16,9 +16,6 @@ import (
 //
 // Special cases: t ≥ Tc or t ≤ 0: an error wrapping ErrBadState; an invalid
 // component: ErrBadComponent.
-// zcPR is the critical compressibility factor of the Peng–Robinson equation.
-const zcPR = 0.3074013087
-
 func PureSaturationPressure(c Component, eq Equation, t float64) (float64, error) {
 	if err := c.validate(); err != nil {
 		return 0, err
@@ -33,12 +30,13 @@ func PureSaturationPressure(c Component, eq Equation, t float64) (float64, error
 	ts := newTState(1)
 	fl.setT(&ts, t)
 	a, b := ts.a[0], fl.b[0]
+	cb := &fl.cubic
 	rt := R * t
 	// gap returns ln φ_L − ln φ_V and Z_L − Z_V, or ok = false when the cubic
 	// has one root; vapourLike then says which side of the loop p is on.
 	gap := func(p float64) (d, dz float64, ok, vapourLike bool) {
 		A, B := a*p/(rt*rt), b*p/rt
-		r, nr := cubicRoots(-(1 - B), A-3*B*B-2*B, -(A*B - B*B - B*B*B))
+		r, nr := cubicRoots(cb.coefficients(A, B))
 		lo, hi := math.Inf(1), math.Inf(-1)
 		for k := 0; k < nr; k++ {
 			if r[k] > B {
@@ -47,10 +45,10 @@ func PureSaturationPressure(c Component, eq Equation, t float64) (float64, error
 		}
 		if lo == hi {
 			// a lone root with more volume than the EOS critical volume is vapour-like
-			return 0, 0, false, lo*rt/p > zcPR*R*c.Tc/c.Pc
+			return 0, 0, false, lo*rt/p > cb.zc*R*c.Tc/c.Pc
 		}
 		lnphi := func(z float64) float64 {
-			return z - 1 - math.Log(z-B) - A/(2*math.Sqrt2*B)*math.Log((z+delta1*B)/(z+delta2*B))
+			return z - 1 - math.Log(z-B) - A/(cb.dd*B)*math.Log((z+cb.d1*B)/(z+cb.d2*B))
 		}
 		return lnphi(lo) - lnphi(hi), lo - hi, true, false
 	}

@@ -43,6 +43,10 @@ type spec struct {
 	noVc, noShift bool
 }
 
+// srkShiftEstimate names the volume shift of a component of an SRK fluid
+// whose shift the file does not give (eos.PenelouxSRKShift).
+const srkShiftEstimate = "Peneloux et al. (1982) for SRK, from the Rackett Z_RA = 0.29056 − 0.08775 ω"
+
 // vcEstimate names the estimate of a critical volume the file does not give
 // (eos.Fluid.CriticalVolume).
 const vcEstimate = "Zc R Tc/Pc, Zc = 0.2918 − 0.0928 ω (Reid, Prausnitz and Sherwood 1977)"
@@ -53,9 +57,11 @@ func (r *reader) fluid(s *Study, f *fileFluid, md toml.MetaData) {
 		return
 	}
 	var opt eos.Options
-	switch r.choice("fluid.equation", f.Equation, "PR78", "PR78", "PR76") {
+	switch r.choice("fluid.equation", f.Equation, "PR78", "PR78", "PR76", "SRK") {
 	case "PR76":
 		opt.Equation = eos.PR76
+	case "SRK":
+		opt.Equation = eos.SRK
 	default:
 		opt.Equation = eos.PR78
 	}
@@ -114,6 +120,9 @@ func (r *reader) fluid(s *Study, f *fileFluid, md toml.MetaData) {
 	if r.err != nil {
 		return
 	}
+	if opt.Equation == eos.SRK {
+		r.srkShifts(specs, comps)
+	}
 	groups := componentGroups(specs, comps)
 	if r.adj != nil {
 		if r.err = r.adj.properties(r.file, groups, comps); r.err != nil {
@@ -155,6 +164,24 @@ func (r *reader) fluid(s *Study, f *fileFluid, md toml.MetaData) {
 	s.plusM = plus.p.M
 }
 
+// srkShifts gives every component whose volume_shift the file does not
+// give the Peneloux, Rauzy and Fréze (1982) shift of the Soave–Redlich–Kwong
+// equation (eos.PenelouxSRKShift): the library's shifts and those of the
+// plus-fraction correlations are Peng–Robinson's.
+func (r *reader) srkShifts(specs []spec, comps []eos.Component) {
+	for _, sp := range specs {
+		for j := sp.first; j < sp.first+sp.count; j++ {
+			name := comps[j].Name
+			if !sp.plus {
+				name = sp.name
+			}
+			if !r.shiftGiven[name] {
+				comps[j].Shift = eos.PenelouxSRKShift(comps[j].Omega)
+			}
+		}
+	}
+}
+
 // componentGroups maps each name of the file or of the fluid to the
 // components it stands for: a component's own name to itself, the plus
 // fraction's name to all its pseudo-components.
@@ -193,7 +220,9 @@ func (r *reader) estimates(specs []spec, plus plusSpec, n int, opt eos.Options) 
 				"and the Chueh–Prausnitz coefficients of %s with hydrocarbons, which need a critical volume, are 0 where [fluid.interaction] does not set them; "+
 				"give critical_volume to use a known value", r.file, k, vcEstimate, sp.name))
 		}
-		if sp.noShift && opt.VolumeShift {
+		if sp.noShift && opt.VolumeShift && opt.Equation == eos.SRK {
+			notes = append(notes, "volume shift estimated as "+srkShiftEstimate)
+		} else if sp.noShift && opt.VolumeShift {
 			notes = append(notes, "volume shift not given: 0")
 			r.warnings = append(r.warnings, fmt.Sprintf("%s: %s gives no volume_shift: its volumes are not shifted (s = 0) although fluid.volume_shift is true; give volume_shift to shift them",
 				r.file, k))
@@ -507,6 +536,10 @@ func (r *reader) componentProperties(name string, fp *fileProps, c *eos.Componen
 	}
 	if v, ok := r.between(k("volume_shift"), fp.VolumeShift, "a dimensionless Peneloux shift s = c/b", false, -1, 1, true, true); ok {
 		c.Shift = v
+		if r.shiftGiven == nil {
+			r.shiftGiven = map[string]bool{}
+		}
+		r.shiftGiven[name] = true
 	} else {
 		noShift = true
 	}

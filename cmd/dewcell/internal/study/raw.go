@@ -179,6 +179,8 @@ type reader struct {
 	atm      float64 // Pa, for gauge pressures
 	warnings []string
 	adj      *adjustment // tuned values applied while the fluid is built; nil when reading the file
+	// shiftGiven holds the names in [fluid.properties] that give volume_shift.
+	shiftGiven map[string]bool
 	// rename, when set, gives the key an error names: the sections a
 	// scenario overrides are read under the scenario's keys.
 	rename func(string) string

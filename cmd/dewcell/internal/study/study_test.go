@@ -154,7 +154,7 @@ var badStudies = []struct {
 	{"unknown key", "porosity = 0.17", "porosity = 0.17\nporosoty = 0.17", "reservoir.porosoty", "unknown key"},
 	{"key in the wrong case", "porosity = 0.17", "Porosity = 0.17", "reservoir.Porosity", "unknown key"},
 	{"unknown section", "[fluid]\n", "[fluids]\nx = 1\n[fluid]\n", "fluids", "unknown key"},
-	{"unknown equation", `equation = "PR78"`, `equation = "SRK"`, "fluid.equation", "unknown value"},
+	{"unknown equation", `equation = "PR78"`, `equation = "RK"`, "fluid.equation", "unknown value"},
 	{"volume shift not a boolean", `equation = "PR78"`, "equation = \"PR78\"\nvolume_shift = \"yes\"", "fluid.volume_shift", "true or false"},
 	{"Chueh-Prausnitz A out of range", `equation = "PR78"`, "equation = \"PR78\"\nhydrocarbon_kij_a = 1.5", "fluid.hydrocarbon_kij_a", "out of range"},
 	{"user component undefined", "C3 = 4.0", "F1 = 4.0", "fluid.composition.F1", "unknown component"},
@@ -305,6 +305,41 @@ acentric_factor = 0.3
 }
 
 // index is the position of the component name in the study's fluid.
+// TestSRKStudy: equation = "SRK" gives a Soave–Redlich–Kwong fluid whose
+// volume shifts, where the file gives none, are those of Peneloux, Rauzy and
+// Fréze (1982) for SRK (the library's and the plus-fraction correlation's
+// shifts are Peng–Robinson's); a volume_shift the file gives is kept.
+func TestSRKStudy(t *testing.T) {
+	data := strings.Replace(base, "equation = \"PR78\"", "equation = \"SRK\"\nvolume_shift = true", 1)
+	if data == base {
+		t.Fatal("test setup: no equation in the base study")
+	}
+	data = strings.Replace(data, "[[separator.stage]]", "[fluid.properties.C2]\nvolume_shift = 0.035\n\n[[separator.stage]]", 1)
+	st, err := Parse("case.toml", []byte(data))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := st.Fluid.Options(); got.Equation != eos.SRK || !got.VolumeShift {
+		t.Fatalf("options %+v, want SRK with volume shift", got)
+	}
+	pseudo := 0
+	for _, c := range st.Fluid.Components() {
+		want := eos.PenelouxSRKShift(c.Omega)
+		if c.Name == "C2" {
+			want = 0.035
+		}
+		if c.Shift != want {
+			t.Errorf("%s: shift %.6g, want %.6g", c.Name, c.Shift, want)
+		}
+		if _, lib := eos.LibraryComponent(c.Name); !lib {
+			pseudo++
+		}
+	}
+	if pseudo == 0 {
+		t.Error("no pseudo-components: the check of their shifts did not run")
+	}
+}
+
 func index(t *testing.T, st *Study, name string) int {
 	t.Helper()
 	for i, c := range st.Fluid.Components() {
