@@ -1,6 +1,10 @@
 package cvd
 
-import "testing"
+import (
+	"testing"
+
+	"dewcell/internal/testfluid"
+)
 
 // BenchmarkDeplete: a 10-step CVD of the 12-component condensate, with the
 // dew point and a two-stage separator train for every step's gas.
@@ -25,6 +29,24 @@ func BenchmarkExpand(b *testing.B) {
 	b.ReportAllocs()
 	for b.Loop() {
 		if _, err := Expand(fl, z, degF(250), ps, nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkDeplete10: an 8-step CVD of the invented 10-component
+// condensate (internal/testfluid Condensate10) from its dew point at 250 °F
+// to 700 psia, with the dew point, the search for the maximum dropout and
+// the two-stage separator train for every step's gas.
+func BenchmarkDeplete10(b *testing.B) {
+	c, err := testfluid.Condensate10()
+	if err != nil {
+		b.Fatal(err)
+	}
+	o := DepletionOptions{Abandonment: c.Abandonment, Steps: 8, Train: twoStage}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Deplete(c.Fluid, c.Z, c.T, o); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -106,3 +106,18 @@ func Rich() (Case, error) {
 		12, 0.135, 0.81)
 	return Case{"rich", fl, z, degF(280), 4300 * psi, 700 * psi}, err
 }
+
+// Condensate10 is an invented 10-component gas condensate at 250 °F, for the
+// benchmarks: N2, CO2 and C1–nC6 from the eos library (iC4 counted with nC4,
+// iC5 with nC5) and 6 mol % C7+ of 145 g/mol and specific gravity 0.795,
+// split by the gamma distribution (shape 1) into two pseudo-components
+// (C7–C18 and C19+) with the Kesler–Lee correlations, on PR78 with volume
+// shift. Its upper dew point at 250 °F lies near 4446 psia and its lower dew
+// point below 1 psia; the initial pressure is 4800 psia. The composition
+// describes no real fluid.
+func Condensate10() (Case, error) {
+	fl, z, err := build([]component{{"N2", 0.4}, {"CO2", 2.2}, {"C1", 73.5}, {"C2", 8.3}, {"C3", 4.5}, {"nC4", 2.6}, {"nC5", 1.5}, {"nC6", 1.0}},
+		6, 0.145, 0.795, eos.Characterization{Alpha: 1, Pseudo: 2, Correlation: eos.KeslerLee, Acentric: eos.AcentricKeslerLee},
+		eos.Options{Equation: eos.PR78, VolumeShift: true})
+	return Case{"ten", fl, z, degF(250), 4800 * psi, 700 * psi}, err
+}
