@@ -19,7 +19,11 @@ const (
 	satPMaxUp  = 400e6 // Pa: highest pressure tried when the feed is unstable at satPStart
 	satPMin    = 1e3   // Pa: lowest pressure searched
 	satScan    = 0.85  // ratio of successive scan pressures
-	satLowScan = 0.8   // ratio of successive scan pressures below an upper dew point
+	satLowScan = 0.8   // bracket ratio of the scan below an upper dew point
+	// satLowCoarse: ratio of successive pressures of that scan, which a
+	// bisection then narrows to satLowScan (the feed stays two-phase all the
+	// way from the upper to the lower dew point of a gas condensate).
+	satLowCoarse = 0.4
 	satBracket = 1.01  // bisect on stability until the bracket ratio is below this
 	// satNearCritical: within this many kelvin of the feed's critical
 	// temperature the upper saturation point is first sought along the
@@ -328,7 +332,7 @@ func (s *Saturator) Lower(t float64, z []float64, pUpper float64) (Saturation, e
 	// upper point until the feed is unstable.
 	hi := 0.0
 	for _, f := range []float64{0.995, 0.999, 0.9999, 0.99999, 0.999999} {
-		if !w.stableAt(pUpper*f, z, &iter) {
+		if !w.stableEarly(pUpper*f, z, &iter) {
 			hi = pUpper * f
 			break
 		}
@@ -336,19 +340,45 @@ func (s *Saturator) Lower(t float64, z []float64, pUpper float64) (Saturation, e
 	if hi == 0 {
 		return Saturation{}, &SolveError{Op: "LowerDewPoint", Iter: iter, Err: ErrNoSaturation}
 	}
+	// Down in coarse steps, then bisect (in ln P) until the bracket is as
+	// narrow as one step of satLowScan.
 	lo := hi
 	for {
-		lo *= satLowScan
+		lo *= satLowCoarse
 		if lo < satPMin {
-			return Saturation{}, &SolveError{Op: "LowerDewPoint", Iter: iter, Err: ErrNoSaturation}
+			lo = satPMin
+			if !w.stableEarly(lo, z, &iter) {
+				return Saturation{}, &SolveError{Op: "LowerDewPoint", Iter: iter, Err: ErrNoSaturation}
+			}
+			break
 		}
-		if w.stableAt(lo, z, &iter) {
+		if w.stableEarly(lo, z, &iter) {
 			break
 		}
 		hi = lo
 	}
+	for lo/hi < satLowScan {
+		mid := math.Sqrt(lo * hi)
+		if w.stableEarly(mid, z, &iter) {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
 	// Here hi is unstable and lo stable: the mirror image of the upper search.
 	return w.refine(t, z, hi, lo, iter, "LowerDewPoint")
+}
+
+// stableEarly is stableAt for a scan through the two-phase region: the test
+// stops at the first trial point of negative tangent-plane distance, which
+// proves instability as well as a converged one does, so the verdict is the
+// same and the test much shorter. It keeps no trial phase (refine runs the
+// test at the unstable end of the bracket again, converged).
+func (w *work) stableEarly(p float64, z []float64, iter *int) bool {
+	w.prepareFeed(p, z)
+	liq, vap := w.stability(p, z, true)
+	*iter += liq.iter + vap.iter
+	return !liq.unstable && !vap.unstable
 }
 
 // stableAt runs a full stability test of z at p, temperature already set.
