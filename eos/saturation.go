@@ -24,7 +24,7 @@ const (
 	// bisection then narrows to satLowScan (the feed stays two-phase all the
 	// way from the upper to the lower dew point of a gas condensate).
 	satLowCoarse = 0.4
-	satBracket = 1.01  // bisect on stability until the bracket ratio is below this
+	satBracket   = 1.01 // bisect on stability until the bracket ratio is below this
 	// satNearCritical: within this many kelvin of the feed's critical
 	// temperature the upper saturation point is first sought along the
 	// envelope through the critical point (Saturator.nearCritical).
