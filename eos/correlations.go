@@ -215,7 +215,7 @@ func twuTheta(tb float64) (float64, error) {
 	if d := 10.44 - 0.0052*tb; d > 1 {
 		theta = math.Log(tb / d) // Twu's suggested start
 	}
-	theta = math.Min(math.Max(theta, lo), hi)
+	theta = min(max(theta, lo), hi)
 	const maxIter = 100
 	for it := 0; it < maxIter; it++ {
 		f, df := twuTb(theta)

@@ -199,7 +199,7 @@ func (c *critWork) nullVector() {
 		}
 		big := 0.0
 		for _, x := range c.u {
-			big = math.Max(big, math.Abs(x))
+			big = max(big, math.Abs(x))
 		}
 		norm := 0.0
 		for i := range c.u {
@@ -287,7 +287,7 @@ func (c *critWork) spinodalT(v, t0, tol float64) float64 {
 		if !(step > 0.5*lim) || math.IsInf(next, 0) || math.IsNaN(next) {
 			next = tb + dir*2*lim // the secant points back or stalls: double the step
 		}
-		next = math.Max(tb/1.3, math.Min(tb*1.3, next))
+		next = max(tb/1.3, min(tb*1.3, next))
 		// overshoot a little so that the next point lies past the root
 		next += dir * 0.002 * next
 		ta, da, tb = tb, db, next
@@ -334,7 +334,7 @@ func (c *critWork) cubic(t, v float64) float64 {
 	for a, d := range c.dn {
 		ideal -= d * d * d / (c.z[a] * c.z[a])
 		if d != 0 {
-			eps = math.Min(eps, 0.01*c.z[a]/math.Abs(d))
+			eps = min(eps, 0.01*c.z[a]/math.Abs(d))
 		}
 	}
 	// Δnᵀ F(z + sΔn, V) Δn at s = ±eps; F is homogeneous of degree −1 in

@@ -189,7 +189,7 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 				case i == n+1:
 					lim = envMaxStepP
 				default:
-					lim = math.Max(envMaxStepK, 0.2*math.Abs(e.x[i]))
+					lim = max(envMaxStepK, 0.2*math.Abs(e.x[i]))
 				}
 				if a := math.Abs(e.dx[i] * ds); a > lim {
 					ds *= lim / a
@@ -216,7 +216,7 @@ func TraceEnvelope(fl *Fluid, z []float64, s *Settings) (*Envelope, error) {
 				if ok && !far && !e.trivial() {
 					accepted = true
 					if it <= 4 {
-						step = math.Min(2*math.Abs(ds), 1.0)
+						step = min(2*math.Abs(ds), 1.0)
 					} else if it > 6 {
 						step = 0.5 * math.Abs(ds)
 					} else {
@@ -339,7 +339,7 @@ func (e *envTracer) kmax(x []float64) float64 {
 	k := 0.0
 	for i := 0; i < e.n; i++ {
 		if e.z[i] > 0 {
-			k = math.Max(k, math.Abs(x[i]))
+			k = max(k, math.Abs(x[i]))
 		}
 	}
 	return k
@@ -354,7 +354,7 @@ func (e *envTracer) brackets(a []float64, cp CriticalPoint) bool {
 		if lo > hi {
 			lo, hi = hi, lo
 		}
-		tol := math.Max(0.01*(hi-lo), 1e-6*math.Abs(v))
+		tol := max(0.01*(hi-lo), 1e-6*math.Abs(v))
 		return v >= lo-tol && v <= hi+tol
 	}
 	return in(a[n], e.x[n], math.Log(cp.T)) && in(a[n+1], e.x[n+1], math.Log(cp.P))
@@ -466,7 +466,7 @@ func (e *envTracer) eval(spec int, sVal float64) float64 {
 	J := e.jac
 	for i := 0; i < n; i++ {
 		e.f[i] = e.x[i] + w.pa.lnphi[i] - w.feed.lnphi[i]
-		res = math.Max(res, math.Abs(e.f[i]))
+		res = max(res, math.Abs(e.f[i]))
 		for j := 0; j < n; j++ {
 			J[i*m+j] = w.pa.dn[i*n+j] * w.W[j] / sumW
 		}
@@ -475,7 +475,7 @@ func (e *envTracer) eval(spec int, sVal float64) float64 {
 		J[i*m+n+1] = p * (w.pa.dp[i] - w.feed.dp[i])
 	}
 	e.f[n] = sumW - 1
-	res = math.Max(res, math.Abs(e.f[n]))
+	res = max(res, math.Abs(e.f[n]))
 	for j := 0; j < n; j++ {
 		J[n*m+j] = w.W[j]
 	}
@@ -505,7 +505,7 @@ func (e *envTracer) correct(spec int, sVal float64) (int, bool) {
 		}
 		big := 0.0
 		for i := 0; i < m; i++ {
-			big = math.Max(big, math.Abs(w.rhs[i]))
+			big = max(big, math.Abs(w.rhs[i]))
 		}
 		sc := 1.0
 		if big > 1 {
@@ -720,7 +720,7 @@ func (e *envTracer) extreme(pts []envPoint, i, yv, sv int) ([]float64, bool) {
 				return nil, false
 			}
 			g := e.dx[yv] / e.dx[sv]
-			if math.Abs(sb-sa) < 1e-13*math.Max(1, math.Abs(s)) || g == 0 {
+			if math.Abs(sb-sa) < 1e-13*max(1, math.Abs(s)) || g == 0 {
 				return append([]float64(nil), e.x...), true
 			}
 			if g*ga > 0 {

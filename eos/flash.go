@@ -371,7 +371,7 @@ func (w *work) splitAtBound(z []float64, iter int) (float64, int, float64, bool)
 		if zi == 0 {
 			continue
 		}
-		res = math.Max(res, math.Abs(math.Log(w.x[i])+w.pa.lnphi[i]-math.Log(w.y[i])-w.pb.lnphi[i]))
+		res = max(res, math.Abs(math.Log(w.x[i])+w.pa.lnphi[i]-math.Log(w.y[i])-w.pb.lnphi[i]))
 		// z = β y + (1 − β) x, β by least squares
 		d := w.y[i] - w.x[i]
 		num += (zi - w.x[i]) * d
@@ -484,7 +484,7 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 			w.K[i] = math.Exp(w.lnK[i])
 		}
 		// β to 1e-4 of the last residual (at least 1e-14 relative)
-		beta = rachfordRiceTol(z, w.K, beta, math.Max(1e-14, math.Min(1e-6, 1e-4*res)))
+		beta = rachfordRiceTol(z, w.K, beta, max(1e-14, min(1e-6, 1e-4*res)))
 		if math.IsInf(beta, 0) {
 			return beta, iter, math.NaN(), false
 		}
@@ -501,7 +501,7 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 				continue
 			}
 			w.r[i] = w.pa.lnphi[i] - w.pb.lnphi[i] - w.lnK[i]
-			res = math.Max(res, math.Abs(w.r[i]))
+			res = max(res, math.Abs(w.r[i]))
 			triv += w.lnK[i] * w.lnK[i]
 		}
 		if res < w.tol && beta > 0 && beta < 1 {
@@ -578,7 +578,7 @@ func (w *work) gdem() bool {
 	if !(lam > 0 && lam < 1) {
 		return false
 	}
-	c := math.Min(lam/(1-lam), 10)
+	c := min(lam/(1-lam), 10)
 	for i := range w.lnK {
 		w.lnK[i] += c * (w.lnK[i] - w.lnK1[i])
 	}
@@ -682,12 +682,12 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 			switch {
 			case z[i] == 0 || w.g[i] == 0:
 			case w.g[i] < 0:
-				stepMax = math.Min(stepMax, 0.9*w.s[i]/-w.g[i])
+				stepMax = min(stepMax, 0.9*w.s[i]/-w.g[i])
 			default:
-				stepMax = math.Min(stepMax, 0.9*(z[i]-w.s[i])/w.g[i])
+				stepMax = min(stepMax, 0.9*(z[i]-w.s[i])/w.g[i])
 			}
 		}
-		step := math.Min(1, stepMax)
+		step := min(1, stepMax)
 		accepted := false
 		for cut := 0; cut < 30; cut++ {
 			w.setStep(z, step)
@@ -784,7 +784,7 @@ func (w *work) splitState(p float64, z []float64) (G, res, V, L float64) {
 		lfl := math.Log(w.x[i]) + w.pa.lnphi[i]
 		G += w.v[i]*lfv + w.l[i]*lfl
 		w.r[i] = lfv - lfl
-		res = math.Max(res, math.Abs(w.r[i]))
+		res = max(res, math.Abs(w.r[i]))
 	}
 	return G, res, V, L
 }
@@ -853,3 +853,4 @@ func (f *Flasher) Phase(t, p float64, x []float64) (PhaseProps, Phase, float64) 
 	dpdv := -R*t/((v-b)*(v-b)) + 2*a*(v+b)/(q*q)
 	return w.fl.props(ph, t, p, x), w.singleLabel(t, v, x), -1 / (ph.v * dpdv)
 }
+

@@ -70,8 +70,8 @@ func (w *work) singleLabel(t, v float64, x []float64) Phase {
 	tmax, vmax := 0.0, 0.0
 	for i, xi := range x {
 		if xi > 0 {
-			tmax = math.Max(tmax, w.fl.tc[i])
-			vmax = math.Max(vmax, w.fl.pureCriticalVolumeRatio()*w.fl.b[i])
+			tmax = max(tmax, w.fl.tc[i])
+			vmax = max(vmax, w.fl.pureCriticalVolumeRatio()*w.fl.b[i])
 		}
 	}
 	if t >= tmax || v >= vmax {

@@ -49,32 +49,39 @@ func luSolve(a []float64, n int, b []float64) bool {
 
 // cholSolve solves a·x = b for symmetric positive-definite a (n×n row-major,
 // overwritten by its Cholesky factor); b is overwritten by x. It reports false
-// when a is not positive definite.
+// when a is not positive definite. The loops run over row slices so that the
+// compiler drops their bounds checks.
 func cholSolve(a []float64, n int, b []float64) bool {
+	a = a[:n*n]
+	b = b[:n]
 	for j := 0; j < n; j++ {
-		s := a[j*n+j]
-		for k := 0; k < j; k++ {
-			s -= a[j*n+k] * a[j*n+k]
+		rj := a[j*n : j*n+j+1]
+		s := rj[j]
+		for _, v := range rj[:j] {
+			s -= v * v
 		}
 		if !(s > 0) {
 			return false
 		}
 		d := math.Sqrt(s)
-		a[j*n+j] = d
+		rj[j] = d
+		lj := rj[:j]
 		for i := j + 1; i < n; i++ {
-			s := a[i*n+j]
-			for k := 0; k < j; k++ {
-				s -= a[i*n+k] * a[j*n+k]
+			ri := a[i*n : i*n+j+1]
+			s := ri[j]
+			for k, v := range ri[:j] {
+				s -= v * lj[k]
 			}
-			a[i*n+j] = s / d
+			ri[j] = s / d
 		}
 	}
 	for i := 0; i < n; i++ {
+		ri := a[i*n : i*n+i+1]
 		s := b[i]
-		for k := 0; k < i; k++ {
-			s -= a[i*n+k] * b[k]
+		for k, v := range ri[:i] {
+			s -= v * b[k]
 		}
-		b[i] = s / a[i*n+i]
+		b[i] = s / ri[i]
 	}
 	for i := n - 1; i >= 0; i-- {
 		s := b[i]

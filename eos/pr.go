@@ -244,8 +244,8 @@ func (f *Fluid) chooseRoot(A, B float64, x []float64, ts *tstate, rc rootChoice)
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for k := 0; k < nr; k++ {
 		if r[k] > B {
-			lo = math.Min(lo, r[k])
-			hi = math.Max(hi, r[k])
+			lo = min(lo, r[k])
+			hi = max(hi, r[k])
 		}
 	}
 	if math.IsInf(lo, 1) { // cannot happen for physical A, B; guard against round-off
@@ -296,7 +296,7 @@ func cubicRoots(c2, c1, c0 float64) (r [3]float64, n int) {
 		var th float64
 		if m != 0 {
 			arg := 3 * q / (p * m)
-			arg = math.Max(-1, math.Min(1, arg))
+			arg = max(-1, min(1, arg))
 			th = math.Acos(arg) / 3
 		}
 		r[0] = m*math.Cos(th) + shift

@@ -40,7 +40,7 @@ func PureSaturationPressure(c Component, eq Equation, t float64) (float64, error
 		lo, hi := math.Inf(1), math.Inf(-1)
 		for k := 0; k < nr; k++ {
 			if r[k] > B {
-				lo, hi = math.Min(lo, r[k]), math.Max(hi, r[k])
+				lo, hi = min(lo, r[k]), max(hi, r[k])
 			}
 		}
 		if lo == hi {
@@ -59,9 +59,9 @@ func PureSaturationPressure(c Component, eq Equation, t float64) (float64, error
 		d, dz, ok, vapourLike := gap(p)
 		if !ok {
 			if vapourLike {
-				pLo = math.Max(pLo, p)
+				pLo = max(pLo, p)
 			} else {
-				pHi = math.Min(pHi, p)
+				pHi = min(pHi, p)
 			}
 			lnP = math.Log(0.5 * (pLo + pHi))
 			if pLo == 0 {
@@ -71,9 +71,9 @@ func PureSaturationPressure(c Component, eq Equation, t float64) (float64, error
 		}
 		// d > 0: the liquid is less stable, the pressure is below Psat.
 		if d > 0 {
-			pLo = math.Max(pLo, p)
+			pLo = max(pLo, p)
 		} else {
-			pHi = math.Min(pHi, p)
+			pHi = min(pHi, p)
 		}
 		step := -d / dz
 		if math.Abs(d) < 1e-14 || math.Abs(step) < 1e-15 {

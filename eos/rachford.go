@@ -28,8 +28,8 @@ func rachfordRiceTol(z, K []float64, guess, rtol float64) float64 {
 	kmin, kmax := math.Inf(1), math.Inf(-1)
 	for i, zi := range z {
 		if zi > 0 {
-			kmin = math.Min(kmin, K[i])
-			kmax = math.Max(kmax, K[i])
+			kmin = min(kmin, K[i])
+			kmax = max(kmax, K[i])
 		}
 	}
 	if kmin >= 1 {
@@ -57,7 +57,7 @@ func rachfordRiceTol(z, K []float64, guess, rtol float64) float64 {
 			hi = beta
 		}
 		step := g / dg
-		if math.Abs(step) <= rtol*math.Min(math.Abs(beta), math.Abs(1-beta))+1e-16 {
+		if math.Abs(step) <= rtol*min(math.Abs(beta), math.Abs(1-beta))+1e-16 {
 			return beta - step
 		}
 		next := beta - step

@@ -123,7 +123,7 @@ func (s *Saturator) upper(t float64, z []float64) (Saturation, error) {
 		if hi == satPMaxUp {
 			return Saturation{}, &SolveError{Op: "UpperSaturation", Iter: iter, Err: ErrTwoPhaseToLimit}
 		}
-		hi = math.Min(2*hi, satPMaxUp)
+		hi = min(2*hi, satPMaxUp)
 	}
 	lo := hi
 	for {
@@ -440,10 +440,10 @@ func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op str
 		unstableAt(pUn)
 	}
 	for attempt := 0; attempt < 60; attempt++ {
-		if math.Max(pUn, pSt)/math.Min(pUn, pSt) < satBracket || attempt > 0 {
+		if max(pUn, pSt)/min(pUn, pSt) < satBracket || attempt > 0 {
 			sat, it, ok := w.satNewton(t, z, pUn, inc, false)
 			iter += it
-			lo, hi := math.Min(pUn, pSt), math.Max(pUn, pSt)
+			lo, hi := min(pUn, pSt), max(pUn, pSt)
 			if ok && sat.P >= lo*(1-1e-9) && sat.P <= hi*(1+1e-9) && unstableAt(sat.P) {
 				// the feed is unstable at the root itself: it lies inside
 				// the two-phase region, next to the limit of stability,
@@ -502,7 +502,7 @@ func (w *work) fromBracket(t float64, z []float64, p float64, w0 []float64, iter
 	res := 0.0
 	for i := 0; i < n; i++ {
 		if z[i] > 0 {
-			res = math.Max(res, math.Abs(math.Log(w.wn[i]/z[i])+w.pa.lnphi[i]-w.feed.lnphi[i]))
+			res = max(res, math.Abs(math.Log(w.wn[i]/z[i])+w.pa.lnphi[i]-w.feed.lnphi[i]))
 		}
 	}
 	return w.saturation(t, p, z, iter, res)
@@ -535,7 +535,7 @@ func (w *work) named(sat Saturation, z []float64, op string) (Saturation, error)
 	kmax := 0.0
 	for i, zi := range z {
 		if zi > 0 {
-			kmax = math.Max(kmax, math.Abs(math.Log(sat.Incipient[i]/zi)))
+			kmax = max(kmax, math.Abs(math.Log(sat.Incipient[i]/zi)))
 		}
 	}
 	tc, _ := w.critical(z)
@@ -628,7 +628,7 @@ func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64, guard
 				F = 0
 			}
 			w.rhs[i] = -F
-			res = math.Max(res, math.Abs(F))
+			res = max(res, math.Abs(F))
 			triv += w.lnK[i] * w.lnK[i]
 			for j := 0; j < n; j++ {
 				H[i*m+j] = w.pa.dn[i*n+j] * w.W[j] / sumW
@@ -648,7 +648,7 @@ func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64, guard
 			H[n*m+j] = w.W[j]
 		}
 		H[n*m+n] = 0
-		res = math.Max(res, math.Abs(Fs))
+		res = max(res, math.Abs(Fs))
 		if guarded && res > prevRes && cuts < 10 {
 			// the step raised the residual: take half of it instead
 			// (close to a critical point the equations are nearly singular

@@ -172,7 +172,7 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 					db += b * b
 				}
 			}
-			near = math.Min(da, db)
+			near = min(da, db)
 		}
 		for i := 0; i < n; i++ {
 			if z[i] > 0 {
@@ -194,7 +194,7 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 			}
 			w.r[i] = w.lnW[i] + ph.lnphi[i] - w.d[i]
 			tm += w.W[i] * (w.r[i] - 1)
-			rmax = math.Max(rmax, math.Abs(w.r[i]))
+			rmax = max(rmax, math.Abs(w.r[i]))
 		}
 		res.tm = tm
 		if early && tm < w.tmCut && dist > 1e-6 {
