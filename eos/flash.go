@@ -853,4 +853,3 @@ func (f *Flasher) Phase(t, p float64, x []float64) (PhaseProps, Phase, float64) 
 	dpdv := -R*t/((v-b)*(v-b)) + 2*a*(v+b)/(q*q)
 	return w.fl.props(ph, t, p, x), w.singleLabel(t, v, x), -1 / (ph.v * dpdv)
 }
-
