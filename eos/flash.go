@@ -632,15 +632,22 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 		}
 		fl.derivs(&w.pb, &w.ts, w.y, dN)
 		fl.derivs(&w.pa, &w.ts, w.x, dN)
+		// The Hessian in the unknowns, S H S with S = diag(sg), symmetric:
+		// the lower triangle, mirrored. shiftedSolve turns the right-hand
+		// side −S g in w.g into the step.
 		H := w.H[n*n : 2*n*n]
-		c := 1 / (V * L)
+		c, iV, iL := 1/(V*L), 1/V, 1/L
 		for i := 0; i < n; i++ {
-			for j := 0; j < n; j++ {
-				H[i*n+j] = -c + w.pb.dn[i*n+j]/V + w.pa.dn[i*n+j]/L
+			dv, dl := w.pb.dn[i*n:i*n+i+1], w.pa.dn[i*n:i*n+i+1]
+			si := sg[i]
+			for j := range dv {
+				h := (-c + dv[j]*iV + dl[j]*iL) * (si * sg[j])
+				H[i*n+j], H[j*n+i] = h, h
 			}
 			if z[i] > 0 {
 				H[i*n+i] += c * z[i] / (w.x[i] * w.y[i])
 			}
+			w.g[i] = -si * w.r[i]
 		}
 		for i := 0; i < n; i++ { // an absent component: an identity row and column
 			if z[i] == 0 {
@@ -648,14 +655,6 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 					H[i*n+j], H[j*n+i] = 0, 0
 				}
 				H[i*n+i] = 1
-			}
-		}
-		// gradient and Hessian in the unknowns: S g and S H S with S = diag(sg);
-		// shiftedSolve turns the right-hand side −S g in w.g into the step
-		for i := 0; i < n; i++ {
-			w.g[i] = -sg[i] * w.r[i]
-			for j := 0; j < n; j++ {
-				H[i*n+j] *= sg[i] * sg[j]
 			}
 		}
 		if !w.newtonStep(H, n, true) {

@@ -78,6 +78,7 @@ const (
 // phase holds one evaluation of the equation of state at T, P and a composition.
 type phase struct {
 	psi      []float64 // Σ_j a_ij x_j
+	q, pin   []float64 // scratch of derivs
 	lnphi    []float64 // ln φ_i, with the Peneloux term when the fluid has VolumeShift
 	dn       []float64 // n×n: n ∂ ln φ_i/∂n_j
 	dp       []float64 // ∂ ln φ_i/∂P, 1/Pa
@@ -93,6 +94,8 @@ type phase struct {
 func newPhase(n int) phase {
 	return phase{
 		psi:   make([]float64, n),
+		q:     make([]float64, n),
+		pin:   make([]float64, n),
 		lnphi: make([]float64, n),
 		dn:    make([]float64, n*n),
 		dp:    make([]float64, n),
@@ -130,12 +133,15 @@ func (f *Fluid) evalPhase(ph *phase, ts *tstate, p float64, x []float64, rc root
 	k := A / (cb.dd * B) * lnR
 	cshift := 0.0
 	mix := 0.0
-	for i := 0; i < n; i++ {
-		bi := f.b[i] / bm
-		lp := bi*(z-1) - lnZB - k*(2*ph.psi[i]/am-bi) - f.c[i]*p/rt
-		ph.lnphi[i] = lp
+	ibm, tam, prt := 1/bm, 2/am, p/rt
+	b, c, psi, lnphi := f.b[:n], f.c[:n], ph.psi[:n], ph.lnphi[:n]
+	x = x[:n]
+	for i := range lnphi {
+		bi := b[i] * ibm
+		lp := bi*(z-1) - lnZB - k*(psi[i]*tam-bi) - c[i]*prt
+		lnphi[i] = lp
 		mix += x[i] * lp
-		cshift += x[i] * f.c[i]
+		cshift += x[i] * c[i]
 	}
 	ph.lnPhiMix = mix
 	v := z * rt / p
@@ -190,17 +196,23 @@ func (f *Fluid) derivs(ph *phase, ts *tstate, x []float64, want deriv) {
 		FBD := -fB / t
 		FBB := -gBB - D/t*fBB
 		inv := 1 / (rt * PV)
+		// F_ij = F_nB (b_i + b_j) + F_BD (b_i D_j + b_j D_i) + F_BB b_i b_j
+		// + F_D 2 a_ij = b_i q_j + b_j q_i + 2 F_D a_ij with
+		// q_i = F_nB + F_BD D_i + F_BB b_i/2, D_i = 2 ψ_i; the pressure
+		// term P_i P_j/(RT P_V) with P_i/(RT P_V) kept per component.
+		q, pin := ph.q[:n], ph.pin[:n]
+		b, dp := f.b[:n], ph.dp[:n]
+		for i := range q {
+			q[i] = FnB + FBD*2*ph.psi[i] + 0.5*FBB*b[i]
+			pin[i] = dp[i] * inv
+		}
+		fd2 := 2 * FD
 		for i := 0; i < n; i++ {
-			bi := f.b[i]
-			Di := 2 * ph.psi[i]
-			Pi := ph.dp[i]
-			row := ph.dn[i*n : i*n+n]
-			arow := ts.aij[i*n : i*n+n]
-			for j := 0; j <= i; j++ {
-				bj := f.b[j]
-				Dj := 2 * ph.psi[j]
-				Fij := FnB*(bi+bj) + FBD*(bi*Dj+bj*Di) + FBB*bi*bj + FD*2*arow[j]
-				val := Fij + 1 + Pi*ph.dp[j]*inv
+			bi, qi, Pi := b[i], q[i], pin[i]
+			row := ph.dn[i*n : i*n+i+1]
+			arow := ts.aij[i*n : i*n+i+1]
+			for j := range row {
+				val := bi*q[j] + b[j]*qi + fd2*arow[j] + 1 + Pi*dp[j]
 				row[j] = val
 				ph.dn[j*n+i] = val
 			}

@@ -235,12 +235,18 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 		for j := 0; j < n; j++ {
 			sq[j] = math.Sqrt(w.W[j])
 		}
-		for i := 0; i < n; i++ {
+		isum := 1 / sumW
+		for i := 0; i < n; i++ { // symmetric: the lower triangle, mirrored
 			si := sq[i]
 			w.g[i] = -si * w.r[i]
-			for j := 0; j < n; j++ {
-				H[i*n+j] = si * sq[j] * ph.dn[i*n+j] / sumW
+			sw := si * isum
+			dn := ph.dn[i*n : i*n+i+1]
+			for j := range dn {
+				h := sw * sq[j] * dn[j]
+				H[i*n+j], H[j*n+i] = h, h
 			}
+		}
+		for i := 0; i < n; i++ {
 			H[i*n+i] += 1
 			if z[i] == 0 {
 				for j := 0; j < n; j++ {
