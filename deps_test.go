@@ -40,6 +40,7 @@ var layers = map[string][]string{
 	"dewcell/eos":           eosMay,
 	"dewcell/cvd":           cvdMay,
 	"dewcell/mbal":          mbalMay,
+	"dewcell/uncertain":     {std, gonum}, // the statistics of probabilistic runs
 	"dewcell/examples":      {std},
 	// Helpers of the library's tests: the invented test fluids and the
 	// reference data of testdata/.
