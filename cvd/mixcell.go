@@ -15,7 +15,13 @@ import (
 // cells in series, an unswept one beside it) at one common pressure.
 //
 // A Cell reuses one flasher and starts each two-phase flash from the
-// K-values of its last one; it is not safe for concurrent use.
+// K-values of its last one. A single phase is tested for stability from the
+// Wilson starts; the stability test's trials from nearly pure components,
+// which look for a dense liquid–liquid split (eos.Flasher.PureTrials), run
+// on the cell's first flash and on every pureEvery-th single-phase flash
+// after it, not on the others: a cell's contents change little from one
+// flash to the next, and those trials were two-fifths of the time of a
+// gas-cycling forecast. It is not safe for concurrent use.
 type Cell struct {
 	fl        *eos.Fluid
 	t, v0, p0 float64
@@ -25,7 +31,15 @@ type Cell struct {
 	k         []float64
 	hasK      bool
 	z         []float64
+	singles   int // single-phase flashes so far (pureEvery)
 }
+
+// pureEvery: a cell's single-phase flashes run the stability test's
+// pure-component trials once in this many (common practice, no published
+// source: a bound on how long a split those trials alone would find can go
+// unseen: about three months of a gas-cycling forecast in monthly steps,
+// which flashes each cell about ten times a month).
+const pureEvery = 32
 
 // NewCell is a cell of fluid fl at temperature t (K) whose pore volume is v0
 // (m³) at pressure p0 (Pa), with pore compressibility c (1/Pa).
@@ -70,10 +84,14 @@ func (c *Cell) flashInto(p float64, n []float64) (total, vol float64, err error)
 	for i, v := range n {
 		c.z[i] = v / total
 	}
+	c.f.PureTrials(c.singles%pureEvery == 0) // also for FlashFrom's fall-back on a full flash
 	if c.hasK {
 		err = c.f.FlashFrom(&c.res, c.t, p, c.z, c.k)
 	} else {
 		err = c.f.Flash(&c.res, c.t, p, c.z)
+	}
+	if err == nil && c.res.Phases == 1 {
+		c.singles++
 	}
 	if err != nil {
 		return 0, 0, err

@@ -22,6 +22,15 @@ func (f *Flasher) Fluid() *Fluid { return f.w.fl }
 // Beta 1 for every single phase, whose properties are the same either way.
 func (f *Flasher) NameSinglePhases(on bool) { f.w.noLabel = !on }
 
+// PureTrials sets whether a feed that the stability test finds stable from
+// both Wilson starts is tried from nearly pure components too (the default,
+// on). Those trials look for a dense liquid–liquid split that the Wilson
+// starts, both close to such a feed, do not reach, and cost three stability
+// tests of every single phase; a caller that flashes gases it knows, a
+// reservoir cell of a gas condensate and the lean gas injected into it,
+// thousands of times, turns them off.
+func (f *Flasher) PureTrials(on bool) { f.w.noPure = !on }
+
 // Flash writes into dst the equilibrium of feed z (mole fractions summing to 1)
 // at t (K) and p (Pa), following Michelsen (1982a, 1982b):
 //
@@ -60,8 +69,12 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 		if !liq.ok || !vap.ok {
 			return &SolveError{Op: "Flash", Iter: iter, Residual: math.NaN(), Err: ErrNoConvergence}
 		}
-		pt, unstable := w.pureTrials(p, z)
-		iter += pt.iter
+		unstable := false
+		if !w.noPure {
+			var pt trialResult
+			pt, unstable = w.pureTrials(p, z)
+			iter += pt.iter
+		}
 		if !unstable {
 			w.single(dst, t, p, z, iter)
 			return nil

@@ -11,6 +11,7 @@ type work struct {
 	tol     float64
 	max     int
 	noLabel bool // single phases are not named (Flasher.NameSinglePhases)
+	noPure  bool // a feed stable from the Wilson starts is one phase (Flasher.PureTrials)
 	ts      tstate
 
 	feed, pa, pb phase // feed; liquid (or trial) and vapour phases
