@@ -57,6 +57,10 @@ func (f *Fluid) setT(ts *tstate, t float64) {
 	ts.t = t
 }
 
+// loneRoot is the label chooseRoot gives a lone root: one not named, as
+// only Props needs the name (loneRootLabel).
+const loneRoot Phase = -1
+
 // rootChoice selects the root of the cubic.
 type rootChoice int
 
@@ -85,7 +89,8 @@ type phase struct {
 	dt       []float64 // ∂ ln φ_i/∂T, 1/K
 	z        float64   // EOS compressibility factor (untranslated)
 	v        float64   // translated molar volume, m³/mol
-	label    Phase     // Vapour for the largest root of three or a lone root of a light fluid
+	label    Phase     // Vapour for the largest root of three, Liquid for the smallest; loneRoot
+	lone     bool      // the cubic had one root above B (Props names it by loneRootLabel)
 	lnPhiMix float64   // Σ x_i ln φ_i: the reduced residual Gibbs energy of the mixture
 
 	vEOS, am, bm, p float64 // untranslated molar volume and mixture parameters, kept for derivs
@@ -110,8 +115,10 @@ func (f *Fluid) evalPhase(ph *phase, ts *tstate, p float64, x []float64, rc root
 	t := ts.t
 	rt := R * t
 	am, bm := 0.0, 0.0
+	x = x[:n]
 	for i := 0; i < n; i++ {
 		row := ts.aij[i*n : i*n+n]
+		row = row[:len(x)] // one bounds check for the row, none in the loop
 		s := 0.0
 		for j, xj := range x {
 			s += row[j] * xj
@@ -124,6 +131,7 @@ func (f *Fluid) evalPhase(ph *phase, ts *tstate, p float64, x []float64, rc root
 	B := bm * p / rt
 	z, label := f.chooseRoot(A, B, x, ts, rc)
 	ph.z, ph.label = z, label
+	ph.lone = label == loneRoot
 
 	// Classical closed form for ln φ (Peng and Robinson 1976, eq. 18 written
 	// for mixtures and for any δ1, δ2).
@@ -265,7 +273,7 @@ func (f *Fluid) chooseRoot(A, B float64, x []float64, ts *tstate, rc rootChoice)
 		return z, Liquid
 	}
 	if lo == hi {
-		return lo, f.loneRootLabel(x, ts.t)
+		return lo, loneRoot // named, where wanted, by loneRootLabel
 	}
 	switch rc {
 	case rootVapour:
@@ -280,6 +288,15 @@ func (f *Fluid) chooseRoot(A, B float64, x []float64, ts *tstate, rc rootChoice)
 		return lo, Liquid
 	}
 	return hi, Vapour
+}
+
+// phaseLabel is the label of the root ph holds, for composition x at t: a
+// lone root named by loneRootLabel.
+func (f *Fluid) phaseLabel(ph *phase, x []float64, t float64) Phase {
+	if ph.lone {
+		return f.loneRootLabel(x, t)
+	}
+	return ph.label
 }
 
 // loneRootLabel labels a single-root state by comparing T with the Li (1971)
@@ -344,7 +361,7 @@ func (f *Fluid) Props(t, p float64, x []float64) (PhaseProps, Phase) {
 	f.setT(&ts, t)
 	ph := newPhase(f.n)
 	f.evalPhase(&ph, &ts, p, x, rootMinG, 0)
-	return f.props(&ph, t, p, x), ph.label
+	return f.props(&ph, t, p, x), f.phaseLabel(&ph, x, t)
 }
 
 func (f *Fluid) props(ph *phase, t, p float64, x []float64) PhaseProps {
