@@ -623,7 +623,10 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 			w.v[i], w.l[i] = z[i]-l, l
 		}
 	}
-	G, res, V, L := w.splitState(p, z)
+	// The phases at the start are those the substitution evaluated last
+	// (w.x, w.y in w.pa, w.pb): the split's Gibbs energy and gradient from
+	// them, without evaluating them again.
+	G, res, V, L := w.splitGradient(z)
 	best, stalled := res, 0 // lowest residual so far, iterations without progress on it
 	for it := 1; it <= 50; it++ {
 		if res < w.tol {
@@ -787,7 +790,26 @@ func (w *work) splitState(p float64, z []float64) (G, res, V, L float64) {
 	}
 	w.fl.evalPhase(&w.pb, &w.ts, p, w.y, rootMinG, 0)
 	w.fl.evalPhase(&w.pa, &w.ts, p, w.x, rootMinG, 0)
-	for i := 0; i < n; i++ {
+	G, res = w.splitSums(z)
+	return G, res, V, L
+}
+
+// splitGradient is splitState for mole numbers w.v and w.l whose phases
+// w.x and w.y are already evaluated in w.pb and w.pa.
+func (w *work) splitGradient(z []float64) (G, res, V, L float64) {
+	for i := 0; i < w.n; i++ {
+		V += w.v[i]
+		L += w.l[i]
+	}
+	G, res = w.splitSums(z)
+	return G, res, V, L
+}
+
+// splitSums sets the gradient w.r_i = ln f_i^V − ln f_i^L of the split in
+// w.v, w.l (phases w.y, w.x evaluated in w.pb, w.pa) and returns its Gibbs
+// energy and the largest |w.r_i|.
+func (w *work) splitSums(z []float64) (G, res float64) {
+	for i := 0; i < w.n; i++ {
 		if z[i] == 0 {
 			w.r[i] = 0
 			continue
@@ -798,7 +820,7 @@ func (w *work) splitState(p float64, z []float64) (G, res, V, L float64) {
 		w.r[i] = lfv - lfl
 		res = max(res, math.Abs(w.r[i]))
 	}
-	return G, res, V, L
+	return G, res
 }
 
 func normalise(x []float64) {
