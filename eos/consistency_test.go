@@ -125,9 +125,15 @@ func TestPureCriticalPoint(t *testing.T) {
 // log10(Psat/Pc) = −1 − ω at Tr = 0.7 (Pitzer 1955), and both Peng–Robinson
 // and Soave (1972) fitted their κ(ω) to reproduce vapour pressures: the ω
 // back-calculated from either cubic's vapour pressure at Tr = 0.7 matches the
-// input within about 0.005 for hydrocarbons (METHODS check values C1).
+// input within about 0.005 for hydrocarbons (METHODS check values C1); Soave
+// obtained κ(ω) from the reduced vapour pressure at Tr = 0.7 itself, so SRK
+// matches within 0.001.
 func TestAcentricDefinition(t *testing.T) {
 	for _, eq := range []Equation{PR76, SRK} {
+		tol := 0.005
+		if eq == SRK {
+			tol = 0.001
+		}
 		for _, c := range []Component{
 			{Name: "C1", M: 0.016043, Tc: 190.56, Pc: 4.599e6, Omega: 0.011},
 			{Name: "C3", M: 0.044097, Tc: 369.83, Pc: 4.248e6, Omega: 0.152},
@@ -139,8 +145,8 @@ func TestAcentricDefinition(t *testing.T) {
 				t.Fatal(err)
 			}
 			w := -1 - math.Log10(p/c.Pc)
-			if math.Abs(w-c.Omega) > 0.005 {
-				t.Errorf("%v %s: omega from Psat(Tr=0.7) = %.4f, want %.3f within 0.005", eq, c.Name, w, c.Omega)
+			if math.Abs(w-c.Omega) > tol {
+				t.Errorf("%v %s: omega from Psat(Tr=0.7) = %.4f, want %.3f within %g", eq, c.Name, w, c.Omega, tol)
 			}
 		}
 	}
