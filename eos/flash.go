@@ -397,7 +397,7 @@ func (w *work) splitAtBound(z []float64, iter int) (float64, int, float64, bool)
 // splitNearRef: a trial phase testing a split that comes within this squared
 // distance in ln W of one of the split's phases, with tm > 0, is taken to
 // fall back onto it: the phases of a converged split are minima of tm.
-const splitNearRef = 1e-3
+const splitNearRef = 1e-2
 
 // tmAt is the tangent-plane distance against w.d of the trial phase of mole
 // numbers W (normalised here).
