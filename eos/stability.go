@@ -25,6 +25,14 @@ const tmUnstable = -1e-9
 // round-off of tm.
 const tmUnstableSat = -1e-11
 
+// flashTrivialNear: in a flash (not the saturation search, which resolves the
+// edge of stability next to critical points), a trial in its Newton stage
+// within this squared distance in ln W of the feed, with positive tm, is
+// taken to converge onto it: there tm is the quadratic form of a positive
+// definite Hessian (the feed a local minimum), and the Newton steps that
+// would follow only polish the trivial solution.
+const flashTrivialNear = 1e-3
+
 type trialResult struct {
 	tm       float64
 	unstable bool
@@ -207,7 +215,8 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 			res.unstable = !res.trivial && tm < w.tmCut
 			return res
 		}
-		if dist < 1e-10 && it > 2 || near < w.nearRef && tm > 0 && it > 1 {
+		if dist < 1e-10 && it > 2 || near < w.nearRef && tm > 0 && it > 1 ||
+			newton && tm > 0 && dist < flashTrivialNear && w.tmCut == tmUnstable {
 			// collapsed onto the feed: the trivial solution (or, testing a
 			// split, well inside the basin of one of its phases)
 			res.ok, res.trivial = true, true
