@@ -119,6 +119,8 @@ func (s *Saturator) upper(t float64, z []float64) (Saturation, error) {
 	}
 	w.fl.setT(&w.ts, t)
 	hi := satPStart
+	w.scanning = true
+	defer func() { w.scanning = false }()
 	for !w.stableAt(hi, z, &iter) {
 		if hi == satPMaxUp {
 			return Saturation{}, &SolveError{Op: "UpperSaturation", Iter: iter, Err: ErrTwoPhaseToLimit}
@@ -136,6 +138,7 @@ func (s *Saturator) upper(t float64, z []float64) (Saturation, error) {
 		}
 		hi = lo
 	}
+	w.scanning = false
 	return w.refine(t, z, lo, hi, iter, "UpperSaturation")
 }
 

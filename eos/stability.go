@@ -25,8 +25,9 @@ const tmUnstable = -1e-9
 // round-off of tm.
 const tmUnstableSat = -1e-11
 
-// flashTrivialNear: in a flash (not the saturation search, which resolves the
-// edge of stability next to critical points), a trial in its Newton stage
+// flashTrivialNear: in a flash and in the saturation search's scan (not its
+// refinement, which resolves the edge of stability next to critical
+// points), a trial in its Newton stage
 // within this squared distance in ln W of the feed, with positive tm, is
 // taken to converge onto it: there tm is the quadratic form of a positive
 // definite Hessian (the feed a local minimum), and the Newton steps that
@@ -216,7 +217,7 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 			return res
 		}
 		if dist < 1e-10 && it > 2 || near < w.nearRef && tm > 0 && it > 1 ||
-			newton && tm > 0 && dist < flashTrivialNear && w.tmCut == tmUnstable {
+			newton && tm > 0 && dist < flashTrivialNear && (w.tmCut == tmUnstable || w.scanning) {
 			// collapsed onto the feed: the trivial solution (or, testing a
 			// split, well inside the basin of one of its phases)
 			res.ok, res.trivial = true, true

@@ -12,7 +12,10 @@ type work struct {
 	max     int
 	noLabel bool // single phases are not named (Flasher.NameSinglePhases)
 	noPure  bool // a feed stable from the Wilson starts is one phase (Flasher.PureTrials)
-	ts      tstate
+	// scanning: the stability tests are the saturation search's scan
+	// (flashTrivialNear applies).
+	scanning bool
+	ts       tstate
 
 	feed, pa, pb phase // feed; liquid (or trial) and vapour phases
 
