@@ -69,7 +69,7 @@ func fluidReport(st *study.Study, sys units.System) *Report {
 		Section: "Fluid model",
 		Title:   fluidTitle(st),
 		Fields: []Field{
-			{Column: Column{Name: "equation"}, Value: opt.Equation.String()},
+			{Column: Column{Name: "equation"}, Value: fl.Cubic().Name()},
 			{Column: Column{Name: "volume_shift_applied"}, Value: opt.VolumeShift},
 		},
 		Tables: []Table{t},
