@@ -378,3 +378,33 @@ func TestUncertaintyBadInput(t *testing.T) {
 		}
 	}
 }
+
+// TestUncertaintyInReport: the study report carries the distribution when
+// the study has [uncertainty] (here the volumes in place alone, which is
+// cheap).
+func TestUncertaintyInReport(t *testing.T) {
+	path := withUncertainty(t, `[uncertainty]
+cases = 20
+[uncertainty.vary]
+"reservoir.area" = { distribution = "uniform", min = "2800 acre", max = "3400 acre" }
+`)
+	data, _ := os.ReadFile(path)
+	s := string(data)
+	s = s[:strings.Index(s, "[[scenario]]")] + s[strings.Index(s, "[uncertainty]"):]
+	if err := os.WriteFile(path, []byte(s), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(filepath.Dir(path), "report.html")
+	if code, _, errs := dewcell("report", path, "--output", out); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	html, err := os.ReadFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"The decision as a distribution", "Condensate in place, P90", "exceeded with 90 % probability"} {
+		if !strings.Contains(string(html), want) {
+			t.Errorf("the report has no %q", want)
+		}
+	}
+}
