@@ -484,7 +484,7 @@ func uncertaintyReport(st *study.Study, sys units.System, ur *uncertaintyResult)
 		{Column: Column{Name: "cases_failed"}, Value: failed},
 		{Column: Column{Name: "sampling"}, Value: ur.sampling},
 		{Column: Column{Name: "seed"}, Value: strconv.FormatUint(ur.spec.Seed, 10)},
-		{Column: Column{Name: "p90_convention", Label: "P90"}, Value: p90Convention},
+		{Column: Column{Name: "p90_convention", Label: "Convention"}, Value: p90Convention},
 	}
 	if cur != "" {
 		r.Fields = append(r.Fields, Field{Column: Column{Name: "currency"}, Value: cur})
