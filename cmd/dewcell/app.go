@@ -145,6 +145,7 @@ func newApp(stdout, stderr io.Writer) *cli.App {
 			checkCommand(),
 			forecastCommand(),
 			maintainCommand(),
+			uncertaintyCommand(),
 			tuneCommand(),
 			reportCommand(),
 			demoCommand(),

@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"dewcell/cmd/dewcell/internal/study"
 	"dewcell/cmd/dewcell/internal/units"
@@ -109,5 +110,48 @@ func BenchmarkScenarios(b *testing.B) {
 				b.Fatal(err)
 			}
 		}
+	}
+}
+
+// exampleUncertainty is an [uncertainty] section for the example (invented
+// ranges): its area, porosity, plus-fraction molar mass, cycling sweep and
+// gas price.
+const exampleUncertainty = `
+[uncertainty]
+cases = 8
+seed = 20261202
+[uncertainty.vary]
+"reservoir.area" = { distribution = "triangular", min = "2600 acre", mode = "3150 acre", max = "3700 acre" }
+"reservoir.porosity" = { distribution = "normal", mean = 0.16, sd = 0.015, min = 0.10, max = 0.22 }
+"fluid.plus.molar_mass" = { distribution = "uniform", min = 140.0, max = 152.0 }
+"scenario.cycling.sweep_efficiency" = { distribution = "triangular", min = 0.5, mode = 0.7, max = 0.85 }
+"economics.gas_price" = { distribution = "lognormal", median = "3.4 USD/MMBtu", p90_ratio = 0.7 }
+`
+
+// BenchmarkUncertainty: the example's probabilistic run, 8 cases of its
+// three scenarios (depletion, cycling in six cells, water injection) in
+// monthly steps and the 11 one-at-a-time runs of the sensitivity, on 1
+// and on 2 workers; s/run is the time of one run (a case) per worker.
+func BenchmarkUncertainty(b *testing.B) {
+	text := string(examples.Study) + exampleUncertainty
+	st, err := study.Parse(filepath.Join("..", "..", "examples", examples.StudyName), []byte(text))
+	if err != nil {
+		b.Fatal(err)
+	}
+	for _, workers := range []int{1, 2} {
+		b.Run(fmt.Sprintf("workers-%d", workers), func(b *testing.B) {
+			o := &options{sys: units.Field, stderr: io.Discard}
+			runs := 0
+			start := time.Now()
+			for b.Loop() {
+				ur, err := uncertaintyRun(o, st, false, workers, 0)
+				if err != nil {
+					b.Fatal(err)
+				}
+				runs += len(ur.values) + 1 + 2*len(ur.spec.Inputs)
+			}
+			b.ReportMetric(time.Since(start).Seconds()*float64(workers)/float64(runs), "s/run")
+			b.ReportMetric(time.Since(start).Seconds()/float64(runs), "wall-s/run")
+		})
 	}
 }

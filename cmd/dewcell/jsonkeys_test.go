@@ -53,6 +53,7 @@ var jsonKeyCases = []struct {
 	{"forecast", []string{"forecast", "../../examples/sablewick.toml"}},
 	{"forecast-metric", []string{"forecast", "../../examples/sablewick.toml", "--units", "metric"}},
 	{"maintain", []string{"maintain", "../../examples/sablewick.toml"}},
+	{"uncertainty", []string{"uncertainty", uncertaintyStudy}},
 	{"demo", []string{"demo"}},
 }
 

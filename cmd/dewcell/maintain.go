@@ -79,7 +79,9 @@ type sensitivityRow struct {
 	base            float64
 }
 
-// maintainRun forecasts every scenario of the study.
+// maintainRun forecasts every scenario of the study, and the sensitivity
+// of each gain to its inputs changed by the fraction change both ways (0:
+// none).
 func maintainRun(o *options, st *study.Study, atDew bool, change float64) (*maintainResult, error) {
 	if len(st.Scenarios) == 0 {
 		return nil, cli.Exit(fmt.Sprintf("%s has no [[scenario]]: name the ways to produce the field, such as "+
@@ -107,7 +109,7 @@ func maintainRun(o *options, st *study.Study, atDew bool, change float64) (*main
 			out.noEconomy = true
 		}
 	}
-	if out.base < 0 || out.noEconomy {
+	if out.base < 0 || out.noEconomy || change == 0 { // change 0: no sensitivity
 		return out, nil
 	}
 	// The sensitivity of each scenario's gain over depletion to the inputs

@@ -29,7 +29,8 @@ func TestTablesForPeople(t *testing.T) {
 	for _, cmd := range []string{"expand", "deplete", "inplace", "recover", "history"} {
 		cases = append(cases, []string{cmd, exampleStudy})
 	}
-	cases = append(cases, []string{"expand", o9Study}, []string{"deplete", o9Study}, []string{"recover", "testdata/rich-near-critical.toml", "--start-at-dew-point"})
+	cases = append(cases, []string{"expand", o9Study}, []string{"deplete", o9Study}, []string{"recover", "testdata/rich-near-critical.toml", "--start-at-dew-point"},
+		[]string{"uncertainty", uncertaintyStudy})
 	dir := t.TempDir()
 	for i, st := range append(studies, "") { // demo on each study, and on its own example
 		args := []string{"demo", "--dir", filepath.Join(dir, strconv.Itoa(i))}

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"os"
+	"runtime"
 	"strings"
 	"time"
 
@@ -29,11 +30,12 @@ var cautions = []string{
 // workflow runs the study's whole workflow, as demo and report do: the
 // fluid, its saturation pressures and phase envelope, the constant-volume
 // depletion and constant-composition expansion at the reservoir
-// temperature, the separator, the volumes in place, the depletion recovery
-// and, when the study has one, the material balance on its production
-// history. A step whose inputs the study does not give is left out, with a
-// note saying which key it needs. Each result takes the warnings and notes
-// of its step. atDew is --start-at-dew-point.
+// temperature, the separator, the volumes in place, the depletion recovery,
+// the forecast and the scenarios, and, when the study has them, the
+// probabilistic run of its [uncertainty] and the material balance on its
+// production history. A step whose inputs the study does not give is left
+// out, with a note saying which key it needs. Each result takes the
+// warnings and notes of its step. atDew is --start-at-dew-point.
 func workflow(o *options, st *study.Study, atDew bool) (out []*Report, err error) {
 	sys := o.sys
 	add := func(r *Report) {
@@ -148,6 +150,13 @@ func workflow(o *options, st *study.Study, atDew bool) (out []*Report, err error
 			}
 			add(maintainReport(st, sys, mr))
 		}
+	}
+	if st.Uncertainty != nil {
+		ur, err := uncertaintyRun(o, st, atDew, runtime.NumCPU(), 0)
+		if err != nil {
+			return nil, err
+		}
+		add(uncertaintyReport(st, sys, ur))
 	}
 	if len(st.History) == 0 {
 		skipped("material balance on production history", fmt.Sprintf("%s has no [[history]]", st.File))

@@ -113,6 +113,10 @@
 // Read and Parse read the tables from the operating system's files; ParseFS
 // reads the study and its tables from an fs.FS (the demo's embedded example).
 //
+// The probabilistic run, [uncertainty] with [uncertainty.vary] and
+// [[uncertainty.correlate]], is described in uncertainty.go; Study.Case reads
+// the study again with its inputs set to a case's values.
+//
 // The [[separator.stage]], [[surface.stage]] and [[history]] tables are
 // numbered from 1 in messages: separator.stage[2].pressure is the second
 // stage's pressure, history[3].date the third row's date.

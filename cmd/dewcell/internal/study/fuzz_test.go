@@ -20,6 +20,7 @@ import (
 // keeps the rules of the tables.
 func FuzzRead(f *testing.F) {
 	f.Add([]byte(base))
+	f.Add([]byte(withScenarios + goodUncertainty))
 	for _, table := range []string{fieldCVD, metricCVD, fieldCCE, metricCCE} {
 		f.Add([]byte(table))
 	}

@@ -34,6 +34,8 @@ type fileStudy struct {
 	Plant      *filePlant      `toml:"plant"`
 	Economics  *fileEconomics  `toml:"economics"`
 	Scenario   []fileScenario  `toml:"scenario"`
+
+	Uncertainty *fileUncertainty `toml:"uncertainty"`
 }
 
 type fileTune struct {

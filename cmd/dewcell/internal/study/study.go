@@ -62,6 +62,14 @@ type Study struct {
 	// Scenarios are the [[scenario]] tables in file order; nil when none.
 	Scenarios []Scenario
 
+	// Uncertainty holds [uncertainty], the probabilistic run; nil when not
+	// given.
+	Uncertainty *Uncertainty
+	// source and fsys are the file's text and the file system of its
+	// tables (nil: the operating system's), from which Case reads it again.
+	source []byte
+	fsys   fs.FS
+
 	standard    units.Conditions
 	standardSet [2]bool // temperature, pressure given
 
@@ -267,10 +275,21 @@ func Parse(name string, data []byte) (*Study, error) {
 // parse is Parse with the laboratory tables read from fsys, or from the
 // operating system's files when fsys is nil.
 func parse(fsys fs.FS, name string, data []byte) (*Study, error) {
+	return parseWith(fsys, name, data, nil)
+}
+
+// parseWith is parse with the decoded file changed by patch, when not nil,
+// before it is read: Case sets the values of its inputs that way.
+func parseWith(fsys fs.FS, name string, data []byte, patch func(*fileStudy) error) (*Study, error) {
 	var f fileStudy
 	md, err := toml.Decode(string(data), &f)
 	if err != nil {
 		return nil, decodeError(name, err)
+	}
+	if patch != nil {
+		if err := patch(&f); err != nil {
+			return nil, err
+		}
 	}
 	r := &reader{file: name, atm: units.PaPerAtm, fsys: fsys}
 	r.checkKeys(md)
@@ -295,9 +314,11 @@ func parse(fsys fs.FS, name string, data []byte) (*Study, error) {
 	r.plant(s, f.Plant, md)
 	r.economics(s, f.Economics)
 	r.scenarios(s, &f, f.Scenario, md)
+	r.uncertainty(s, &f, md)
 	if r.err != nil {
 		return nil, r.err
 	}
+	s.source, s.fsys = data, fsys
 	s.Warnings = r.warnings
 	return s, nil
 }
