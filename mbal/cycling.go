@@ -66,6 +66,12 @@ type CyclingModel struct {
 	lastDropout float64
 	dew         float64
 	init        ReservoirState
+	// The last withdrawal from a state: the state, the moles withdrawn and
+	// the injection, and the common pressure found. The plateau advances
+	// one state several times with nearly the same withdrawal; the search
+	// of each after the first starts from the last one's pressure.
+	lastSt                 *cyclingState
+	lastDn, lastInj, lastP float64
 }
 
 // cyclingState is what a ReservoirState of a CyclingModel keeps.
@@ -224,6 +230,9 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 		slope = -total / s.P
 	}
 	p2 := p1 + (dn-g1)/slope
+	if m.lastSt == st && m.lastInj == inject && slope < 0 {
+		p2 = m.lastP + (dn-m.lastDn)/slope
+	}
 	if p2 <= 0 {
 		p2 = p1 / 2
 	}
@@ -268,6 +277,7 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 	if p2 > maxPressureRise*m.init.P {
 		return ReservoirState{}, fmt.Errorf("%w: the injection raises the reservoir pressure to %.4g Pa, %.0f %% above the initial: inject less (the bought gas)", ErrForecast, p2, 100*(p2/m.init.P-1))
 	}
+	m.lastSt, m.lastDn, m.lastInj, m.lastP = st, dn, inject, p2
 	ns, err := m.after(s, st, moles, out, inj, p2, blowdown, exhausted)
 	if err == nil {
 		if slope < 0 && !math.IsInf(slope, 0) {
