@@ -131,6 +131,7 @@ func (s *Saturator) upper(t float64, z []float64) (Saturation, error) {
 	for {
 		lo *= satScan
 		if lo < satPMin {
+			w.scanning = false
 			return s.fromEnvelope(t, z, iter)
 		}
 		if !w.stableAt(lo, z, &iter) {
