@@ -106,17 +106,27 @@ func close(a, b, rel, abs float64) bool {
 // TestPureCriticalPoint: Peng and Robinson (1976) give Zc = 0.307 for every
 // pure fluid; the cubic at Tc, Pc has the triple root 0.3074013087 (METHODS C1).
 func TestPureCriticalPoint(t *testing.T) {
-	for _, c := range []Component{
-		{Name: "C1", M: 0.016043, Tc: 190.56, Pc: 4.599e6, Omega: 0.0115},
-		{Name: "nC10", M: 0.142285, Tc: 617.7, Pc: 2.11e6, Omega: 0.4923},
-	} {
-		fl, err := NewFluid([]Component{c}, nil, Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		pp, _ := fl.Props(c.Tc, c.Pc, []float64{1})
-		if math.Abs(pp.Z-0.3074013087) > 2e-5 { // a triple root is found to about the cube root of round-off
-			t.Errorf("%s: Z(Tc, Pc) = %.10f, want 0.3074013087 (PR critical compressibility)", c.Name, pp.Z)
+	for _, eq := range []struct {
+		eq Equation
+		zc float64 // Peng–Robinson 0.3074013087 (METHODS C1); SRK 1/3 (Soave 1972)
+	}{{PR78, 0.3074013087}, {SRK, 1.0 / 3}} {
+		for _, c := range []Component{
+			{Name: "C1", M: 0.016043, Tc: 190.56, Pc: 4.599e6, Omega: 0.0115},
+			{Name: "nC10", M: 0.142285, Tc: 617.7, Pc: 2.11e6, Omega: 0.4923},
+		} {
+			fl, err := NewFluid([]Component{c}, nil, Options{Equation: eq.eq})
+			if err != nil {
+				t.Fatal(err)
+			}
+			pp, _ := fl.Props(c.Tc, c.Pc, []float64{1})
+			if math.Abs(pp.Z-eq.zc) > 2e-5 { // a triple root is found to about the cube root of round-off
+				t.Errorf("%v %s: Z(Tc, Pc) = %.10f, want %.10f (critical compressibility)", eq.eq, c.Name, pp.Z, eq.zc)
+			}
+			// the mixture critical point of a pure component is its own
+			cp, ok, err := VLCritical(fl, []float64{1})
+			if err != nil || !ok || math.Abs(cp.T/c.Tc-1) > 1e-6 || math.Abs(cp.P/c.Pc-1) > 1e-5 {
+				t.Errorf("%v %s: critical point %.6g K, %.6g Pa (%v, %v), want Tc %g K, Pc %g Pa", eq.eq, c.Name, cp.T, cp.P, ok, err, c.Tc, c.Pc)
+			}
 		}
 	}
 }
@@ -400,23 +410,36 @@ func TestNearCricondentherm(t *testing.T) {
 // Flasher.Phase against a central difference of the molar volume, and the
 // ideal-gas limit c = 1/p at low pressure.
 func TestPhaseCompressibility(t *testing.T) {
-	fl, z := o9Fluid(true)
-	f := NewFlasher(fl, nil)
-	for _, c := range [][2]float64{{degF(220), 6000 * psi}, {degF(300), 4500 * psi}, {degF(60), 8000 * psi}} {
-		pp, _, comp := f.Phase(c[0], c[1], z)
-		h := 1e-6 * c[1]
-		up, _, _ := f.Phase(c[0], c[1]+h, z)
-		dn, _, _ := f.Phase(c[0], c[1]-h, z)
-		fd := -(up.V - dn.V) / (2 * h * pp.V)
-		if math.Abs(comp/fd-1) > 1e-6 {
-			t.Errorf("T %g K, p %g psia: compressibility %g, central difference %g", c[0], c[1]/psi, comp, fd)
+	pr, z := o9Fluid(true)
+	n := pr.N()
+	kij := make([]float64, n*n)
+	for i := range n {
+		for j := range n {
+			kij[i*n+j] = pr.Kij(i, j)
 		}
 	}
-	// ideal gas: c = 1/p (definition of the isothermal compressibility)
-	p := 1000.0 // Pa
-	_, _, comp := f.Phase(degF(300), p, z)
-	if math.Abs(comp*p-1) > 1e-3 {
-		t.Errorf("compressibility at 1 kPa times p = %g, want 1", comp*p)
+	srk, err := NewFluid(pr.Components(), kij, Options{Equation: SRK, VolumeShift: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, fl := range []*Fluid{pr, srk} {
+		f := NewFlasher(fl, nil)
+		for _, c := range [][2]float64{{degF(220), 6000 * psi}, {degF(300), 4500 * psi}, {degF(60), 8000 * psi}} {
+			pp, _, comp := f.Phase(c[0], c[1], z)
+			h := 1e-6 * c[1]
+			up, _, _ := f.Phase(c[0], c[1]+h, z)
+			dn, _, _ := f.Phase(c[0], c[1]-h, z)
+			fd := -(up.V - dn.V) / (2 * h * pp.V)
+			if math.Abs(comp/fd-1) > 1e-6 {
+				t.Errorf("%v, T %g K, p %g psia: compressibility %g, central difference %g", fl.Options().Equation, c[0], c[1]/psi, comp, fd)
+			}
+		}
+		// ideal gas: c = 1/p (definition of the isothermal compressibility)
+		p := 1000.0 // Pa
+		_, _, comp := f.Phase(degF(300), p, z)
+		if math.Abs(comp*p-1) > 1e-3 {
+			t.Errorf("%v: compressibility at 1 kPa times p = %g, want 1", fl.Options().Equation, comp*p)
+		}
 	}
 }
 

@@ -467,7 +467,7 @@ func Criticals(fl *Fluid, z []float64) ([]CriticalPoint, error) {
 	return out, nil
 }
 
-// pressure returns the Peng–Robinson pressure of composition x (full
+// pressure returns the cubic's pressure of composition x (full
 // length) at t and molar volume v (untranslated).
 func (f *Fluid) pressure(ts *tstate, t, v float64, x []float64) float64 {
 	f.setT(ts, t)
@@ -485,7 +485,7 @@ func (f *Fluid) pressure(ts *tstate, t, v float64, x []float64) float64 {
 		am += x[i] * s
 		bm += x[i] * f.b[i]
 	}
-	return R*t/(v-bm) - am/(v*v+2*bm*v-bm*bm)
+	return R*t/(v-bm) - am/(v*v+f.cubic.u*bm*v+f.cubic.w*bm*bm)
 }
 
 // VLCritical returns the vapour–liquid critical point of feed z: of the

@@ -875,9 +875,9 @@ func (w *work) twoPhase(dst *FlashResult, t, p float64, z []float64, beta float6
 // (Pa) on the cubic root of lowest Gibbs energy, its name by the rule of
 // label.go and the isothermal compressibility −(1/v) ∂v/∂p (1/Pa), from
 //
-//	∂p/∂v = −R T/(v − b)² + 2 a (v + b)/(v² + 2 b v − b²)²
+//	∂p/∂v = −R T/(v − b)² + a (2v + (δ1 + δ2) b)/((v + δ1 b)(v + δ2 b))²
 //
-// of the Peng–Robinson equation (a volume shift does not change ∂v/∂p). No
+// of the cubic (a volume shift does not change ∂v/∂p). No
 // stability test is made: the caller knows the phase is single.
 func (f *Flasher) Phase(t, p float64, x []float64) (PhaseProps, Phase, float64) {
 	w := f.w
@@ -886,7 +886,8 @@ func (f *Flasher) Phase(t, p float64, x []float64) (PhaseProps, Phase, float64) 
 	ph := &w.pa
 	w.fl.evalPhase(ph, &w.ts, p, x, rootMinG, 0)
 	v, a, b := ph.vEOS, ph.am, ph.bm
-	q := v*v + 2*b*v - b*b
-	dpdv := -R*t/((v-b)*(v-b)) + 2*a*(v+b)/(q*q)
+	cb := &w.fl.cubic
+	q := v*v + cb.u*b*v + cb.w*b*b
+	dpdv := -R*t/((v-b)*(v-b)) + a*(2*v+cb.u*b)/(q*q)
 	return w.fl.props(ph, t, p, x), w.singleLabel(t, v, x), -1 / (ph.v * dpdv)
 }
