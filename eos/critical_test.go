@@ -221,7 +221,7 @@ func TestNearCriticalSaturation(t *testing.T) {
 		}
 		pts = append(pts, pt{math.Abs(dT), kmax})
 		fl.setT(&w.ts, T)
-		w.tmCut = tmUnstableSat
+		w.tmCut, w.earlyTrivial = tmUnstableSat, false // as the saturation search refines
 		if !w.stableAt(s.P*(1+1e-5), z, new(int)) {
 			t.Errorf("%+g K: unstable 1e-5 above the saturation pressure %g psia", dT, s.P/psi)
 		}

@@ -47,6 +47,7 @@ type Saturator struct {
 func NewSaturator(fl *Fluid, s *Settings) *Saturator {
 	w := newWork(fl, s)
 	w.tmCut = tmUnstableSat
+	w.earlyTrivial = false // but in the scan of Upper
 	return &Saturator{w: w}
 }
 
@@ -119,8 +120,8 @@ func (s *Saturator) upper(t float64, z []float64) (Saturation, error) {
 	}
 	w.fl.setT(&w.ts, t)
 	hi := satPStart
-	w.scanning = true
-	defer func() { w.scanning = false }()
+	w.earlyTrivial = true
+	defer func() { w.earlyTrivial = false }()
 	for !w.stableAt(hi, z, &iter) {
 		if hi == satPMaxUp {
 			return Saturation{}, &SolveError{Op: "UpperSaturation", Iter: iter, Err: ErrTwoPhaseToLimit}
@@ -131,7 +132,7 @@ func (s *Saturator) upper(t float64, z []float64) (Saturation, error) {
 	for {
 		lo *= satScan
 		if lo < satPMin {
-			w.scanning = false
+			w.earlyTrivial = false
 			return s.fromEnvelope(t, z, iter)
 		}
 		if !w.stableAt(lo, z, &iter) {
@@ -139,7 +140,7 @@ func (s *Saturator) upper(t float64, z []float64) (Saturation, error) {
 		}
 		hi = lo
 	}
-	w.scanning = false
+	w.earlyTrivial = false
 	return w.refine(t, z, lo, hi, iter, "UpperSaturation")
 }
 

@@ -217,7 +217,7 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 			return res
 		}
 		if dist < 1e-10 && it > 2 || near < w.nearRef && tm > 0 && it > 1 ||
-			newton && tm > 0 && dist < flashTrivialNear && (w.tmCut == tmUnstable || w.scanning) {
+			newton && tm > 0 && dist < flashTrivialNear && w.earlyTrivial {
 			// collapsed onto the feed: the trivial solution (or, testing a
 			// split, well inside the basin of one of its phases)
 			res.ok, res.trivial = true, true

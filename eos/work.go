@@ -12,10 +12,11 @@ type work struct {
 	max     int
 	noLabel bool // single phases are not named (Flasher.NameSinglePhases)
 	noPure  bool // a feed stable from the Wilson starts is one phase (Flasher.PureTrials)
-	// scanning: the stability tests are the saturation search's scan
-	// (flashTrivialNear applies).
-	scanning bool
-	ts       tstate
+	// earlyTrivial: a trial converging onto the feed ends at
+	// flashTrivialNear (the flash and the saturation search's scan), not
+	// only when polished (the saturation search's refinement).
+	earlyTrivial bool
+	ts           tstate
 
 	feed, pa, pb phase // feed; liquid (or trial) and vapour phases
 
@@ -64,7 +65,7 @@ func newWork(fl *Fluid, s *Settings) *work {
 	n := fl.n
 	vec := func() []float64 { return make([]float64, n) }
 	return &work{
-		fl: fl, n: n, tol: s.tol(), max: s.maxIter(), tmCut: tmUnstable,
+		fl: fl, n: n, tol: s.tol(), max: s.maxIter(), tmCut: tmUnstable, earlyTrivial: true,
 		ts:   newTState(n),
 		feed: newPhase(n), pa: newPhase(n), pb: newPhase(n),
 		d: vec(), lnW: vec(), W: vec(), wn: vec(), wLiq: vec(), wVap: vec(), inc: vec(),
