@@ -283,6 +283,14 @@ func (r *prRef) eval(t, p float64, x []float64, root int, lnphi []float64) (z fl
 	return z, nr > 1
 }
 
+// zFactor is P v/(R T) of composition x at t, p on the root of lower Gibbs
+// energy, v translated by the Peneloux shift when the fluid has one.
+func (r *prRef) zFactor(t, p float64, x []float64) float64 {
+	lp := make([]float64, r.n)
+	zz, _ := r.eval(t, p, x, rootMin, lp)
+	return p * r.volume(t, p, x, zz) / (rGas * t)
+}
+
 // volume is the molar volume (m³/mol) of composition x with EOS factor Z,
 // translated by the Peneloux shift when the fluid has one.
 func (r *prRef) volume(t, p float64, x []float64, z float64) float64 {
@@ -1138,11 +1146,7 @@ func TestReferenceAgreesWithFlash(t *testing.T) {
 				t.Errorf("%s at %g K, %g Pa: %v", f.name, s.t, s.p, err)
 				continue
 			}
-			zOf := func(x []float64) float64 {
-				lp := make([]float64, r.n)
-				zz, _ := r.eval(s.t, s.p, x, rootMin, lp)
-				return s.p * r.volume(s.t, s.p, x, zz) / (rGas * s.t)
-			}
+			zOf := func(x []float64) float64 { return r.zFactor(s.t, s.p, x) }
 			if res.Phases == 1 {
 				if got := zOf(f.z); relErr(res.L.Z, got) > 1e-10 {
 					t.Errorf("%s at %g K, %g Pa: one phase, Z %.12g, reference %.12g", f.name, s.t, s.p, res.L.Z, got)

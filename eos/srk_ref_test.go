@@ -59,11 +59,7 @@ func TestSRKFlashReference(t *testing.T) {
 				t.Errorf("%s at %g K, %g Pa: %v", f.name, s.t, s.p, err)
 				continue
 			}
-			zOf := func(x []float64) float64 {
-				lp := make([]float64, r.n)
-				zz, _ := r.eval(s.t, s.p, x, rootMin, lp)
-				return s.p * r.volume(s.t, s.p, x, zz) / (rGas * s.t)
-			}
+			zOf := func(x []float64) float64 { return r.zFactor(s.t, s.p, x) }
 			st := r.stability(s.t, s.p, f.z, nil, rand.New(rand.NewPCG(1, 2)), 3, comps)
 			unstable := st.min.tpd < campTPD
 			if res.Phases == 1 {
