@@ -32,7 +32,22 @@ type Cell struct {
 	hasK      bool
 	z         []float64
 	singles   int // single-phase flashes so far (pureEvery)
+	// The last state the stability test found one phase (stableNear).
+	zs     []float64
+	ps     float64
+	stable bool
 }
+
+// stableNear: a cell's single-phase contents within this relative
+// distance, in pressure and in every mole fraction, of the last contents
+// the full stability test found stable are taken as one phase without the
+// test (common practice, no published source). A reservoir model's
+// pressure searches and a forecast's plateau flash each cell at nearly the
+// same state many times over (a gas-cycling forecast about six times a
+// substep, the states within 1e-4 of each other); a split missed so lies
+// within 1e-3 of the edge of stability, where the liquid is a trace, and
+// is found as soon as the contents move on.
+const stableNear = 1e-3
 
 // pureEvery: a cell's single-phase flashes run the stability test's
 // pure-component trials once in this many (common practice, no published
@@ -50,7 +65,7 @@ func NewCell(fl *eos.Fluid, t, v0, p0, c float64, s *eos.Settings) (*Cell, error
 	n := fl.N()
 	f := eos.NewFlasher(fl, s)
 	f.NameSinglePhases(false) // the cell wants volumes, not names: no critical point for every new composition
-	return &Cell{fl: fl, t: t, v0: v0, p0: p0, c: c, f: f, k: make([]float64, n), z: make([]float64, n)}, nil
+	return &Cell{fl: fl, t: t, v0: v0, p0: p0, c: c, f: f, k: make([]float64, n), z: make([]float64, n), zs: make([]float64, n)}, nil
 }
 
 // PoreVolume is the cell's pore volume at p, m³.
@@ -84,17 +99,27 @@ func (c *Cell) flashInto(p float64, n []float64) (total, vol float64, err error)
 	for i, v := range n {
 		c.z[i] = v / total
 	}
-	c.f.PureTrials(c.singles%pureEvery == 0) // also for FlashFrom's fall-back on a full flash
-	if c.hasK {
+	pure := c.singles%pureEvery == 0
+	c.f.PureTrials(pure) // also for FlashFrom's fall-back on a full flash
+	switch {
+	case c.hasK:
 		err = c.f.FlashFrom(&c.res, c.t, p, c.z, c.k)
-	} else {
+	case !pure && c.nearStable(p):
+		err = c.f.OnePhase(&c.res, c.t, p, c.z)
+	default:
 		err = c.f.Flash(&c.res, c.t, p, c.z)
-	}
-	if err == nil && c.res.Phases == 1 {
-		c.singles++
+		if err == nil && c.res.Phases == 1 {
+			c.stable, c.ps = true, p
+			copy(c.zs, c.z)
+		}
 	}
 	if err != nil {
 		return 0, 0, err
+	}
+	if c.res.Phases == 1 {
+		c.singles++
+	} else {
+		c.stable = false
 	}
 	c.hasK = c.res.Phases == 2
 	if c.hasK {
@@ -111,6 +136,20 @@ func (c *Cell) flashInto(p float64, n []float64) (total, vol float64, err error)
 		vol = total * c.res.V.V // one phase: L and V hold its properties alike
 	}
 	return total, vol, nil
+}
+
+// nearStable reports whether the contents c.z at p are within stableNear
+// of the last ones the stability test found one phase.
+func (c *Cell) nearStable(p float64) bool {
+	if !c.stable || math.Abs(p-c.ps) > stableNear*c.ps {
+		return false
+	}
+	for i, v := range c.z {
+		if math.Abs(v-c.zs[i]) > stableNear*c.zs[i] {
+			return false
+		}
+	}
+	return true
 }
 
 // Flash flashes the moles n at p.

@@ -127,6 +127,21 @@ func (f *Flasher) Flash(dst *FlashResult, t, p float64, z []float64) error {
 	return nil
 }
 
+// OnePhase writes into dst feed z at t (K) and p (Pa) as one phase, as
+// Flash does for a feed it finds stable, without the stability test: for a
+// caller that knows the feed stable, such as a reservoir cell flashed again
+// next to a state just found stable (cvd.Cell). Iter is 0.
+func (f *Flasher) OnePhase(dst *FlashResult, t, p float64, z []float64) error {
+	w := f.w
+	if err := f.begin(dst, t, p, z); err != nil {
+		return err
+	}
+	w.fl.setT(&w.ts, t)
+	w.prepareFeed(p, z)
+	w.single(dst, t, p, z, 0)
+	return nil
+}
+
 // begin checks the arguments of a flash and sizes dst.
 func (f *Flasher) begin(dst *FlashResult, t, p float64, z []float64) error {
 	w := f.w
