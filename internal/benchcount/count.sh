@@ -66,10 +66,12 @@ go test -c -o "$dir/bench.test" "$pkg"
 # total N runs the benchmark for N iterations under callgrind and prints the
 # program's instruction total.
 total() {
-	GODEBUG=asyncpreemptoff=1 GOMAXPROCS=1 valgrind --tool=callgrind \
+	# in the package's directory, as go test runs it: benchmarks read
+	# files by paths relative to it
+	(cd "$pkg" && GODEBUG=asyncpreemptoff=1 GOMAXPROCS=1 valgrind --tool=callgrind \
 		--callgrind-out-file="$dir/cg.$1" "$dir/bench.test" \
 		-test.run '^$' -test.bench "^Benchmark$bench" -test.benchtime "${1}x" \
-		>"$dir/out.$1" 2>"$dir/valgrind.$1" || {
+		>"$dir/out.$1" 2>"$dir/valgrind.$1") || {
 		echo "$0: the benchmark failed under valgrind ($1 iterations):" >&2
 		cat "$dir/out.$1" >&2
 		tail -n 20 "$dir/valgrind.$1" >&2
