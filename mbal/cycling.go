@@ -66,12 +66,14 @@ type CyclingModel struct {
 	lastDropout float64
 	dew         float64
 	init        ReservoirState
-	// The last withdrawal from a state: the state, the moles withdrawn and
-	// the injection, and the common pressure found. The plateau advances
-	// one state several times with nearly the same withdrawal; the search
-	// of each after the first starts from the last one's pressure.
-	lastSt                 *cyclingState
-	lastDn, lastInj, lastP float64
+	// The last withdrawal from a state: the state, the moles withdrawn, the
+	// bought gas, the moles injected in all, and the common pressure found
+	// with the moles the producers gave there. The plateau advances one
+	// state several times with nearly the same withdrawal; the search of
+	// each after the first starts from the last one's pressure.
+	lastSt                       *cyclingState
+	lastInj, lastInjMoles, lastP float64
+	lastG, lastSlope             float64
 }
 
 // cyclingState is what a ReservoirState of a CyclingModel keeps.
@@ -88,8 +90,11 @@ type cyclingState struct {
 	// that left through the producers and entered through the injectors.
 	produced, injected []float64
 	// slope is the produced moles per Pa of the last withdrawal's pressure
-	// search (negative), the next one's first guess.
-	slope float64
+	// search (negative), the next one's first guess; give the moles the
+	// producers gave at the pressure the withdrawal started from, per
+	// mole injected, as that slope puts them (at an unchanged pressure the
+	// injected gas pushes out about its own volume of reservoir gas).
+	slope, give float64
 	// gas is the composition of each cell's mobile phase at the end of the
 	// last withdrawal: with the end composition of the next, the
 	// trapezoidal rule for what leaves the cell over it.
@@ -221,17 +226,29 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 			total += v
 		}
 	}
-	// The start of the secant: at the present pressure the cells give out
+	// The start of the search: at the present pressure the cells give out
 	// about what is injected; the slope of the produced moles against
 	// pressure is the last withdrawal's, or a gas's, −n/p.
 	p1, g1 := s.P, injMoles
 	slope := st.slope
-	if !(slope < 0) {
+	known := slope < 0 // the last search's slope, between two pressures it ran
+	if !known {
 		slope = -total / s.P
 	}
 	p2 := p1 + (dn-g1)/slope
-	if m.lastSt == st && m.lastInj == inject && slope < 0 {
-		p2 = m.lastP + (dn-m.lastDn)/slope
+	switch {
+	case known && m.lastSt == st && m.lastInj == inject:
+		// The same state again (the plateau's Newton step on the
+		// withdrawal): at the last pressure the producers gave lastG, and
+		// give about as many moles more as this withdrawal's returned gas
+		// adds to the injection.
+		if m.lastSlope < 0 {
+			slope = m.lastSlope // that search's, from this state
+		}
+		p2 = m.lastP + (dn-m.lastG-injMoles+m.lastInjMoles)/slope
+	case known && st.give > 0:
+		g1 = st.give * injMoles
+		p2 = p1 + (dn-g1)/slope
 	}
 	if p2 <= 0 {
 		p2 = p1 / 2
@@ -241,6 +258,9 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 	var out []float64
 	var g2 float64
 	exhausted := false
+	// the runs so far, for the slope the next search starts with
+	var runP, runG [4]float64
+	runs := 0
 	for it := 0; ; it++ {
 		if p2 < m.pa {
 			p2 = m.pa
@@ -249,6 +269,8 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 		if err != nil {
 			return ReservoirState{}, err
 		}
+		runP[runs%len(runP)], runG[runs%len(runG)] = p2, g2
+		runs++
 		if p2 == m.pa && g2 < dn {
 			exhausted = true // the abandonment pressure before the withdrawal
 			break
@@ -262,8 +284,12 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 		if it == 60 {
 			return ReservoirState{}, fmt.Errorf("%w: the common pressure of the cells after withdrawing %g mol did not converge (%g Pa, off by %g mol)", eos.ErrNoConvergence, dn, p2, g2-dn)
 		}
-		// Secant on the produced moles against pressure.
-		slope = (g2 - g1) / (p2 - p1)
+		// Secant on the produced moles against pressure; the first step,
+		// when the last search's slope is known, takes that slope: the
+		// start (p1, g1) was an estimate, not a run.
+		if it > 0 || !known {
+			slope = (g2 - g1) / (p2 - p1)
+		}
 		p1, g1 = p2, g2
 		if !(slope < 0) || math.IsInf(slope, 0) {
 			p2 = p2 * (1 - 1e-3)
@@ -277,11 +303,35 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 	if p2 > maxPressureRise*m.init.P {
 		return ReservoirState{}, fmt.Errorf("%w: the injection raises the reservoir pressure to %.4g Pa, %.0f %% above the initial: inject less (the bought gas)", ErrForecast, p2, 100*(p2/m.init.P-1))
 	}
-	m.lastSt, m.lastDn, m.lastInj, m.lastP = st, dn, inject, p2
+	m.lastSt, m.lastInj, m.lastInjMoles, m.lastP, m.lastG = st, inject, injMoles, p2, g2
 	ns, err := m.after(s, st, moles, out, inj, p2, blowdown, exhausted)
 	if err == nil {
+		// The next search's slope: the secant between the last run and the
+		// latest before it whose produced moles differ from the last's by
+		// 1e-5 of the withdrawal or more (a last step so short that the
+		// flashes' noise, about 1e-9 of it, would show in the slope is
+		// passed over), else the farthest from it in pressure.
+		last := (runs - 1) % len(runP)
+		far := last
+		for j := 1; j < min(runs, len(runP)); j++ {
+			k := (runs - 1 - j) % len(runP)
+			if math.Abs(runP[k]-p2) > math.Abs(runP[far]-p2) {
+				far = k
+			}
+			if math.Abs(runG[k]-g2) >= 1e-5*dn {
+				far = k
+				break
+			}
+		}
+		if far != last {
+			slope = (runG[last] - runG[far]) / (runP[last] - runP[far])
+		}
 		if slope < 0 && !math.IsInf(slope, 0) {
 			ns.x.(*cyclingState).slope = slope
+			m.lastSlope = slope
+		}
+		if injMoles > 0 && !exhausted && slope < 0 && !math.IsInf(slope, 0) {
+			ns.x.(*cyclingState).give = (g2 - slope*(p2-s.P)) / injMoles
 		}
 		ns.x.(*cyclingState).gas = gasEnd
 		ns.x.(*cyclingState).dropout = m.lastDropout
