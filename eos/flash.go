@@ -548,7 +548,12 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 		if triv < 1e-10 {
 			return beta, iter, res, false // collapsed onto the trivial solution
 		}
-		near := accel && it >= 3 && res < 1e-2 || !accel && res < 1e-6 || it >= ssMax
+		// Newton takes over after three substitution steps once the
+		// residual is below 1e-2, or at once below 1e-5: a hot start from
+		// the K-values of a state next to this one (a reservoir cell
+		// flashed again) is then well inside its quadratic basin, where
+		// substitution would take several steps per decade.
+		near := accel && (it >= 3 && res < 1e-2 || res < 1e-5) || !accel && res < 1e-6 || it >= ssMax
 		if near && beta > 0 && beta < 1 {
 			bn, itn, resn, okn := w.newtonSplit(t, p, z, beta)
 			iter += itn
