@@ -32,7 +32,9 @@ type Cell struct {
 	hasK      bool
 	z         []float64
 	singles   int // single-phase flashes so far (pureEvery)
-	// The last state the stability test found one phase (stableNear).
+	// The last state the stability test found one phase (stableNear); zs
+	// is nil in a cell that tests every flash (the depletion cell of a
+	// CVD, cell.go, whose dew point is the laboratory's).
 	zs     []float64
 	ps     float64
 	stable bool
@@ -141,7 +143,7 @@ func (c *Cell) flashInto(p float64, n []float64) (total, vol float64, err error)
 // nearStable reports whether the contents c.z at p are within stableNear
 // of the last ones the stability test found one phase.
 func (c *Cell) nearStable(p float64) bool {
-	if !c.stable || math.Abs(p-c.ps) > stableNear*c.ps {
+	if !c.stable || c.zs == nil || math.Abs(p-c.ps) > stableNear*c.ps {
 		return false
 	}
 	for i, v := range c.z {

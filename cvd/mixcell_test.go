@@ -88,3 +88,31 @@ func TestCellNearStable(t *testing.T) {
 		t.Logf("%s: %d states one phase in the cell and two in the fresh flash", c.Name, skipped)
 	}
 }
+
+// TestDepletionCellTestsEveryFlash: the depletion cell of a CVD runs the
+// full stability test at every flash, also next to a state it found one
+// phase: 1e-4 below the dew point (from the saturation search) it splits,
+// where a reservoir cell would still take its contents as one phase.
+func TestDepletionCellTestsEveryFlash(t *testing.T) {
+	c, err := testfluid.Condensate10()
+	if err != nil {
+		t.Fatal(err)
+	}
+	sat, err := eos.NewSaturator(c.Fluid, nil).Upper(c.T, c.Z)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dc := newCell(c.Fluid, c.T, &DepletionOptions{})
+	n := make([]float64, len(c.Z))
+	for i, v := range c.Z {
+		n[i] = 1000 * v
+	}
+	for k, p := range []float64{sat.P * (1 + 1e-4), sat.P * (1 - 1e-4)} {
+		if _, _, err := dc.flash(p, n); err != nil {
+			t.Fatal(err)
+		}
+		if want := 1 + k; dc.res.Phases != want {
+			t.Errorf("at %.8g Pa (dew point %.8g Pa): %d phases, want %d", p, sat.P, dc.res.Phases, want)
+		}
+	}
+}
