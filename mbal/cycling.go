@@ -90,11 +90,8 @@ type cyclingState struct {
 	// that left through the producers and entered through the injectors.
 	produced, injected []float64
 	// slope is the produced moles per Pa of the last withdrawal's pressure
-	// search (negative), the next one's first guess; give the moles the
-	// producers gave at the pressure the withdrawal started from, per
-	// mole injected, as that slope puts them (at an unchanged pressure the
-	// injected gas pushes out about its own volume of reservoir gas).
-	slope, give float64
+	// search (negative), the next one's first guess.
+	slope float64
 	// gas is the composition of each cell's mobile phase at the end of the
 	// last withdrawal: with the end composition of the next, the
 	// trapezoidal rule for what leaves the cell over it.
@@ -246,9 +243,6 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 			slope = m.lastSlope // that search's, from this state
 		}
 		p2 = m.lastP + (dn-m.lastG-injMoles+m.lastInjMoles)/slope
-	case known && st.give > 0:
-		g1 = st.give * injMoles
-		p2 = p1 + (dn-g1)/slope
 	}
 	if p2 <= 0 {
 		p2 = p1 / 2
@@ -326,12 +320,10 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 		if far != last {
 			slope = (runG[last] - runG[far]) / (runP[last] - runP[far])
 		}
+		m.lastSlope = 0
 		if slope < 0 && !math.IsInf(slope, 0) {
 			ns.x.(*cyclingState).slope = slope
 			m.lastSlope = slope
-		}
-		if injMoles > 0 && !exhausted && slope < 0 && !math.IsInf(slope, 0) {
-			ns.x.(*cyclingState).give = (g2 - slope*(p2-s.P)) / injMoles
 		}
 		ns.x.(*cyclingState).gas = gasEnd
 		ns.x.(*cyclingState).dropout = m.lastDropout
