@@ -184,7 +184,10 @@ func (f *Flasher) FlashFrom(dst *FlashResult, t, p float64, z, k []float64) erro
 	w.evals = 0
 	beta, iter, res, ok := w.split(t, p, z, true)
 	if ok && beta > 0 && beta < 1 {
-		g := w.splitGibbs(z, beta)
+		g := w.splitG // Newton's, when it converged the split
+		if math.IsNaN(g) {
+			g = w.splitGibbs(z, beta)
+		}
 		w.fl.evalPhase(&w.feed, &w.ts, p, z, rootMinG, 0)
 		gz := 0.0
 		for i, zi := range z {
@@ -506,6 +509,7 @@ func (w *work) split(t, p float64, z []float64, accel bool) (beta float64, iter 
 		ssMax = w.max
 	}
 	resJump := math.Inf(1) // residual before the last GDEM jump
+	w.splitG = math.NaN()
 	for it := 1; it <= w.max; it++ {
 		iter = it
 		if w.evals++; w.evals > flashEvals {
@@ -658,6 +662,7 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 					w.lnK[i] = math.Log(w.y[i] / w.x[i])
 				}
 			}
+			w.splitG = G
 			return V, it, res, true
 		}
 		// Where the residual lies in a trace component whose share of G is

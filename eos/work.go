@@ -16,7 +16,10 @@ type work struct {
 	// flashTrivialNear (the flash and the saturation search's scan), not
 	// only when polished (the saturation search's refinement).
 	earlyTrivial bool
-	ts           tstate
+	// splitG is the Gibbs energy of the split that Newton's method last
+	// converged (splitSums), NaN after a split that ended otherwise.
+	splitG float64
+	ts     tstate
 
 	feed, pa, pb phase // feed; liquid (or trial) and vapour phases
 
