@@ -66,11 +66,12 @@ type CyclingModel struct {
 	lastDropout float64
 	dew         float64
 	init        ReservoirState
-	// The last withdrawal from a state: the state, the moles withdrawn, the
-	// bought gas, the moles injected in all, and the common pressure found
-	// with the moles the producers gave there. The plateau advances one
-	// state several times with nearly the same withdrawal; the search of
-	// each after the first starts from the last one's pressure.
+	// The last withdrawal from a state: the state, the bought gas, the
+	// moles injected in all, the common pressure found with the moles the
+	// producers gave there, and the slope its search leaves (0 when none).
+	// The plateau advances one state several times with nearly the same
+	// withdrawal; the search of each after the first starts from the last
+	// one's pressure and slope.
 	lastSt                       *cyclingState
 	lastInj, lastInjMoles, lastP float64
 	lastG, lastSlope             float64
@@ -297,7 +298,7 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 	if p2 > maxPressureRise*m.init.P {
 		return ReservoirState{}, fmt.Errorf("%w: the injection raises the reservoir pressure to %.4g Pa, %.0f %% above the initial: inject less (the bought gas)", ErrForecast, p2, 100*(p2/m.init.P-1))
 	}
-	m.lastSt, m.lastInj, m.lastInjMoles, m.lastP, m.lastG = st, inject, injMoles, p2, g2
+	m.lastSt, m.lastInj, m.lastInjMoles, m.lastP, m.lastG, m.lastSlope = st, inject, injMoles, p2, g2, 0
 	ns, err := m.after(s, st, moles, out, inj, p2, blowdown, exhausted)
 	if err == nil {
 		// The next search's slope: the secant between the last run and the
@@ -320,7 +321,6 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 		if far != last {
 			slope = (runG[last] - runG[far]) / (runP[last] - runP[far])
 		}
-		m.lastSlope = 0
 		if slope < 0 && !math.IsInf(slope, 0) {
 			ns.x.(*cyclingState).slope = slope
 			m.lastSlope = slope
