@@ -12,7 +12,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -37,22 +36,7 @@ func refO9(t *testing.T) *refdata.O9 {
 // and returns its path.
 func o9Variant(t *testing.T, extra string, edits ...string) string {
 	t.Helper()
-	data, err := os.ReadFile(o9Study)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s := string(data)
-	for i := 0; i+1 < len(edits); i += 2 {
-		if n := strings.Count(s, edits[i]); n != 1 {
-			t.Fatalf("o9Variant: %q occurs %d times in %s", edits[i], n, o9Study)
-		}
-		s = strings.Replace(s, edits[i], edits[i+1], 1)
-	}
-	path := filepath.Join(t.TempDir(), "o9-variant.toml")
-	if err := os.WriteFile(path, []byte(s+extra), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	return path
+	return writeStudy(t, editStudy(t, o9Study, string(mustRead(t, o9Study)), edits...)+extra)
 }
 
 // rows returns doc[key] as row objects.

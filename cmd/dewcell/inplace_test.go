@@ -29,23 +29,20 @@ const (
 // extra appended, and returns its path.
 func exampleVariant(t *testing.T, extra string, edits ...string) string {
 	t.Helper()
-	data, err := os.ReadFile(exampleStudy)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s := string(data)
+	return writeStudy(t, editStudy(t, exampleStudy, string(mustRead(t, exampleStudy)), edits...)+extra)
+}
+
+// editStudy replaces in s, the text of the study file src, each old string
+// of edits by its new one (pairs; each old must occur once).
+func editStudy(t *testing.T, src, s string, edits ...string) string {
+	t.Helper()
 	for i := 0; i+1 < len(edits); i += 2 {
 		if n := strings.Count(s, edits[i]); n != 1 {
-			t.Fatalf("exampleVariant: %q occurs %d times in %s", edits[i], n, exampleStudy)
+			t.Fatalf("%q occurs %d times in %s", edits[i], n, src)
 		}
 		s = strings.Replace(s, edits[i], edits[i+1], 1)
 	}
-	path := filepath.Join(t.TempDir(), "variant.toml")
-	if err := os.WriteFile(path, []byte(s+extra), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	copyExampleLab(t, s+extra, filepath.Dir(path))
-	return path
+	return s
 }
 
 // copyExampleLab copies the example's laboratory tables into dir when the

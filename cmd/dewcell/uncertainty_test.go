@@ -2,7 +2,6 @@ package main
 
 import (
 	"encoding/csv"
-	"encoding/json"
 	"io"
 	"math"
 	"os"
@@ -23,30 +22,16 @@ const uncertaintyStudy = "testdata/uncertainty.toml"
 
 // withUncertainty writes the test study into a temporary folder with its
 // [uncertainty] section replaced by section ("" for none), after the
-// replacements old → new of edits, and returns its path.
+// replacements old → new of edits (each old must occur once), and returns
+// its path.
 func withUncertainty(t *testing.T, section string, edits ...string) string {
 	t.Helper()
-	data, err := os.ReadFile(uncertaintyStudy)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s := string(data)
+	s := string(mustRead(t, uncertaintyStudy))
 	i := strings.Index(s, "\n[uncertainty]")
 	if i < 0 {
 		t.Fatalf("%s has no [uncertainty]", uncertaintyStudy)
 	}
-	s = s[:i+1] + section
-	for k := 0; k+1 < len(edits); k += 2 {
-		if !strings.Contains(s, edits[k]) {
-			t.Fatalf("%s has no %q", uncertaintyStudy, edits[k])
-		}
-		s = strings.Replace(s, edits[k], edits[k+1], 1)
-	}
-	path := filepath.Join(t.TempDir(), "study.toml")
-	if err := os.WriteFile(path, []byte(s), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	return path
+	return writeStudy(t, editStudy(t, uncertaintyStudy, s[:i+1]+section, edits...))
 }
 
 // readCases reads a --cases-out file: its header and rows.
@@ -97,10 +82,7 @@ seed = 11
 	if csvs[0] != csvs[1] {
 		t.Errorf("the cases differ between 1 and 4 workers:\n%s\n---\n%s", csvs[0], csvs[1])
 	}
-	var doc map[string]any
-	if err := json.Unmarshal([]byte(outs[0]), &doc); err != nil {
-		t.Fatal(err)
-	}
+	doc := decodeJSON(t, outs[0])
 	for _, k := range []string{"condensate_in_place_stb_p90", "condensate_in_place_stb_p50", "condensate_in_place_stb_p10",
 		"condensate_in_place_stb_mean", "condensate_in_place_stb_sd", "wet_gas_in_place_mmscf_p90", "sales_gas_in_place_mmscf_p10"} {
 		if _, ok := doc[k].(float64); !ok {
@@ -265,10 +247,7 @@ seed = 3
 	if len(failed) == 0 || len(failed) == len(rows) {
 		t.Fatalf("%d of %d cases failed; the test needs some of each", len(failed), len(rows))
 	}
-	var doc map[string]any
-	if err := json.Unmarshal([]byte(out), &doc); err != nil {
-		t.Fatal(err)
-	}
+	doc := decodeJSON(t, out)
 	if n := doc["cases_failed"].(float64); int(n) != len(failed) {
 		t.Errorf("cases_failed %v, want %d", n, len(failed))
 	}
@@ -311,24 +290,10 @@ seed = 5
 	if err := os.WriteFile(path, []byte(s), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	code, out, errs := dewcell("uncertainty", path, "--format", "json")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
-	var doc map[string]any
-	if err := json.Unmarshal([]byte(out), &doc); err != nil {
-		t.Fatal(err)
-	}
+	doc := runJSON(t, "uncertainty", path)
 	// G0 from the inplace command on the same study (its [uncertainty] is
 	// not read by inplace).
-	code, ipOut, errs := dewcell("inplace", path, "--format", "json")
-	if code != 0 {
-		t.Fatalf("inplace: exit %d: %s", code, errs)
-	}
-	var ip map[string]any
-	if err := json.Unmarshal([]byte(ipOut), &ip); err != nil {
-		t.Fatal(err)
-	}
+	ip := runJSON(t, "inplace", path)
 	sigma := math.Hypot(math.Log(ratioA), math.Log(ratioH)) / uncertain.Z90
 	// The standard deviation of ln of a sample p-quantile of n values is
 	// about σ sqrt(p(1−p)/n)/φ(z_p) (the asymptotic normality of sample
