@@ -634,7 +634,6 @@ func (w *work) gdem() bool {
 // is added, and each step is cut back until the Gibbs energy falls (Armijo).
 func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, int, float64, bool) {
 	n := w.n
-	fl := w.fl
 	// For each component the unknown is its amount in the phase that holds
 	// less of it (sign +1: vapour, −1: liquid), the other phase taking the
 	// rest: z_i − u_i then loses no digits, whereas a trace of a heavy
@@ -655,6 +654,7 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 	// them, without evaluating them again.
 	G, res, V, L := w.splitGradient(z)
 	best, stalled := res, 0 // lowest residual so far, iterations without progress on it
+	chord := false          // whether the next step takes the last Hessian's factor
 	for it := 1; it <= 50; it++ {
 		if res < w.tol {
 			for i := 0; i < n; i++ {
@@ -674,36 +674,18 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 		} else if stalled++; stalled == 6 {
 			return V, it, res, false
 		}
-		fl.derivs(&w.pb, &w.ts, w.y, dN)
-		fl.derivs(&w.pa, &w.ts, w.x, dN)
-		// The Hessian in the unknowns, S H S with S = diag(sg), symmetric:
-		// the lower triangle, mirrored. shiftedSolve turns the right-hand
-		// side −S g in w.g into the step.
-		H := w.H[n*n : 2*n*n]
-		c, iV, iL := 1/(V*L), 1/V, 1/L
-		for i := 0; i < n; i++ {
-			dv, dl := w.pb.dn[i*n:i*n+i+1], w.pa.dn[i*n:i*n+i+1]
-			si := sg[i]
-			for j := range dv {
-				h := (-c + dv[j]*iV + dl[j]*iL) * (si * sg[j])
-				H[i*n+j], H[j*n+i] = h, h
+		if chord {
+			// The chord step: the last Hessian's factor, kept, on the new
+			// gradient (see below).
+			for i := 0; i < n; i++ {
+				w.g[i] = -sg[i] * w.r[i]
 			}
-			if z[i] > 0 {
-				H[i*n+i] += c * z[i] / (w.x[i] * w.y[i])
-			}
-			w.g[i] = -si * w.r[i]
-		}
-		for i := 0; i < n; i++ { // an absent component: an identity row and column
-			if z[i] == 0 {
-				for j := 0; j < n; j++ {
-					H[i*n+j], H[j*n+i] = 0, 0
-				}
-				H[i*n+i] = 1
-			}
-		}
-		if !w.newtonStep(H, n, true) {
+			cholSubst(w.H[:n*n], n, w.g)
+		} else if !w.newtonHessian(z, V, L) {
 			return V, it, res, false
 		}
+		fresh := !chord
+		chord = false
 		slope := 0.0 // directional derivative of G along the step
 		for i := 0; i < n; i++ {
 			slope += sg[i] * w.r[i] * w.g[i]
@@ -745,6 +727,13 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 			flat := Gn <= G+1e-13*(1+math.Abs(G))
 			if Gn <= G+1e-4*step*slope || flat && (res < 1e-6 || resn < res) {
 				slow := resn > 0.5*res
+				// A full Newton step from the Cholesky factor that cut the
+				// residual below 1e-6 and by a thousand or more is in the
+				// quadratic basin: the next step takes the same factor
+				// (the chord method), whose error is the product of the
+				// last two residuals instead of the square of the last,
+				// without the derivatives and the factorisation.
+				chord = cut == 0 && step == 1 && resn < 1e-6 && (fresh && w.factored && resn < 1e-3*res || !fresh && resn < 1e-2*res)
 				G, res, V, L = Gn, resn, Vn, Ln
 				accepted = true
 				if cut == 0 && step == 1 && slow && res > w.tol {
@@ -763,6 +752,42 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 		}
 	}
 	return V, 50, res, false
+}
+
+// newtonHessian is a full Newton step of newtonSplit from the split in w.v,
+// w.l (phases w.y, w.x evaluated in w.pb, w.pa, gradient w.r, totals V and
+// L): the step into w.g, false when none is found.
+func (w *work) newtonHessian(z []float64, V, L float64) bool {
+	n := w.n
+	sg := w.sgn
+	w.fl.derivs(&w.pb, &w.ts, w.y, dN)
+	w.fl.derivs(&w.pa, &w.ts, w.x, dN)
+	// The Hessian in the unknowns, S H S with S = diag(sg), symmetric:
+	// the lower triangle, mirrored. newtonStep turns the right-hand side
+	// −S g in w.g into the step.
+	H := w.H[n*n : 2*n*n]
+	c, iV, iL := 1/(V*L), 1/V, 1/L
+	for i := 0; i < n; i++ {
+		dv, dl := w.pb.dn[i*n:i*n+i+1], w.pa.dn[i*n:i*n+i+1]
+		si := sg[i]
+		for j := range dv {
+			h := (-c + dv[j]*iV + dl[j]*iL) * (si * sg[j])
+			H[i*n+j], H[j*n+i] = h, h
+		}
+		if z[i] > 0 {
+			H[i*n+i] += c * z[i] / (w.x[i] * w.y[i])
+		}
+		w.g[i] = -si * w.r[i]
+	}
+	for i := 0; i < n; i++ { // an absent component: an identity row and column
+		if z[i] == 0 {
+			for j := 0; j < n; j++ {
+				H[i*n+j], H[j*n+i] = 0, 0
+			}
+			H[i*n+i] = 1
+		}
+	}
+	return w.newtonStep(H, n, true)
 }
 
 // splitExtend goes on from the accepted step along the Newton direction

@@ -75,6 +75,15 @@ func cholSolve(a []float64, n int, b []float64) bool {
 			ri[j] = s / d
 		}
 	}
+	cholSubst(a, n, b)
+	return true
+}
+
+// cholSubst solves L·Lᵀ·x = b with the factor L that cholSolve left in the
+// lower triangle of a (n×n row-major), overwriting b with x.
+func cholSubst(a []float64, n int, b []float64) {
+	a = a[:n*n]
+	b = b[:n]
 	for i := 0; i < n; i++ {
 		ri := a[i*n : i*n+i+1]
 		s := b[i]
@@ -90,5 +99,4 @@ func cholSolve(a []float64, n int, b []float64) bool {
 		}
 		b[i] = s / a[i*n+i]
 	}
-	return true
 }

@@ -307,7 +307,8 @@ func (w *work) newtonStep(H []float64, n int, descent bool) bool {
 	a := w.H[:n*n]
 	copy(w.s, w.g)
 	copy(a, H)
-	if cholSolve(a, n, w.g) {
+	w.factored = cholSolve(a, n, w.g)
+	if w.factored {
 		return true
 	}
 	if descent {

@@ -46,7 +46,10 @@ type work struct {
 	v, l             []float64 // flash Newton: vapour and liquid mole numbers
 	sgn              []float64 // flash Newton: +1 where v_i is the unknown, −1 where l_i is
 	H                []float64 // (n+2)×(n+2) matrix storage
-	rhs              []float64 // n+2
+	// factored is whether newtonStep's last step came from the Cholesky
+	// factor of its Hessian as it was, left in H[:n*n].
+	factored bool
+	rhs      []float64 // n+2
 
 	crit critCache // for naming single phases
 
