@@ -253,9 +253,7 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 	var out []float64
 	var g2 float64
 	exhausted := false
-	// the runs so far, for the slope the next search starts with
-	var runP, runG [4]float64
-	runs := 0
+	var runs searchRuns // for the slope the next search starts with
 	for it := 0; ; it++ {
 		if p2 < m.pa {
 			p2 = m.pa
@@ -264,8 +262,7 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 		if err != nil {
 			return ReservoirState{}, err
 		}
-		runP[runs%len(runP)], runG[runs%len(runG)] = p2, g2
-		runs++
+		runs.add(p2, g2)
 		if p2 == m.pa && g2 < dn {
 			exhausted = true // the abandonment pressure before the withdrawal
 			break
@@ -301,29 +298,9 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 	m.lastSt, m.lastInj, m.lastInjMoles, m.lastP, m.lastG, m.lastSlope = st, inject, injMoles, p2, g2, 0
 	ns, err := m.after(s, st, moles, out, inj, p2, blowdown, exhausted)
 	if err == nil {
-		// The next search's slope: the secant between the last run and the
-		// latest before it whose produced moles differ from the last's by
-		// 1e-5 of the withdrawal or more (a last step so short that the
-		// flashes' noise, about 1e-9 of it, would show in the slope is
-		// passed over), else the farthest from it in pressure.
-		last := (runs - 1) % len(runP)
-		far := last
-		for j := 1; j < min(runs, len(runP)); j++ {
-			k := (runs - 1 - j) % len(runP)
-			if math.Abs(runP[k]-p2) > math.Abs(runP[far]-p2) {
-				far = k
-			}
-			if math.Abs(runG[k]-g2) >= 1e-5*dn {
-				far = k
-				break
-			}
-		}
-		if far != last {
-			slope = (runG[last] - runG[far]) / (runP[last] - runP[far])
-		}
-		if slope < 0 && !math.IsInf(slope, 0) {
-			ns.x.(*cyclingState).slope = slope
-			m.lastSlope = slope
+		if sl, ok := runs.slope(dn, slope); ok { // the next search's
+			ns.x.(*cyclingState).slope = sl
+			m.lastSlope = sl
 		}
 		ns.x.(*cyclingState).gas = gasEnd
 		ns.x.(*cyclingState).dropout = m.lastDropout

@@ -46,6 +46,13 @@ type WaterModel struct {
 	hcpv0, pi, ce     float64
 	vsc, pa, dew      float64
 	init              ReservoirState
+	// The last withdrawal: the state it was from, the moles withdrawn, the
+	// pressure found with the moles the parts gave there, and the slope
+	// its search leaves (0 when none). The forecast advances one state
+	// several times with nearly the same withdrawal; the search of each
+	// after the first starts from the last one's pressure and slope.
+	lastSt                          *waterState
+	lastDn, lastP, lastG, lastSlope float64
 }
 
 // waterState is what a ReservoirState of a WaterModel keeps.
@@ -274,15 +281,43 @@ func (m *WaterModel) Advance(s ReservoirState, withdraw, inject float64) (Reserv
 		}
 		return tr, nil
 	}
-	p1, g1 := s.P, 0.0
+	// The start of the search: at the present pressure the parts give out
+	// what the injected water displaces, the voidage ratio times the
+	// withdrawal (nothing once flooded out); the slope of the produced
+	// moles against pressure is the last withdrawal's, or a gas's, −n/p.
+	displaced := m.o.Voidage * dn
+	if st.flooded {
+		displaced = 0
+	}
+	p1, g1 := s.P, displaced
+	// Without injection the start is a point of the curve (at its own
+	// pressure a state gives out nothing), so the first secant may take
+	// it; with injection it is an estimate, and the first step takes the
+	// known slope.
+	exact := st.flooded
 	slope := st.slope
-	if !(slope < 0) {
+	known := slope < 0 // the last search's, between two pressures it ran
+	if !known {
 		slope = -total / s.P
 	}
 	p2 := p1 + (dn-g1)/slope
+	if known && m.lastSt == st {
+		// The same state again (the plateau's Newton step on the
+		// withdrawal, the midpoint rule's full step after its half): at
+		// the last pressure the parts gave lastG for a withdrawal of
+		// lastDn, and give about the voidage ratio times the change in
+		// the withdrawal more.
+		if m.lastSlope < 0 {
+			slope = m.lastSlope // that search's, from this state
+		}
+		p2 = m.lastP + (dn-m.lastG-(displaced/dn)*(dn-m.lastDn))/slope
+		exact = false
+	}
 	var tr waterTrial
 	var err error
 	exhausted := false
+	var runs searchRuns // for the next search's slope
+	g2 := 0.0
 	for it := 0; ; it++ {
 		if p2 < m.pa {
 			p2 = m.pa
@@ -293,7 +328,8 @@ func (m *WaterModel) Advance(s ReservoirState, withdraw, inject float64) (Reserv
 		if tr, err = run(p2); err != nil {
 			return ReservoirState{}, err
 		}
-		g2 := tr.produced
+		g2 = tr.produced
+		runs.add(p2, g2)
 		if p2 == m.pa && g2 < dn {
 			exhausted = true
 			break
@@ -304,7 +340,10 @@ func (m *WaterModel) Advance(s ReservoirState, withdraw, inject float64) (Reserv
 		if it == 60 {
 			return ReservoirState{}, fmt.Errorf("%w: the pressure of the water injection after withdrawing %g mol did not converge (%g Pa, off by %g mol)", eos.ErrNoConvergence, dn, p2, g2-dn)
 		}
-		sl := (g2 - g1) / (p2 - p1)
+		sl := slope
+		if it > 0 || exact || !known {
+			sl = (g2 - g1) / (p2 - p1)
+		}
 		p1, g1 = p2, g2
 		if !(sl < 0) || math.IsInf(sl, 0) {
 			p2 *= 1 - 1e-4
@@ -315,6 +354,10 @@ func (m *WaterModel) Advance(s ReservoirState, withdraw, inject float64) (Reserv
 		if p2 <= 0 {
 			p2 = p1 / 2
 		}
+	}
+	m.lastSt, m.lastDn, m.lastP, m.lastG, m.lastSlope = st, dn, p2, g2, 0
+	if sl, ok := runs.slope(dn, slope); ok { // the next search's
+		slope, m.lastSlope = sl, sl
 	}
 	next := &waterState{ahead: tr.ahead, behind: tr.behind, un: tr.un, water: tr.water, flooded: tr.flooded, produced: append([]float64(nil), st.produced...), slope: slope, vm: vm}
 	ns := ReservoirState{P: p2, Cum: s.Cum, OutletPerWet: s.OutletPerWet, Exhausted: exhausted, x: next}
