@@ -191,6 +191,17 @@ func (m *CyclingModel) Advance(s ReservoirState, withdraw, inject float64) (Rese
 // returning the plant's gas while cycling lasts, and injecting inject
 // standard m³ more (bought gas of the returned gas's composition).
 func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at time.Time) (ReservoirState, error) {
+	return m.advance(s, withdraw, inject, at, true)
+}
+
+// advancePressure is AdvanceAt for the pressure alone (pressureModel).
+func (m *CyclingModel) advancePressure(s ReservoirState, withdraw, inject float64, at time.Time) (ReservoirState, error) {
+	return m.advance(s, withdraw, inject, at, false)
+}
+
+// advance is AdvanceAt, with the produced stream taken through the
+// separators and the plant when streams is true.
+func (m *CyclingModel) advance(s ReservoirState, withdraw, inject float64, at time.Time, streams bool) (ReservoirState, error) {
 	st, ok := s.x.(*cyclingState)
 	if !ok {
 		return ReservoirState{}, fmt.Errorf("%w: a state of another model", ErrForecast)
@@ -296,7 +307,7 @@ func (m *CyclingModel) AdvanceAt(s ReservoirState, withdraw, inject float64, at 
 		return ReservoirState{}, fmt.Errorf("%w: the injection raises the reservoir pressure to %.4g Pa, %.0f %% above the initial: inject less (the bought gas)", ErrForecast, p2, 100*(p2/m.init.P-1))
 	}
 	m.lastSt, m.lastInj, m.lastInjMoles, m.lastP, m.lastG, m.lastSlope = st, inject, injMoles, p2, g2, 0
-	ns, err := m.after(s, st, moles, out, inj, p2, blowdown, exhausted)
+	ns, err := m.after(s, st, moles, out, inj, p2, blowdown, exhausted, streams)
 	if err == nil {
 		if sl, ok := runs.slope(dn, slope); ok { // the next search's
 			ns.x.(*cyclingState).slope = sl
@@ -384,8 +395,10 @@ func (m *CyclingModel) chain(n, gas0 [][]float64, inj []float64, p float64) (flo
 	return total, moles, out, gasEnd, nil
 }
 
-// after is the state once the producers have given out (moles) at p.
-func (m *CyclingModel) after(s ReservoirState, st *cyclingState, moles [][]float64, out, inj []float64, p float64, blowdown, exhausted bool) (ReservoirState, error) {
+// after is the state once the producers have given out (moles) at p; the
+// produced stream goes through the separators and the plant when streams
+// is true.
+func (m *CyclingModel) after(s ReservoirState, st *cyclingState, moles [][]float64, out, inj []float64, p float64, blowdown, exhausted, streams bool) (ReservoirState, error) {
 	dn, injMoles := 0.0, 0.0
 	for _, v := range out {
 		dn += v
@@ -400,7 +413,7 @@ func (m *CyclingModel) after(s ReservoirState, st *cyclingState, moles [][]float
 		next.injected[i] += inj[i]
 	}
 	ns := ReservoirState{P: p, Cum: s.Cum, OutletPerWet: s.OutletPerWet, Exhausted: exhausted, x: next}
-	if dn > 0 {
+	if dn > 0 && streams {
 		z := make([]float64, m.n)
 		for i, v := range out {
 			z[i] = v / dn

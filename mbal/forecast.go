@@ -119,6 +119,16 @@ type TimedModel interface {
 	AdvanceAt(s ReservoirState, withdraw, inject float64, at time.Time) (ReservoirState, error)
 }
 
+// A pressureModel can advance a state for its pressure alone: the state it
+// returns has the pressure, the exhaustion and the model's own contents of
+// AdvanceAt's, but the cumulative volumes and the outlet per wet gas of s
+// (the produced stream is not taken through the separators and the plant).
+// The midpoint rule's half step needs no more where the wells, not the
+// plateau, set the rate.
+type pressureModel interface {
+	advancePressure(s ReservoirState, withdraw, inject float64, at time.Time) (ReservoirState, error)
+}
+
 // A GasProcessor takes moles of separator gas of composition gas (mole
 // fractions over the fluid's components) through the gas plant.
 type GasProcessor func(gas []float64, moles float64) (Processed, error)
@@ -509,6 +519,33 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 		return m.Advance(s, math.Max(dw, 0), inj)
 	}
 	advance := func(s ReservoirState, dw float64) (ReservoirState, error) { return advanceFor(s, dw, sub) }
+	// halfStep is the midpoint rule's half of a substep of sec seconds from
+	// s at rate q1 with n wells, and the rate there. Where the model can
+	// advance for the pressure alone and the wells there deliver less than
+	// the plateau's withdrawal could be at any outlet per wet gas up to
+	// max(1, 1.1 × the start's) (the plant's outlet is at most its inlet,
+	// and the stream's yield does not change by a tenth in half a substep),
+	// the wells set the rate without the stream's yield.
+	halfStep := func(s ReservoirState, q1, sec float64, n int) (ReservoirState, float64, error) {
+		if pm, ok := m.(pressureModel); ok {
+			s2, err := pm.advancePressure(s, math.Max(q1*sec/2, 0), o.Inject*sec/2, now)
+			if err != nil {
+				return s2, 0, err
+			}
+			if s2.Exhausted {
+				return s2, 0, nil
+			}
+			if deliv := fieldDeliverability(s2, n); deliv < o.Plateau/math.Max(1, 1.1*s.OutletPerWet) {
+				return s2, deliv, nil
+			}
+		}
+		s2, err := advanceFor(s, q1*sec/2, sec/2)
+		if err != nil {
+			return s2, 0, err
+		}
+		q2, _, _ := rate(s2, n)
+		return s2, q2, nil
+	}
 	year := func(t time.Time) *ForecastYear {
 		if n := len(f.Years); n > 0 && f.Years[n-1].Year == t.Year() {
 			return &f.Years[n-1]
@@ -552,11 +589,10 @@ func RunForecast(m ReservoirModel, wells Wells, o ForecastOptions) (*Forecast, e
 				}
 			}
 			if !held && o.Midpoint {
-				s2, err := advanceFor(s, q1*sec/2, sec/2)
+				s2, q2, err := halfStep(s, q1, sec, n)
 				if err != nil {
 					return nil, err
 				}
-				q2, _, _ := rate(s2, n)
 				dw = sec * q2
 				if s2.Exhausted {
 					dw = sec * q1 // the model ends within the substep: withdraw up to its end

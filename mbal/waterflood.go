@@ -3,6 +3,7 @@ package mbal
 import (
 	"fmt"
 	"math"
+	"time"
 
 	"dewcell/cvd"
 	"dewcell/eos"
@@ -234,6 +235,17 @@ func (m *WaterModel) trial(st *waterState, p, dw float64) (waterTrial, error) {
 // Advance withdraws withdraw standard m³ of wet gas from s; a water
 // injection takes no gas.
 func (m *WaterModel) Advance(s ReservoirState, withdraw, inject float64) (ReservoirState, error) {
+	return m.advance(s, withdraw, inject, true)
+}
+
+// advancePressure is Advance for the pressure alone (pressureModel).
+func (m *WaterModel) advancePressure(s ReservoirState, withdraw, inject float64, _ time.Time) (ReservoirState, error) {
+	return m.advance(s, withdraw, inject, false)
+}
+
+// advance is Advance, with the produced stream taken through the
+// separators and the plant when streams is true.
+func (m *WaterModel) advance(s ReservoirState, withdraw, inject float64, streams bool) (ReservoirState, error) {
 	st, ok := s.x.(*waterState)
 	if !ok {
 		return ReservoirState{}, fmt.Errorf("%w: a state of another model", ErrForecast)
@@ -361,10 +373,12 @@ func (m *WaterModel) Advance(s ReservoirState, withdraw, inject float64) (Reserv
 	}
 	next := &waterState{ahead: tr.ahead, behind: tr.behind, un: tr.un, water: tr.water, flooded: tr.flooded, produced: append([]float64(nil), st.produced...), slope: slope, vm: vm}
 	ns := ReservoirState{P: p2, Cum: s.Cum, OutletPerWet: s.OutletPerWet, Exhausted: exhausted, x: next}
-	if tr.produced > 0 {
+	for i, v := range tr.out {
+		next.produced[i] += v
+	}
+	if tr.produced > 0 && streams {
 		z := make([]float64, m.n)
 		for i, v := range tr.out {
-			next.produced[i] += v
 			z[i] = v / tr.produced
 		}
 		sr, err := m.sep.Separate(z)
