@@ -674,12 +674,12 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 		} else if stalled++; stalled == 6 {
 			return V, it, res, false
 		}
+		for i := 0; i < n; i++ { // the right-hand side, −S g
+			w.g[i] = -sg[i] * w.r[i]
+		}
 		if chord {
 			// The chord step: the last Hessian's factor, kept, on the new
 			// gradient (see below).
-			for i := 0; i < n; i++ {
-				w.g[i] = -sg[i] * w.r[i]
-			}
 			cholSubst(w.H[:n*n], n, w.g)
 		} else if !w.newtonHessian(z, V, L) {
 			return V, it, res, false
@@ -755,16 +755,15 @@ func (w *work) newtonSplit(t, p float64, z []float64, beta float64) (float64, in
 }
 
 // newtonHessian is a full Newton step of newtonSplit from the split in w.v,
-// w.l (phases w.y, w.x evaluated in w.pb, w.pa, gradient w.r, totals V and
-// L): the step into w.g, false when none is found.
+// w.l (phases w.y, w.x evaluated in w.pb, w.pa, totals V and L): the
+// right-hand side in w.g becomes the step, false when none is found.
 func (w *work) newtonHessian(z []float64, V, L float64) bool {
 	n := w.n
 	sg := w.sgn
 	w.fl.derivs(&w.pb, &w.ts, w.y, dN)
 	w.fl.derivs(&w.pa, &w.ts, w.x, dN)
 	// The Hessian in the unknowns, S H S with S = diag(sg), symmetric:
-	// the lower triangle, mirrored. newtonStep turns the right-hand side
-	// −S g in w.g into the step.
+	// the lower triangle, mirrored.
 	H := w.H[n*n : 2*n*n]
 	c, iV, iL := 1/(V*L), 1/V, 1/L
 	for i := 0; i < n; i++ {
@@ -777,7 +776,6 @@ func (w *work) newtonHessian(z []float64, V, L float64) bool {
 		if z[i] > 0 {
 			H[i*n+i] += c * z[i] / (w.x[i] * w.y[i])
 		}
-		w.g[i] = -si * w.r[i]
 	}
 	for i := 0; i < n; i++ { // an absent component: an identity row and column
 		if z[i] == 0 {
