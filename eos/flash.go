@@ -293,7 +293,8 @@ func (w *work) splitUnstable(t, p float64, z []float64) (bool, int) {
 	for i, zi := range z {
 		w.d[i] = math.Inf(-1)
 		if zi > 0 {
-			w.d[i] = math.Log(w.bx[i]) + w.pb.lnphi[i]
+			w.lnBX[i] = math.Log(w.bx[i])
+			w.d[i] = w.lnBX[i] + w.pb.lnphi[i]
 		}
 	}
 	// the feed's trial phases, where they stopped: tm < 0 at any
@@ -307,23 +308,23 @@ func (w *work) splitUnstable(t, p float64, z []float64) (bool, int) {
 	iter := 0
 	for i, zi := range z {
 		if zi > 0 {
-			w.lnBX[i], w.lnBY[i] = math.Log(w.bx[i]), math.Log(w.by[i])
+			w.lnBY[i] = math.Log(w.by[i])
 		}
 	}
 	w.nearRef = splitNearRef
 	defer func() { w.nearRef = 0 }()
+	w.wilson(t, p) // the trials leave w.lnK alone: once for both starts
 	for k := 0; k < 2; k++ {
-		ref, sgn := w.by, 1.0
+		lnRef, sgn := w.lnBY, 1.0
 		if k == 1 {
-			ref, sgn = w.bx, -1
+			lnRef, sgn = w.lnBX, -1
 		}
-		w.wilson(t, p)
 		for i, zi := range z {
 			if zi > 0 {
-				w.lnW[i] = math.Log(ref[i]) + sgn*w.lnK[i]
+				w.lnW[i] = lnRef[i] + sgn*w.lnK[i]
 			}
 		}
-		r := w.trial(p, z, ref, true)
+		r := w.trial(p, z, lnRef, true)
 		iter += r.iter
 		if r.unstable && !sameTrial(z, w.W, w.bx) && !sameTrial(z, w.W, w.by) {
 			copy(w.tw, w.W)
@@ -343,7 +344,7 @@ func (w *work) splitUnstable(t, p float64, z []float64) (bool, int) {
 			}
 		}
 		w.lnW[k] = 0
-		r := w.trial(p, z, z, true)
+		r := w.trial(p, z, w.lnZ, true) // ln z_i from the flash's prepareFeed
 		iter += r.iter
 		if r.unstable && !sameTrial(z, w.W, w.bx) && !sameTrial(z, w.W, w.by) {
 			copy(w.tw, w.W)

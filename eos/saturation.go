@@ -622,11 +622,13 @@ func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64, guard
 		for i := 0; i < n; i++ {
 			w.wn[i] = w.W[i] / sumW
 		}
-		fl.evalPhase(&w.feed, &w.ts, p, z, rootMinG, dN|dP)
-		fl.evalPhase(&w.pa, &w.ts, p, w.wn, rootMinG, dN|dP)
+		// The derivatives (the feed's in pressure alone, the incipient
+		// phase's in pressure and composition) only once the point is known
+		// to take a Newton step from (below).
+		fl.evalPhase(&w.feed, &w.ts, p, z, rootMinG, 0)
+		fl.evalPhase(&w.pa, &w.ts, p, w.wn, rootMinG, 0)
 		res := 0.0
 		triv := 0.0
-		H := w.H[:m*m]
 		for i := 0; i < n; i++ {
 			F := w.lnK[i] + w.pa.lnphi[i] - w.feed.lnphi[i]
 			if z[i] == 0 {
@@ -635,24 +637,9 @@ func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64, guard
 			w.rhs[i] = -F
 			res = max(res, math.Abs(F))
 			triv += w.lnK[i] * w.lnK[i]
-			for j := 0; j < n; j++ {
-				H[i*m+j] = w.pa.dn[i*n+j] * w.W[j] / sumW
-			}
-			H[i*m+i] += 1
-			H[i*m+n] = p * (w.pa.dp[i] - w.feed.dp[i])
-			if z[i] == 0 {
-				for j := 0; j < m; j++ {
-					H[i*m+j] = 0
-				}
-				H[i*m+i] = 1
-			}
 		}
 		Fs := sumW - 1
 		w.rhs[n] = -Fs
-		for j := 0; j < n; j++ {
-			H[n*m+j] = w.W[j]
-		}
-		H[n*m+n] = 0
 		res = max(res, math.Abs(Fs))
 		if guarded && res > prevRes && cuts < 10 {
 			// the step raised the residual: take half of it instead
@@ -671,11 +658,32 @@ func (w *work) satNewton(t float64, z []float64, p0 float64, w0 []float64, guard
 			return Saturation{}, it, false
 		}
 		if res < w.tol {
+			fl.derivs(&w.pa, &w.ts, w.wn, dN) // for the test of the minimum
 			if !w.trialMinimum(z, sumW) {
 				return Saturation{}, it, false // a saddle of tm, not the incipient phase
 			}
 			return w.saturation(t, p, z, it, res), it, true
 		}
+		fl.derivs(&w.feed, &w.ts, z, dP)
+		fl.derivs(&w.pa, &w.ts, w.wn, dN|dP)
+		H := w.H[:m*m]
+		for i := 0; i < n; i++ {
+			for j := 0; j < n; j++ {
+				H[i*m+j] = w.pa.dn[i*n+j] * w.W[j] / sumW
+			}
+			H[i*m+i] += 1
+			H[i*m+n] = p * (w.pa.dp[i] - w.feed.dp[i])
+			if z[i] == 0 {
+				for j := 0; j < m; j++ {
+					H[i*m+j] = 0
+				}
+				H[i*m+i] = 1
+			}
+		}
+		for j := 0; j < n; j++ {
+			H[n*m+j] = w.W[j]
+		}
+		H[n*m+n] = 0
 		if !luSolve(H, m, w.rhs) {
 			return Saturation{}, it, false
 		}

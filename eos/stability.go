@@ -42,12 +42,15 @@ type trialResult struct {
 	ok       bool // converged (or proved unstable early)
 }
 
-// prepareFeed evaluates the feed at p (temperature already set) and fills d.
+// prepareFeed evaluates the feed at p (temperature already set) and fills d
+// and w.lnZ (ln z_i, which the stability test's starts and its trials'
+// distance to the feed take).
 func (w *work) prepareFeed(p float64, z []float64) {
 	w.fl.evalPhase(&w.feed, &w.ts, p, z, rootMinG, 0)
 	for i, zi := range z {
 		if zi > 0 {
-			w.d[i] = math.Log(zi) + w.feed.lnphi[i]
+			w.lnZ[i] = math.Log(zi)
+			w.d[i] = w.lnZ[i] + w.feed.lnphi[i]
 		} else {
 			w.d[i] = math.Inf(-1)
 		}
@@ -64,26 +67,24 @@ func (w *work) prepareFeed(p float64, z []float64) {
 // trial's.
 func (w *work) stability(p float64, z []float64, early bool) (liq, vap trialResult) {
 	t := w.ts.t
-	w.wilson(t, p)
-	lnz := w.lnZ // ln z_i, the same for both starts
+	w.wilson(t, p) // the trials leave w.lnK alone: once for both starts
+	lnz := w.lnZ   // set by prepareFeed
 	for i, zi := range z {
 		if zi > 0 {
-			lnz[i] = math.Log(zi)
 			w.lnW[i] = lnz[i] - w.lnK[i]
 		}
 	}
-	liq = w.trial(p, z, z, early)
+	liq = w.trial(p, z, lnz, early)
 	copy(w.wLiq, w.W)
 	if early && liq.unstable {
 		return liq, trialResult{}
 	}
-	w.wilson(t, p)
 	for i, zi := range z {
 		if zi > 0 {
 			w.lnW[i] = lnz[i] + w.lnK[i]
 		}
 	}
-	vap = w.trial(p, z, z, early)
+	vap = w.trial(p, z, lnz, early)
 	copy(w.wVap, w.W)
 	if w.thorough && !liq.unstable && !vap.unstable {
 		if pt, ok := w.pureTrials(p, z); ok {
@@ -126,7 +127,7 @@ func (w *work) pureTrials(p float64, z []float64) (trialResult, bool) {
 			}
 		}
 		w.lnW[k] = 0
-		last = w.trial(p, z, z, true)
+		last = w.trial(p, z, w.lnZ, true)
 		if last.unstable {
 			return last, true
 		}
@@ -137,20 +138,15 @@ func (w *work) pureTrials(p float64, z []float64) (trialResult, bool) {
 // trial minimises tm from the start in w.lnW against the tangent plane in
 // w.d and leaves the normalised trial composition in w.wn. The trial has
 // collapsed onto the trivial solution when it reaches ref (the feed, or the
-// phase of a split it started from); z marks the components present.
-func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
+// phase of a split it started from), given as lnRef, its ln ref_i; z marks
+// the components present.
+func (w *work) trial(p float64, z, lnRef []float64, early bool) trialResult {
 	n := w.n
 	fl := w.fl
 	ph := &w.pa
 	var res trialResult
 	tmPrev := math.Inf(1)
 	newton := false
-	lnRef := w.lnRef // ln ref_i once: ref does not change during the trial
-	for i := 0; i < n; i++ {
-		if z[i] > 0 {
-			lnRef[i] = math.Log(ref[i])
-		}
-	}
 	for it := 1; it <= w.max; it++ {
 		res.iter = it
 		sumW := 0.0
@@ -189,11 +185,10 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 				dist += dd * dd
 			}
 		}
-		want := deriv(0)
-		if newton {
-			want = dN
-		}
-		fl.evalPhase(ph, &w.ts, p, w.wn, rootMinG, want)
+		// The derivatives only where a Newton step is taken (below): the
+		// trial ends, or falls back to substitution, on most evaluations
+		// that would otherwise compute them for nothing.
+		fl.evalPhase(ph, &w.ts, p, w.wn, rootMinG, 0)
 		tm := 1.0
 		rmax := 0.0
 		for i := 0; i < n; i++ {
@@ -240,6 +235,7 @@ func (w *work) trial(p float64, z, ref []float64, early bool) trialResult {
 			continue
 		}
 		// Newton step in α = 2√W.
+		fl.derivs(ph, &w.ts, w.wn, dN)
 		H := w.H[n*n : 2*n*n]
 		sq := w.sqW // √W_j once per step instead of once per element
 		for j := 0; j < n; j++ {

@@ -28,13 +28,11 @@ type work struct {
 	bx, by, tw    []float64 // flash: the best split so far (liquid, vapour), a trial phase against it
 	lnBX, lnBY    []float64 // their logarithms, while the split is tested
 	inc           []float64 // saturation: the incipient phase Newton starts from
+	sqW           []float64 // trial's scratch: √W_i of a Newton step
+	lnZ           []float64 // ln z_i of the feed prepareFeed evaluated
 	// The last stability test that found the feed unstable (stableAt): its
 	// pressure, composition and the trial phase of lower tm, so that refine
 	// need not run the same test again at the bracket's unstable end.
-	// trial's scratch: ln ref_i, constant through a trial, and √W_i of a
-	// Newton step
-	lnRef, sqW       []float64
-	lnZ              []float64 // stability's ln z_i, for both of its starts
 	lastUnP          float64
 	lastUnT          float64
 	lastUnZ          []float64
@@ -78,7 +76,7 @@ func newWork(fl *Fluid, s *Settings) *work {
 		bx: vec(), by: vec(), tw: vec(), lnBX: vec(), lnBY: vec(),
 		lnK: vec(), lnK1: vec(), lnK2: vec(), lnKss: vec(),
 		K: vec(), x: vec(), y: vec(), r: vec(), g: vec(), s: vec(),
-		v: vec(), l: vec(), sgn: vec(), lnRef: vec(), sqW: vec(), lnZ: vec(),
+		v: vec(), l: vec(), sgn: vec(), sqW: vec(), lnZ: vec(),
 		H:   make([]float64, max((n+2)*(n+2), 2*n*n)),
 		rhs: make([]float64, n+2),
 	}
