@@ -15,16 +15,20 @@ import "math"
 // when it is denser than the feed and a bubble point when it is lighter.
 
 const (
-	satPStart  = 60e6  // Pa: first pressure of the downward scan (about 8700 psia)
-	satPMaxUp  = 400e6 // Pa: highest pressure tried when the feed is unstable at satPStart
-	satPMin    = 1e3   // Pa: lowest pressure searched
-	satScan    = 0.85  // ratio of successive scan pressures
-	satLowScan = 0.8   // bracket ratio of the scan below an upper dew point
-	// satLowCoarse: ratio of successive pressures of that scan, which a
-	// bisection then narrows to satLowScan (the feed stays two-phase all the
-	// way from the upper to the lower dew point of a gas condensate).
+	satPStart = 60e6  // Pa: first pressure of the downward scan (about 8700 psia)
+	satPMaxUp = 400e6 // Pa: highest pressure tried when the feed is unstable at satPStart
+	satPMin   = 1e3   // Pa: lowest pressure searched
+	satScan   = 0.85  // ratio of successive scan pressures
+	// satLowCoarse: ratio of successive pressures of the scan below an
+	// upper dew point (the feed stays two-phase all the way from the upper
+	// to the lower dew point of a gas condensate).
 	satLowCoarse = 0.4
-	satBracket   = 1.01 // bisect on stability until the bracket ratio is below this
+	// satNewtonBracket: Newton's method on the saturation equations is first
+	// tried from the unstable end of a bracket no wider than this ratio (the
+	// scans' brackets, 1/satScan and 1/satLowCoarse), before any bisection;
+	// a root it finds is accepted only as the edge of stability (refine).
+	satNewtonBracket = 3.0
+	satBracket       = 1.01 // bisect on stability until the bracket ratio is below this
 	// satNearCritical: within this many kelvin of the feed's critical
 	// temperature the upper saturation point is first sought along the
 	// envelope through the critical point (Saturator.nearCritical).
@@ -345,8 +349,8 @@ func (s *Saturator) Lower(t float64, z []float64, pUpper float64) (Saturation, e
 	if hi == 0 {
 		return Saturation{}, &SolveError{Op: "LowerDewPoint", Iter: iter, Err: ErrNoSaturation}
 	}
-	// Down in coarse steps, then bisect (in ln P) until the bracket is as
-	// narrow as one step of satLowScan.
+	// Down in coarse steps to the first stable pressure; refine goes on
+	// from that bracket.
 	lo := hi
 	for {
 		lo *= satLowCoarse
@@ -361,14 +365,6 @@ func (s *Saturator) Lower(t float64, z []float64, pUpper float64) (Saturation, e
 			break
 		}
 		hi = lo
-	}
-	for lo/hi < satLowScan {
-		mid := math.Sqrt(lo * hi)
-		if w.stableEarly(mid, z, &iter) {
-			lo = mid
-		} else {
-			hi = mid
-		}
 	}
 	// Here hi is unstable and lo stable: the mirror image of the upper search.
 	return w.refine(t, z, hi, lo, iter, "LowerDewPoint")
@@ -407,9 +403,9 @@ func (w *work) stableAt(p float64, z []float64, iter *int) bool {
 }
 
 // refine converges a saturation point between pUn, where the feed is
-// unstable, and pSt, where it is stable. It bisects on stability until the
-// bracket is narrow, then runs Newton from the trial phase found at pUn. A
-// Newton solution is accepted only when the feed is stable just beyond it
+// unstable, and pSt, where it is stable. It runs Newton from the trial phase
+// found at pUn: at once where the bracket is no wider than satNewtonBracket,
+// otherwise after a first bisection on stability. A Newton solution is accepted only when the feed is stable just beyond it
 // (1e-5 relative, towards pSt): the saturation equations also hold at
 // points inside the two-phase region close to a critical point, where the
 // incipient phase hardly differs from the feed. A Newton solve that fails,
@@ -445,7 +441,7 @@ func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op str
 		unstableAt(pUn)
 	}
 	for attempt := 0; attempt < 60; attempt++ {
-		if max(pUn, pSt)/min(pUn, pSt) < satBracket || attempt > 0 {
+		if max(pUn, pSt)/min(pUn, pSt) < satNewtonBracket || attempt > 0 {
 			sat, it, ok := w.satNewton(t, z, pUn, inc, false)
 			iter += it
 			lo, hi := min(pUn, pSt), max(pUn, pSt)
