@@ -9,6 +9,10 @@ import "math"
 // a is n×n row-major and is overwritten; b is overwritten by x. It reports
 // false when a is singular to working precision.
 func luSolve(a []float64, n int, b []float64) bool {
+	// The loops run over row slices, as in cholSolve, so that the compiler
+	// drops their bounds checks; the arithmetic is that of the indexed loops.
+	a = a[:n*n]
+	b = b[:n]
 	for k := 0; k < n; k++ {
 		piv, big := k, math.Abs(a[k*n+k])
 		for i := k + 1; i < n; i++ {
@@ -19,30 +23,41 @@ func luSolve(a []float64, n int, b []float64) bool {
 		if big == 0 || math.IsNaN(big) {
 			return false
 		}
+		rk := a[k*n : k*n+n]
 		if piv != k {
-			for j := 0; j < n; j++ {
-				a[k*n+j], a[piv*n+j] = a[piv*n+j], a[k*n+j]
+			rp := a[piv*n : piv*n+n]
+			rp = rp[:len(rk)]
+			for j, v := range rk {
+				rk[j], rp[j] = rp[j], v
 			}
 			b[k], b[piv] = b[piv], b[k]
 		}
-		inv := 1 / a[k*n+k]
+		inv := 1 / rk[k]
+		tail := rk[k+1:]
+		bk := b[k]
 		for i := k + 1; i < n; i++ {
-			m := a[i*n+k] * inv
+			ri := a[i*n : i*n+n]
+			m := ri[k] * inv
 			if m == 0 {
 				continue
 			}
-			for j := k + 1; j < n; j++ {
-				a[i*n+j] -= m * a[k*n+j]
+			ti := ri[k+1:]
+			ti = ti[:len(tail)]
+			for j, v := range tail {
+				ti[j] -= m * v
 			}
-			b[i] -= m * b[k]
+			b[i] -= m * bk
 		}
 	}
 	for i := n - 1; i >= 0; i-- {
+		ri := a[i*n+i : i*n+n]
+		bt := b[i+1:]
+		bt = bt[:len(ri)-1]
 		s := b[i]
-		for j := i + 1; j < n; j++ {
-			s -= a[i*n+j] * b[j]
+		for j, v := range bt {
+			s -= ri[j+1] * v
 		}
-		b[i] = s / a[i*n+i]
+		b[i] = s / ri[0]
 	}
 	return true
 }
