@@ -39,6 +39,13 @@ const (
 	// satTrivialK: an incipient phase with every |ln K_i| below this (0.01 %
 	// from the feed) cannot be told from the feed.
 	satTrivialK = 1e-4
+	// satFarK: an incipient phase with some |ln K_i| at or above this (a
+	// K-value of e or 1/e) is far from the feed. The saturation equations'
+	// roots inside the two-phase region, next to the edge of stability,
+	// have an incipient phase hardly different from the feed (a saddle of
+	// tm near a critical point); refine does not test the feed at such a
+	// root itself, only just beyond it.
+	satFarK = 1.0
 )
 
 // A Saturator keeps the scratch space for repeated saturation-point solves of
@@ -445,7 +452,7 @@ func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op str
 			sat, it, ok := w.satNewton(t, z, pUn, inc, false)
 			iter += it
 			lo, hi := min(pUn, pSt), max(pUn, pSt)
-			if ok && sat.P >= lo*(1-1e-9) && sat.P <= hi*(1+1e-9) && unstableAt(sat.P) {
+			if ok && sat.P >= lo*(1-1e-9) && sat.P <= hi*(1+1e-9) && !farFromFeed(sat.Incipient, z) && unstableAt(sat.P) {
 				// the feed is unstable at the root itself: it lies inside
 				// the two-phase region, next to the limit of stability,
 				// where the saturation equations also hold close to a
@@ -484,6 +491,17 @@ func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op str
 		}
 	}
 	return Saturation{}, &SolveError{Op: op, Iter: iter, Err: ErrNoConvergence}
+}
+
+// farFromFeed reports whether incipient phase x differs from feed z by a
+// K-value of satFarK or more in the logarithm.
+func farFromFeed(x, z []float64) bool {
+	for i, zi := range z {
+		if zi > 0 && math.Abs(math.Log(x[i]/zi)) >= satFarK {
+			return true
+		}
+	}
+	return false
 }
 
 // fromBracket returns the saturation point at p (Pa) with incipient phase
