@@ -343,24 +343,34 @@ func (s *Saturator) Lower(t float64, z []float64, pUpper float64) (Saturation, e
 	}
 	w.fl.setT(&w.ts, t)
 	iter := 0
-	// Start just inside the two-phase region below the upper point; close
-	// to the cricondentherm the region is narrow, so come closer to the
-	// upper point until the feed is unstable.
-	hi := 0.0
-	for _, f := range []float64{0.995, 0.999, 0.9999, 0.99999, 0.999999} {
-		if !w.stableEarly(pUpper*f, z, &iter) {
-			hi = pUpper * f
-			break
+	// A gas condensate is two-phase far below its upper dew point: the scan
+	// starts one coarse step below it. Where the feed is stable there, the
+	// region is narrow (close to the cricondentherm): the search comes
+	// closer to the upper point until the feed is unstable, and the first
+	// pressure is the bracket's stable end.
+	hi, lo := 0.0, 0.0
+	if first := pUpper * satLowCoarse; first >= satPMin {
+		if w.stableEarly(first, z, &iter) {
+			lo = first
+		} else {
+			hi = first
 		}
 	}
 	if hi == 0 {
-		return Saturation{}, &SolveError{Op: "LowerDewPoint", Iter: iter, Err: ErrNoSaturation}
+		for _, f := range []float64{0.995, 0.999, 0.9999, 0.99999, 0.999999} {
+			if !w.stableEarly(pUpper*f, z, &iter) {
+				hi = pUpper * f
+				break
+			}
+		}
+		if hi == 0 {
+			return Saturation{}, &SolveError{Op: "LowerDewPoint", Iter: iter, Err: ErrNoSaturation}
+		}
 	}
 	// Down in coarse steps to the first stable pressure; refine goes on
 	// from that bracket.
-	lo := hi
-	for {
-		lo *= satLowCoarse
+	for lo == 0 {
+		lo = hi * satLowCoarse
 		if lo < satPMin {
 			lo = satPMin
 			if !w.stableEarly(lo, z, &iter) {
@@ -368,10 +378,9 @@ func (s *Saturator) Lower(t float64, z []float64, pUpper float64) (Saturation, e
 			}
 			break
 		}
-		if w.stableEarly(lo, z, &iter) {
-			break
+		if !w.stableEarly(lo, z, &iter) {
+			hi, lo = lo, 0
 		}
-		hi = lo
 	}
 	// Here hi is unstable and lo stable: the mirror image of the upper search.
 	return w.refine(t, z, hi, lo, iter, "LowerDewPoint")
