@@ -4,9 +4,9 @@ import "math"
 
 // Saturation pressures at fixed temperature (METHODS 7.6, 7.7): the pressure
 // axis is scanned downward with the stability test until the feed first turns
-// unstable, the bracket is narrowed by bisection on stability, and Newton's
-// method on (ln K_1 … ln K_n, ln P) polishes the point from the converged
-// trial phase,
+// unstable, and Newton's method on (ln K_1 … ln K_n, ln P) solves for the
+// point from the converged trial phase at the bracket's unstable end, the
+// bracket narrowed by bisection on stability where Newton fails,
 //
 //	F_i     = ln K_i + ln φ_i(w) − ln φ_i(z) = 0,   w_i = z_i K_i (incipient phase)
 //	F_{n+1} = Σ_i z_i K_i − 1 = 0
@@ -421,8 +421,10 @@ func (w *work) stableAt(p float64, z []float64, iter *int) bool {
 // refine converges a saturation point between pUn, where the feed is
 // unstable, and pSt, where it is stable. It runs Newton from the trial phase
 // found at pUn: at once where the bracket is no wider than satNewtonBracket,
-// otherwise after a first bisection on stability. A Newton solution is accepted only when the feed is stable just beyond it
-// (1e-5 relative, towards pSt): the saturation equations also hold at
+// otherwise after a first bisection on stability. A Newton solution is
+// accepted only when the feed is stable just beyond it (1e-5 relative,
+// towards pSt) and, where the incipient phase is close to the feed (not
+// farFromFeed), at the root itself: the saturation equations also hold at
 // points inside the two-phase region close to a critical point, where the
 // incipient phase hardly differs from the feed. A Newton solve that fails,
 // leaves the bracket or lands inside the region narrows the bracket and tries
