@@ -389,13 +389,32 @@ func (s *Saturator) Lower(t float64, z []float64, pUpper float64) (Saturation, e
 // stableEarly is stableAt for a scan through the two-phase region: the test
 // stops at the first trial point of negative tangent-plane distance, which
 // proves instability as well as a converged one does, so the verdict is the
-// same and the test much shorter. It keeps no trial phase (refine runs the
-// test at the unstable end of the bracket again, converged).
+// same and the test much shorter. Where the feed is unstable it keeps the
+// trial phase where the test stopped, as stableAt does its converged one:
+// refine starts Newton from it, which needs no converged start (from the
+// lower dew point's scan, one coarse step of 0.4 away in pressure, Newton
+// takes as many iterations from either).
 func (w *work) stableEarly(p float64, z []float64, iter *int) bool {
 	w.prepareFeed(p, z)
 	liq, vap := w.stability(p, z, true)
 	*iter += liq.iter + vap.iter
-	return !liq.unstable && !vap.unstable
+	stable := !liq.unstable && !vap.unstable
+	if !stable {
+		w.keepUnstable(p, z, liq, vap)
+	}
+	return stable
+}
+
+// keepUnstable keeps the trial phase of lower tm of the stability test at p
+// that found z unstable, for refine to start Newton from.
+func (w *work) keepUnstable(p float64, z []float64, liq, vap trialResult) {
+	w.lastUnP, w.lastUnT = p, w.ts.t
+	w.lastUnZ = append(w.lastUnZ[:0], z...)
+	if liq.unstable && (!vap.unstable || liq.tm <= vap.tm) {
+		w.lastUnW = append(w.lastUnW[:0], w.wLiq...)
+	} else {
+		w.lastUnW = append(w.lastUnW[:0], w.wVap...)
+	}
 }
 
 // stableAt runs a full stability test of z at p, temperature already set.
@@ -405,15 +424,7 @@ func (w *work) stableAt(p float64, z []float64, iter *int) bool {
 	*iter += liq.iter + vap.iter
 	stable := !liq.unstable && !vap.unstable
 	if !stable {
-		// Kept for refine, which starts from this test's trial phase.
-		w.lastUnP, w.lastUnT = p, w.ts.t
-		w.lastUnZ = append(w.lastUnZ[:0], z...)
-		if liq.unstable && (!vap.unstable || liq.tm <= vap.tm) {
-			w.lastUnW = append(w.lastUnW[:0], w.wLiq...)
-		} else {
-			w.lastUnW = append(w.lastUnW[:0], w.wVap...)
-		}
-		w.lastUnIter = liq.iter + vap.iter
+		w.keepUnstable(p, z, liq, vap) // for refine
 	}
 	return stable
 }
@@ -451,8 +462,10 @@ func (w *work) refine(t float64, z []float64, pUn, pSt float64, iter int, op str
 		return true
 	}
 	// The stability test at pUn is the search's last unstable one, whose
-	// trial phase stableAt kept (the tests start from Wilson's K-values
-	// every time, so running it again gives the same phase).
+	// trial phase stableAt or stableEarly kept (the tests start from
+	// Wilson's K-values every time, so running stableAt's again gives the
+	// same phase; stableEarly's stopped short of convergence, which Newton
+	// does not need).
 	if w.lastUnP == pUn && w.lastUnT == w.ts.t && len(w.lastUnZ) == len(z) && sameVector(w.lastUnZ, z) {
 		copy(inc, w.lastUnW)
 	} else {

@@ -30,14 +30,14 @@ type work struct {
 	inc           []float64 // saturation: the incipient phase Newton starts from
 	sqW           []float64 // trial's scratch: √W_i of a Newton step
 	lnZ           []float64 // ln z_i of the feed prepareFeed evaluated
-	// The last stability test that found the feed unstable (stableAt): its
-	// pressure, composition and the trial phase of lower tm, so that refine
-	// need not run the same test again at the bracket's unstable end.
+	// The last stability test that found the feed unstable (stableAt,
+	// stableEarly): its pressure, composition and the trial phase of lower
+	// tm, so that refine need not run a test again at the bracket's unstable
+	// end.
 	lastUnP          float64
 	lastUnT          float64
 	lastUnZ          []float64
 	lastUnW          []float64
-	lastUnIter       int
 	lnK, lnK1, lnK2  []float64 // current and two previous ln K (GDEM)
 	lnKss            []float64 // the plain substitution step before a GDEM jump
 	K, x, y, r, g, s []float64
