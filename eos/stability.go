@@ -96,13 +96,14 @@ func (w *work) stability(p float64, z []float64, early bool) (liq, vap trialResu
 }
 
 // pureTrials runs, after stability has found feed z stable from the Wilson
-// starts, up to three more trials from nearly pure components: the heaviest
-// present (by critical temperature), the lightest and the one of median
-// critical temperature. A dense feed can be unstable
-// towards a liquid that the Wilson starts, both close to the feed at high
-// pressure, never reach (a liquid–liquid split); pure-component trial
-// phases are a common choice for such splits. It returns the first
-// trial that shows instability, its mole numbers left in w.W.
+// starts (and after prepareFeed, whose w.lnZ its trials take), up to three
+// more trials from nearly pure components: the heaviest present (by
+// critical temperature), the lightest and the one of median critical
+// temperature. A dense feed can be unstable towards a liquid that the Wilson
+// starts, both close to the feed at high pressure, never reach (a
+// liquid–liquid split); pure-component trial phases are a common choice for
+// such splits. It returns the first trial that shows instability, its mole
+// numbers left in w.W.
 func (w *work) pureTrials(p float64, z []float64) (trialResult, bool) {
 	hi, lo := -1, -1
 	for i, zi := range z {
