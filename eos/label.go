@@ -39,7 +39,7 @@ type critCache struct {
 // pseudo-critical values when it has none.
 func (w *work) critical(x []float64) (tc, vc float64) {
 	c := &w.crit
-	if !c.set || !roundOffApart(c.z, x) {
+	if !c.set || !sameButRoundOff(c.z, x) {
 		if c.z == nil {
 			c.z = make([]float64, w.n)
 		}
@@ -84,12 +84,12 @@ func (w *work) singleLabel(t, v float64, x []float64) Phase {
 	return Vapour
 }
 
-// roundOffApart reports whether a and b agree within 1e-12 relative in
+// sameButRoundOff reports whether a and b agree within 1e-12 relative in
 // every element: the same composition but for the round-off of being
 // normalised again (a depletion cell above its saturation point gives up
 // moles of its own composition at every step), whose critical point is the
 // same to that accuracy.
-func roundOffApart(a, b []float64) bool {
+func sameButRoundOff(a, b []float64) bool {
 	for i := range a {
 		if math.Abs(a[i]-b[i]) > 1e-12*math.Max(math.Abs(a[i]), math.Abs(b[i])) {
 			return false
